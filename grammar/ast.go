@@ -1,0 +1,272 @@
+package grammar
+
+// This file is the tree. The tags are the grammar (participle builds the
+// parser from them); each statement kind has its own root so that the parser
+// can be chosen from the statement's first word.
+
+// Stmt is one statement: a logical line of the file.
+type Stmt interface {
+	Node
+	// Keyword is the statement's leading word ("feature", "frame", ...).
+	Keyword() string
+	stmt()
+}
+
+// Name is an identifier as written, with its span.
+type Name struct {
+	node
+	Value string `parser:"@(Ident | Member)"`
+}
+
+// Word is a keyword-like value (a kind, a characteristic, a unit) that may
+// also be written as a Unicode symbol.
+type Word struct {
+	node
+	Value string `parser:"@(Ident | Symbol | Dia | SDia)"`
+}
+
+// Number is a numeric literal kept as written, so the formatter can keep
+// the drafter's digits; the model converts it.
+type Number struct {
+	node
+	Text string `parser:"@Number"`
+}
+
+// Vector is a parenthesised triple: a point or a direction vector.
+type Vector struct {
+	node
+	X *Number `parser:"'(' @@ ','"`
+	Y *Number `parser:"@@ ','"`
+	Z *Number `parser:"@@ ')'"`
+}
+
+// Direction is a signed axis (+x ... -z) or a vector.
+type Direction struct {
+	node
+	Axis   string  `parser:"  @Dir"`
+	Vector *Vector `parser:"| @@"`
+}
+
+// Modifier is a parenthesised modifier such as (M), with the value that
+// (P) and (U) take.
+type Modifier struct {
+	node
+	Symbol string  `parser:"@Modifier"`
+	Value  *Number `parser:"@@?"`
+}
+
+// RefModifier is a material boundary modifier on a datum reference.
+type RefModifier struct {
+	node
+	Symbol string `parser:"@Modifier"`
+}
+
+// Size is a size or a toleranced dimension value in any written form.
+type Size struct {
+	node
+	Nominal   *Number      `parser:"@@"`
+	Deg       bool         `parser:"@'deg'?"`
+	PlusMinus *Number      `parser:"( PlusMinus @@"`
+	Upper     *Number      `parser:"| @@"`
+	Slash     bool         `parser:"  @'/'?"`
+	Lower     *Number      `parser:"  @@"`
+	Limit     *Number      `parser:"| Range @@ )?"`
+	Envelope  *RefModifier `parser:"@@?"`
+}
+
+// Count is a pattern count: 4x or 4 x.
+type Count struct {
+	node
+	N *Number `parser:"@@ ('x' | 'X')"`
+}
+
+// Geometry is a feature's nominal geometry. The grammar here is loose on
+// purpose (any order of direction, 'at', points and names after the leading
+// word); check.go then says precisely what is missing or misplaced, which
+// reads better to a drafter than a parser's list of expected tokens.
+type Geometry struct {
+	node
+	Word   *GeomWord  `parser:"@@"`
+	Dir    *Direction `parser:"@@?"`
+	At     *AtWord    `parser:"@@?"`
+	Points []*Vector  `parser:"@@*"`
+	Faces  []*Name    `parser:"@@*"`
+}
+
+// GeomWord is the word that opens a geometry.
+type GeomWord struct {
+	node
+	Value string `parser:"@('normal' | 'axis' | 'along' | 'at' | 'between')"`
+}
+
+// AtWord is the 'at' that introduces points after a direction.
+type AtWord struct {
+	node
+	Value string `parser:"@'at'"`
+}
+
+// --- statements -----------------------------------------------------------
+
+// PartStmt: part "name".
+type PartStmt struct {
+	node
+	Title string `parser:"'part' @String"`
+}
+
+// UnitsStmt: units mm|in.
+type UnitsStmt struct {
+	node
+	Unit *Word `parser:"'units' @@"`
+}
+
+// StandardStmt: standard asme-2018|asme-2009|iso.
+type StandardStmt struct {
+	node
+	Standard *Word `parser:"'standard' @@"`
+}
+
+// FeatureStmt declares a feature of the model.
+type FeatureStmt struct {
+	node
+	Name     *Name     `parser:"'feature' @@"`
+	Kind     *Word     `parser:"@@"`
+	Count    *Count    `parser:"@@?"`
+	Size     *Size     `parser:"( 'size' @@ )?"`
+	Geometry *Geometry `parser:"@@?"`
+}
+
+// DatumStmt attaches a datum feature symbol.
+type DatumStmt struct {
+	node
+	Letter    *Name `parser:"'datum' @@"`
+	Target    *Name `parser:"'on' @@"`
+	Placement *Word `parser:"( 'placed' @@ )?"`
+}
+
+// Tolerance is one segment of a control frame.
+type Tolerance struct {
+	node
+	Zone      *Word       `parser:"@@?"`
+	Value     *Number     `parser:"@@"`
+	Modifiers []*Modifier `parser:"@@*"`
+	Datums    []*DatumRef `parser:"( 'datums' @@ ( ',' @@ )* )?"`
+}
+
+// DatumRef is one datum reference: a letter or a common datum (A-B),
+// optionally at MMB or LMB.
+type DatumRef struct {
+	node
+	Name      string         `parser:"@Ident"`
+	Modifiers []*RefModifier `parser:"@@*"`
+}
+
+// Composite is the lower segment of a composite frame.
+type Composite struct {
+	node
+	Tolerance *Tolerance `parser:"'composite' @@"`
+}
+
+// FrameStmt is a feature control frame.
+type FrameStmt struct {
+	node
+	Target         *Name        `parser:"'frame' @@ ':'"`
+	Characteristic *Word        `parser:"@@"`
+	Tolerance      *Tolerance   `parser:"@@"`
+	Composites     []*Composite `parser:"@@*"`
+}
+
+// BoltCircle is the notation's extension for a basic diameter of the
+// circle through a pattern's axes about a datum axis.
+type BoltCircle struct {
+	node
+	Zone    *Word   `parser:"@@"`
+	Value   *Number `parser:"@@"`
+	Pattern *Name   `parser:"'through' @@"`
+	About   *Name   `parser:"'about' @@"`
+}
+
+// BasicStmt is a basic (theoretically exact) dimension.
+type BasicStmt struct {
+	node
+	Circle *BoltCircle `parser:"'basic' ( @@"`
+	Value  *Number     `parser:"| @@"`
+	Deg    bool        `parser:"  @'deg'?"`
+	From   *Name       `parser:"  'from' @@"`
+	To     *Name       `parser:"  'to' @@"`
+	Along  *Direction  `parser:"  ( 'along' @@ )?"`
+	About  *Name       `parser:"  ( 'about' @@ )? )"`
+}
+
+// DimStmt is a directly toleranced dimension.
+type DimStmt struct {
+	node
+	Size  *Size      `parser:"'dim' @@"`
+	From  *Name      `parser:"'from' @@"`
+	To    *Name      `parser:"'to' @@"`
+	Along *Direction `parser:"( 'along' @@ )?"`
+}
+
+// BadStmt is a statement that did not parse. It keeps what could be
+// recovered (the first words) so that later checks do not cascade.
+type BadStmt struct {
+	node
+	Word string // the leading word, if any
+	Name string // the declared name or letter, if it could be read
+	Text string
+	Err  *SyntaxError
+	// Words are the names written in the statement, so that a datum letter
+	// named only in a broken frame does not also read as unused.
+	Words []string
+}
+
+func (*PartStmt) Keyword() string     { return "part" }
+func (*UnitsStmt) Keyword() string    { return "units" }
+func (*StandardStmt) Keyword() string { return "standard" }
+func (*FeatureStmt) Keyword() string  { return "feature" }
+func (*DatumStmt) Keyword() string    { return "datum" }
+func (*FrameStmt) Keyword() string    { return "frame" }
+func (*BasicStmt) Keyword() string    { return "basic" }
+func (*DimStmt) Keyword() string      { return "dim" }
+func (b *BadStmt) Keyword() string    { return b.Word }
+
+func (*PartStmt) stmt()     {}
+func (*UnitsStmt) stmt()    {}
+func (*StandardStmt) stmt() {}
+func (*FeatureStmt) stmt()  {}
+func (*DatumStmt) stmt()    {}
+func (*FrameStmt) stmt()    {}
+func (*BasicStmt) stmt()    {}
+func (*DimStmt) stmt()      {}
+func (*BadStmt) stmt()      {}
+
+// Comment is a # comment, kept for the formatter and for suppressions.
+type Comment struct {
+	Span Span
+	Text string // including the leading #
+	// Trailing is true when the comment ends a line that also holds code.
+	Trailing bool
+}
+
+// File is a parsed .callouts file.
+type File struct {
+	Name     string
+	Src      []byte
+	Stmts    []Stmt
+	Comments []*Comment
+	Errors   []*SyntaxError
+	// Lines maps each statement to the physical lines it spans.
+	Extents []Extent
+}
+
+// Extent is the range of physical lines (1-based, inclusive) a statement spans.
+type Extent struct {
+	First, Last int
+}
+
+// SyntaxError is a positioned error in what was written.
+type SyntaxError struct {
+	Span Span
+	Msg  string
+}
+
+func (e *SyntaxError) Error() string { return e.Span.Start.String() + ": " + e.Msg }

@@ -1,0 +1,136 @@
+package grammar
+
+import "fmt"
+
+// checkStmt makes the structural checks that the loose parts of the grammar
+// leave open: the order of a geometry's parts and the modifiers' letters.
+// Values (kinds, units, numbers) are the model's to judge.
+func checkStmt(st Stmt) []*SyntaxError {
+	var errs []*SyntaxError
+	add := func(n Span, format string, args ...any) {
+		errs = append(errs, &SyntaxError{Span: n, Msg: fmt.Sprintf(format, args...)})
+	}
+	switch s := st.(type) {
+	case *FeatureStmt:
+		if s.Geometry != nil {
+			checkGeometry(s.Geometry, add)
+		}
+		if s.Size != nil && s.Size.Envelope != nil {
+			if l := ModifierLetter(s.Size.Envelope.Symbol); l != "E" {
+				add(s.Size.Envelope.Span(), "only (E), the envelope requirement, may follow a size; found (%s)", l)
+			}
+		}
+	case *FrameStmt:
+		checkTolerance(s.Tolerance, add)
+		for _, c := range s.Composites {
+			checkTolerance(c.Tolerance, add)
+		}
+	case *DimStmt:
+		if s.Size.Envelope != nil {
+			add(s.Size.Envelope.Span(), "(E) belongs to a feature's size, not to a location dimension")
+		}
+	}
+	return errs
+}
+
+func checkGeometry(g *Geometry, add func(Span, string, ...any)) {
+	w := g.Word.Value
+	// where the next thing after the word stands, for "expected" messages
+	after := func() Span {
+		switch {
+		case g.Dir != nil:
+			return g.Dir.Span()
+		case g.At != nil:
+			return g.At.Span()
+		case len(g.Points) > 0:
+			return g.Points[0].Span()
+		case len(g.Faces) > 0:
+			return g.Faces[0].Span()
+		}
+		e := g.Word.Span().End
+		return Span{e, Pos{e.Line, e.Col + 1}}
+	}
+	switch w {
+	case "normal", "axis", "along":
+		switch {
+		case g.Dir == nil:
+			add(after(), wantDirection, w)
+		case g.At == nil:
+			sp := g.Dir.Span()
+			if len(g.Points) > 0 {
+				sp = g.Points[0].Span()
+			}
+			add(sp, "expected 'at' and a point after the direction, e.g. %s %s at (0, 0, 0)", w, "+z")
+		case len(g.Points) == 0:
+			add(after(), wantPoint)
+		}
+		if len(g.Faces) > 0 {
+			add(g.Faces[0].Span(), "unexpected '%s' after the points", g.Faces[0].Value)
+		}
+	case "at":
+		if g.Dir != nil {
+			if g.Dir.Vector != nil {
+				// "at (x, y, z)": the parser took the first point for a direction.
+				g.Points = append([]*Vector{g.Dir.Vector}, g.Points...)
+				g.Dir = nil
+			} else {
+				add(g.Dir.Span(), "a direction does not belong after 'at': write e.g. 'axis %s at (0, 0, 0)'", g.Dir.Axis)
+			}
+		}
+		if g.At != nil {
+			add(g.At.Span(), "'at' is written once, followed by the points")
+		}
+		if len(g.Points) == 0 && len(g.Faces) == 0 {
+			add(after(), wantPoint)
+		}
+		if len(g.Faces) > 0 {
+			add(g.Faces[0].Span(), "expected a point such as (0, 0, 0), found '%s'", g.Faces[0].Value)
+		}
+	case "between":
+		if g.Dir != nil || g.At != nil || len(g.Points) > 0 {
+			add(after(), "'between' takes the names of the two plane features that bound the width, e.g. between upper lower")
+		} else if len(g.Faces) != 2 {
+			sp := g.Word.Span()
+			if len(g.Faces) > 2 {
+				sp = g.Faces[2].Span()
+			}
+			add(sp, "'between' takes exactly two plane features (found %d)", len(g.Faces))
+		}
+	}
+}
+
+var knownModifiers = map[string]string{
+	"M": "at maximum material condition",
+	"L": "at least material condition",
+	"F": "free state",
+	"T": "tangent plane",
+	"P": "projected tolerance zone",
+	"U": "unequally disposed profile",
+}
+
+func checkTolerance(t *Tolerance, add func(Span, string, ...any)) {
+	for _, m := range t.Modifiers {
+		l := ModifierLetter(m.Symbol)
+		if _, ok := knownModifiers[l]; !ok {
+			add(m.Span(), "unknown modifier (%s) in a frame: use (M), (L), (F), (T), (P) HEIGHT or (U) VALUE", l)
+			continue
+		}
+		switch {
+		case (l == "P" || l == "U") && m.Value == nil:
+			what := "the projected height, e.g. (P) 12"
+			if l == "U" {
+				what = "the offset toward the material's outside, e.g. (U) 0.2"
+			}
+			add(m.Span(), "(%s) takes a value: %s", l, what)
+		case l != "P" && l != "U" && m.Value != nil:
+			add(m.Value.Span(), "(%s) takes no value; a number after it has no meaning", l)
+		}
+	}
+	for _, d := range t.Datums {
+		for _, m := range d.Modifiers {
+			if l := ModifierLetter(m.Symbol); l != "M" && l != "L" {
+				add(m.Span(), "a datum reference takes only (M), at maximum material boundary, or (L), at least material boundary; found (%s)", l)
+			}
+		}
+	}
+}

@@ -1,0 +1,165 @@
+package model
+
+// Kind is what sort of feature a feature is (the contract's feature table).
+type Kind int
+
+const (
+	KindUnknown Kind = iota
+	Plane
+	Slot
+	Tab
+	Hole
+	Pin
+	Socket
+	Ball
+	Cone
+	Extrusion
+	Surface
+)
+
+var kindNames = []string{"unknown", "plane", "slot", "tab", "hole", "pin", "socket", "ball", "cone", "extrusion", "surface"}
+
+// KindWords lists the feature kinds as written.
+var KindWords = kindNames[1:]
+
+func (k Kind) String() string { return kindNames[k] }
+
+// ParseKind reads a kind word.
+func ParseKind(w string) Kind {
+	for i, n := range kindNames[1:] {
+		if n == w {
+			return Kind(i + 1)
+		}
+	}
+	return KindUnknown
+}
+
+// IsFOS reports whether the kind is a feature of size (ASME Y14.5-2018,
+// definitions: feature of size; ISO 14405-1 features of linear size).
+func (k Kind) IsFOS() bool {
+	switch k {
+	case Slot, Tab, Hole, Pin, Socket, Ball:
+		return true
+	}
+	return false
+}
+
+// Internal reports whether the material is outside the feature (a slot, a
+// hole, a socket): its MMC is its smallest size.
+func (k Kind) Internal() bool { return k == Slot || k == Hole || k == Socket }
+
+// IsWidth reports whether the kind is two opposed parallel faces.
+func (k Kind) IsWidth() bool { return k == Slot || k == Tab }
+
+// IsCylinder reports whether the kind is a cylinder.
+func (k Kind) IsCylinder() bool { return k == Hole || k == Pin }
+
+// IsSphere reports whether the kind is a sphere.
+func (k Kind) IsSphere() bool { return k == Socket || k == Ball }
+
+// DatumGives names what a datum on this kind is: the contract's last column.
+func (k Kind) DatumGives() string {
+	switch k {
+	case Plane:
+		return "plane"
+	case Slot, Tab:
+		return "mid-plane"
+	case Hole, Pin:
+		return "axis"
+	case Socket, Ball:
+		return "centre point"
+	case Cone:
+		return "axis and apex point"
+	case Extrusion:
+		return "frame free along its direction"
+	case Surface:
+		return "full frame"
+	}
+	return "unknown"
+}
+
+// Units of the file.
+type Units int
+
+const (
+	UnitsUnknown Units = iota
+	MM
+	Inch
+)
+
+func (u Units) String() string {
+	switch u {
+	case MM:
+		return "mm"
+	case Inch:
+		return "in"
+	}
+	return "unknown"
+}
+
+// Standard is the governing standard edition.
+type Standard int
+
+const (
+	StandardUnknown Standard = iota
+	ASME2018
+	ASME2009
+	ISO
+)
+
+// StandardWords lists the editions as written.
+var StandardWords = []string{"asme-2018", "asme-2009", "iso"}
+
+func (s Standard) String() string {
+	switch s {
+	case ASME2018:
+		return "asme-2018"
+	case ASME2009:
+		return "asme-2009"
+	case ISO:
+		return "iso"
+	}
+	return "unknown"
+}
+
+// IsASME reports whether an ASME edition governs (the envelope rule, Rule
+// #1, is the default principle there; ISO 8015 independency otherwise).
+func (s Standard) IsASME() bool { return s == ASME2018 || s == ASME2009 }
+
+// Characteristic is a geometric characteristic, spelled as in the contract.
+type Characteristic string
+
+// Category groups characteristics as ASME Y14.5-2018 and ISO 1101 do.
+type Category int
+
+const (
+	CategoryUnknown Category = iota
+	Form
+	Profile
+	Orientation
+	Location
+	Runout
+)
+
+func (c Characteristic) Category() Category {
+	switch c {
+	case "straightness", "flatness", "circularity", "cylindricity":
+		return Form
+	case "line-profile", "surface-profile":
+		return Profile
+	case "angularity", "perpendicularity", "parallelism":
+		return Orientation
+	case "position", "concentricity", "symmetry":
+		return Location
+	case "circular-runout", "total-runout":
+		return Runout
+	}
+	return CategoryUnknown
+}
+
+func (c Category) String() string {
+	return [...]string{"unknown", "form", "profile", "orientation", "location", "runout"}[c]
+}
+
+// Placements of a datum feature symbol on the sheet.
+var PlacementWords = []string{"on-surface", "on-extension-line", "on-dimension-line", "on-frame"}

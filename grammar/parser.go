@@ -1,0 +1,245 @@
+package grammar
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"strings"
+	"unicode/utf8"
+
+	"github.com/alecthomas/participle/v2"
+	"github.com/alecthomas/participle/v2/lexer"
+)
+
+func build[T any]() *participle.Parser[T] {
+	return participle.MustBuild[T](
+		participle.Lexer(lexerDef),
+		participle.Elide("Whitespace"),
+		participle.UseLookahead(2),
+	)
+}
+
+// One parser per statement kind: the first word chooses, which keeps
+// error messages about the statement the drafter meant to write.
+var (
+	partParser     = build[PartStmt]()
+	unitsParser    = build[UnitsStmt]()
+	standardParser = build[StandardStmt]()
+	featureParser  = build[FeatureStmt]()
+	datumParser    = build[DatumStmt]()
+	frameParser    = build[FrameStmt]()
+	basicParser    = build[BasicStmt]()
+	dimParser      = build[DimStmt]()
+)
+
+// Keywords lists the words a statement may start with.
+var Keywords = []string{"part", "units", "standard", "feature", "datum", "frame", "basic", "dim"}
+
+// Parse reads a whole .callouts file. It never fails: every statement that
+// does not parse becomes a BadStmt with a SyntaxError, and the rest of the
+// file is still read, so one typo does not hide the findings of the others.
+func Parse(name string, src []byte) *File {
+	f := &File{Name: name, Src: src}
+	body := bytes.TrimPrefix(src, []byte("\xef\xbb\xbf")) // a byte-order mark is not content
+	if looksBinary(body) {
+		f.Errors = append(f.Errors, &SyntaxError{
+			Span: Span{Pos{1, 1}, Pos{1, 2}},
+			Msg:  "this file holds binary data (a NUL byte), not callout text; check that the right file was named",
+		})
+		return f
+	}
+	lines := splitLines(body)
+	for _, ln := range lines {
+		if ln.comment != "" {
+			f.Comments = append(f.Comments, &Comment{
+				Span:     Span{Pos{ln.num, ln.cmtCol}, Pos{ln.num, ln.cmtCol + utf8.RuneCountInString(ln.comment)}},
+				Text:     ln.comment,
+				Trailing: strings.TrimSpace(ln.code) != "",
+			})
+		}
+	}
+	for _, rs := range splitStatements(lines) {
+		st := parseStmt(name, rs)
+		f.Stmts = append(f.Stmts, st)
+		f.Extents = append(f.Extents, Extent{rs.first, rs.last})
+		if b, ok := st.(*BadStmt); ok {
+			f.Errors = append(f.Errors, b.Err)
+		} else {
+			f.Errors = append(f.Errors, checkStmt(st)...)
+		}
+	}
+	return f
+}
+
+func looksBinary(b []byte) bool {
+	n := len(b)
+	if n > 8000 {
+		n = 8000
+	}
+	return bytes.IndexByte(b[:n], 0) >= 0
+}
+
+// token is a significant token with its absolute span.
+type token struct {
+	lexer.Token
+	span Span
+}
+
+// lexStmt lexes one statement and moves its tokens to file positions.
+func lexStmt(name string, rs rawStmt) (all []lexer.Token, sig []token, eof lexer.Token, err *SyntaxError) {
+	if bad := badText(rs); bad != nil {
+		return nil, nil, eof, bad
+	}
+	lx, lerr := lexerDef.LexString(name, rs.text)
+	if lerr != nil {
+		return nil, nil, eof, &SyntaxError{Span: Span{Pos{rs.first, 1}, Pos{rs.first, 2}}, Msg: lerr.Error()}
+	}
+	for {
+		t, e := lx.Next()
+		if e != nil {
+			var pe interface{ Position() lexer.Position }
+			pos, at := Pos{rs.first, 1}, 0
+			if errors.As(e, &pe) {
+				p := pe.Position()
+				pos, at = Pos{rs.first + p.Line - 1, p.Column}, p.Offset
+			}
+			r, _ := utf8.DecodeRuneInString(rs.text[min(len(rs.text), max(0, at)):])
+			return nil, nil, eof, &SyntaxError{
+				Span: Span{pos, Pos{pos.Line, pos.Col + 1}},
+				Msg:  fmt.Sprintf("unexpected character %q: it has no meaning in the callout notation", r),
+			}
+		}
+		t.Pos.Line += rs.first - 1
+		t.Pos.Offset += rs.offset
+		t.Pos.Filename = name
+		if t.EOF() {
+			eof = t
+			break
+		}
+		all = append(all, t)
+		if t.Type != tokWhitespace {
+			end := t.Pos
+			end.Advance(t.Value)
+			sig = append(sig, token{t, Span{Pos{t.Pos.Line, t.Pos.Column}, Pos{end.Line, end.Column}}})
+		}
+	}
+	return all, sig, eof, nil
+}
+
+// badText finds bytes that are not text: invalid UTF-8 and control
+// characters, which would otherwise surface as puzzling lexer errors.
+func badText(rs rawStmt) *SyntaxError {
+	line, col := rs.first, 1
+	for i := 0; i < len(rs.text); {
+		r, w := utf8.DecodeRuneInString(rs.text[i:])
+		switch {
+		case r == '\n':
+			line, col = line+1, 1
+			i += w
+			continue
+		case r == utf8.RuneError && w == 1:
+			return &SyntaxError{Span: Span{Pos{line, col}, Pos{line, col + 1}},
+				Msg: fmt.Sprintf("invalid UTF-8 byte 0x%02x: save the file as UTF-8 (ASCII is always enough)", rs.text[i])}
+		case r < 0x20 && r != '\t' && r != '\r' && r != '\f' && r != '\v':
+			return &SyntaxError{Span: Span{Pos{line, col}, Pos{line, col + 1}},
+				Msg: fmt.Sprintf("control character U+%04X in the text: remove it", r)}
+		}
+		i += w
+		col++
+	}
+	return nil
+}
+
+func parseStmt(name string, rs rawStmt) Stmt {
+	all, sig, eof, lerr := lexStmt(name, rs)
+	if lerr != nil {
+		return bad(rs, sig, lerr)
+	}
+	if len(sig) == 0 { // cannot happen: blank lines are not statements
+		return bad(rs, sig, &SyntaxError{Span: Span{Pos{rs.first, 1}, Pos{rs.first, 1}}, Msg: "empty statement"})
+	}
+	first := sig[0]
+	var (
+		st  Stmt
+		err error
+	)
+	pl := func() *lexer.PeekingLexer {
+		p, _ := lexer.Upgrade(&sliceLexer{toks: all, eof: eof}, tokWhitespace)
+		return p
+	}
+	switch first.Value {
+	case "part":
+		st, err = run(partParser, pl())
+	case "units":
+		st, err = run(unitsParser, pl())
+	case "standard":
+		st, err = run(standardParser, pl())
+	case "feature":
+		st, err = run(featureParser, pl())
+	case "datum":
+		st, err = run(datumParser, pl())
+	case "frame":
+		st, err = run(frameParser, pl())
+	case "basic":
+		st, err = run(basicParser, pl())
+	case "dim":
+		st, err = run(dimParser, pl())
+	case "composite":
+		return bad(rs, sig, &SyntaxError{Span: first.span,
+			Msg: "a 'composite' line is the lower segment of a frame: put it directly under the 'frame' line it belongs to"})
+	default:
+		msg := fmt.Sprintf("unknown statement %s: a statement starts with %s", describe(first.Token), strings.Join(Keywords, ", "))
+		if s := suggest(first.Value, Keywords); s != "" {
+			msg = fmt.Sprintf("unknown statement %s; did you mean '%s'?", describe(first.Token), s)
+		}
+		return bad(rs, sig, &SyntaxError{Span: first.span, Msg: msg})
+	}
+	if err != nil {
+		return bad(rs, sig, friendly(err, sig, eof))
+	}
+	return st
+}
+
+func run[T any](p *participle.Parser[T], pl *lexer.PeekingLexer) (Stmt, error) {
+	v, err := p.ParseFromLexer(pl)
+	if err != nil {
+		return nil, err
+	}
+	if s, ok := any(v).(Stmt); ok {
+		return s, nil
+	}
+	return nil, fmt.Errorf("internal: %T is not a statement", v)
+}
+
+func bad(rs rawStmt, sig []token, err *SyntaxError) *BadStmt {
+	b := &BadStmt{Text: rs.text, Err: err}
+	b.Pos = lexer.Position{Line: rs.first, Column: 1}
+	b.EndPos = lexer.Position{Line: rs.last, Column: 1 + utf8.RuneCountInString(lastLine(rs.text))}
+	if len(sig) > 0 {
+		b.Word = sig[0].Value
+		if len(sig) > 1 && (sig[1].Type == tokIdent) {
+			b.Name = sig[1].Value
+		}
+		for _, t := range sig[1:] {
+			if t.Type == tokIdent {
+				b.Words = append(b.Words, t.Value)
+			}
+		}
+	}
+	return b
+}
+
+func lastLine(s string) string {
+	if i := strings.LastIndexByte(s, '\n'); i >= 0 {
+		return s[i+1:]
+	}
+	return s
+}
+
+// describe names a token for a message.
+func describe(t lexer.Token) string {
+	if t.EOF() {
+		return "the end of the statement"
+	}
+	return "'" + t.Value + "'"
+}
