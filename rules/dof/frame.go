@@ -1,0 +1,144 @@
+package dof
+
+import "math"
+
+// Twist is a small rigid motion: a rotation W and a translation V at the
+// part's origin, in the part's own units, so that a point x moves with
+// V + W×x (a twist in the sense of screw theory; Murray, Li and Sastry, A
+// Mathematical Introduction to Robotic Manipulation, 1994, chapter 2).
+type Twist struct{ W, V Vec }
+
+// Motion is a twist with the name the command-line contract prints for it:
+// "translation x", "rotation z", "translation (a, b, c)" or
+// "rotation (a, b, c) through (x, y, z)".
+type Motion struct {
+	Twist Twist
+	Name  string
+}
+
+// Frame says how to normalise the part before any rank decision: lengths
+// are measured from Center in units of Scale (the part's size). With it the
+// same part gives the same answer in millimetres or inches, at the origin or
+// a kilometre away. Scale <= 0 (or not finite) means 1; a non-finite Center
+// component means 0.
+type Frame struct {
+	Center Vec
+	Scale  float64
+}
+
+func (f Frame) sanitized() Frame {
+	if !(f.Scale > 0) || math.IsInf(f.Scale, 0) {
+		f.Scale = 1
+	}
+	for i, x := range f.Center {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			f.Center[i] = 0
+		}
+	}
+	return f
+}
+
+// point maps a part point to normalised coordinates x' = (x − c)/L.
+func (f Frame) point(p Vec) Vec {
+	f = f.sanitized()
+	return scale(sub(p, f.Center), 1/f.Scale)
+}
+
+// in maps a twist to normalised coordinates. A point's velocity V + W×x
+// divided by L, written in x', is (V + W×c)/L + W×x'.
+func (f Frame) in(t Twist) []float64 {
+	f = f.sanitized()
+	v := scale(add(t.V, cross(t.W, f.Center)), 1/f.Scale)
+	return []float64{t.W[0], t.W[1], t.W[2], v[0], v[1], v[2]}
+}
+
+// out is the inverse of in: V = L·v' − W×c.
+func (f Frame) out(x []float64) Twist {
+	f = f.sanitized()
+	w := Vec{x[0], x[1], x[2]}
+	v := sub(scale(Vec{x[3], x[4], x[5]}, f.Scale), cross(w, f.Center))
+	return Twist{W: w, V: v}
+}
+
+// Datum is one datum reference: one surface, or several whose conditions
+// all hold at once (a common datum A-B, a pattern of holes used as one
+// datum).
+type Datum []Surface
+
+// Step is what one datum reference, in precedence order, does to the part's
+// freedom.
+type Step struct {
+	// Constrains is the number of degrees of freedom this reference newly
+	// removes: dim F(k−1) − dim F(k).
+	Constrains int
+	// Removed is a basis of motions free before this reference and not
+	// after it (together with Free it spans the earlier free space).
+	Removed []Motion
+	// Free is a basis of the motions still free after this reference.
+	Free []Motion
+}
+
+// DRF is an analysed datum reference frame. It keeps the free subspace after
+// each reference so that many tolerance zones can be checked against it
+// without repeating the analysis. It is not changed after Analyze returns,
+// so one DRF may be shared by goroutines.
+type DRF struct {
+	frame  Frame
+	spaces []space // free subspace after 0, 1, … n references (normalised)
+	steps  []Step
+	free   []Motion
+}
+
+// Analyze computes, reference by reference in precedence order, the
+// subspace of small motions that every datum so far leaves unchanged:
+// F(k) = F(k−1) ∩ S(k), where S(k) is the invariance subspace of the k-th
+// reference (Clément, Rivière, Serré and Valade's TTRS model; Srinivasan,
+// Computer-Aided Design 31, 1999). Each reference's conditions are restricted
+// to an orthonormal basis of F(k−1) and the null space taken by SVD, so a
+// reference that repeats what earlier ones fixed removes nothing.
+//
+// Analyze never panics. Surfaces that are not Valid contribute no
+// conditions, and an empty Datum removes nothing.
+func (f Frame) Analyze(refs []Datum) *DRF {
+	f = f.sanitized()
+	d := &DRF{frame: f}
+	free := identity(6)
+	d.spaces = append(d.spaces, free)
+	for _, ref := range refs {
+		var rows [][]float64
+		for _, s := range ref {
+			rows = append(rows, s.conditions(f)...)
+		}
+		next := restrict(free, rows)
+		d.steps = append(d.steps, Step{
+			Constrains: len(free) - len(next),
+			Removed:    f.readable(free, next),
+			Free:       f.readable(next, nil),
+		})
+		free = next
+		d.spaces = append(d.spaces, free)
+	}
+	d.free = f.readable(free, nil)
+	return d
+}
+
+// orDefault lets a nil *DRF behave as a frame with no references.
+func (d *DRF) orDefault() *DRF {
+	if d == nil || len(d.spaces) == 0 {
+		return Frame{}.Analyze(nil)
+	}
+	return d
+}
+
+// Steps returns one Step per reference, in precedence order.
+func (d *DRF) Steps() []Step {
+	d = d.orDefault()
+	return append([]Step(nil), d.steps...)
+}
+
+// Free returns a basis of the motions the whole frame leaves free; its
+// length is the number of degrees of freedom left.
+func (d *DRF) Free() []Motion {
+	d = d.orDefault()
+	return append([]Motion(nil), d.free...)
+}

@@ -1,0 +1,149 @@
+package dof
+
+import "math"
+
+// Vec is a point or a direction in the part's coordinates.
+type Vec = [3]float64
+
+// Class is the invariance class of a nominal surface (ISO 5459:2011, the
+// seven classes of the TTRS model less the revolute one, which a datum
+// feature in this notation never is). It decides which small motions leave
+// the surface unchanged, and so how many a datum on it can remove.
+type Class int
+
+// The zero Class is deliberately not a class: a Surface left unset
+// contributes no conditions instead of silently acting as a plane.
+const (
+	Plane     Class = iota + 1 // a plane, or the mid-plane of a slot or tab
+	Cylinder                   // the axis of a hole or pin
+	Sphere                     // the centre of a socket or ball
+	Cone                       // the axis and apex of a cone
+	Prismatic                  // a linear extruded shape, free only along its direction
+	Complex                    // a free-form surface: no motion leaves it unchanged
+)
+
+var classNames = [...]string{"unknown", "plane", "cylinder", "sphere", "cone", "prismatic", "complex"}
+
+func (c Class) String() string {
+	if c < 0 || int(c) >= len(classNames) {
+		return classNames[0]
+	}
+	return classNames[c]
+}
+
+// Surface is the nominal geometry a datum or a tolerance zone is built on.
+// Dir is the normal (Plane), the axis (Cylinder, Cone) or the extrusion
+// direction (Prismatic); it is normalised here and its sign does not matter.
+// Point is a point on the plane, on the axis, the centre (Sphere) or the apex
+// (Cone); Complex ignores both.
+type Surface struct {
+	Class Class
+	Dir   Vec
+	Point Vec
+}
+
+// Valid reports whether the surface carries enough geometry to state its
+// conditions. An invalid surface (unknown class, a zero or non-finite
+// direction where one is needed, a non-finite point) contributes no
+// conditions: a datum made only of such surfaces removes nothing, which the
+// caller can report, rather than something this package would have to guess.
+func (s Surface) Valid() bool {
+	switch s.Class {
+	case Complex:
+		return true
+	case Sphere:
+		return finite(s.Point)
+	case Plane, Cylinder, Cone, Prismatic:
+		n := norm(s.Dir)
+		return finite(s.Point) && n > 0 && !math.IsInf(n, 0) && !math.IsNaN(n)
+	}
+	return false
+}
+
+// conditions returns the linear conditions r·ξ = 0 on a normalised twist
+// ξ = (ω, v) that hold exactly when the motion leaves the surface unchanged
+// (its invariance subspace, ISO 5459:2011 and Srinivasan 1999). With t1, t2
+// perpendicular to the direction d and p the surface's point:
+//
+//	plane      ω·t1 = ω·t2 = 0,  d·(v + ω×p) = 0
+//	cylinder   ω·ti = 0,         ti·(v + ω×p) = 0
+//	sphere     v + ω×p = 0
+//	cone       ω·ti = 0,         v + ω×p = 0
+//	prismatic  ω = 0,            v·ti = 0
+//	complex    ξ = 0
+//
+// The identity a·(ω×p) = ω·(p×a) turns each into a row (p×a, a).
+func (s Surface) conditions(f Frame) [][]float64 {
+	if !s.Valid() {
+		return nil
+	}
+	p := f.point(s.Point)
+	d := unit(s.Dir)
+	t1, t2 := perpendiculars(d)
+	rot := func(a Vec) []float64 { return []float64{a[0], a[1], a[2], 0, 0, 0} }
+	trans := func(a Vec) []float64 { return []float64{0, 0, 0, a[0], a[1], a[2]} }
+	at := func(a Vec) []float64 { // a·(v + ω×p)
+		m := cross(p, a)
+		return []float64{m[0], m[1], m[2], a[0], a[1], a[2]}
+	}
+	axes := []Vec{{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}
+	switch s.Class {
+	case Plane:
+		return [][]float64{rot(t1), rot(t2), at(d)}
+	case Cylinder:
+		return [][]float64{rot(t1), rot(t2), at(t1), at(t2)}
+	case Sphere:
+		return [][]float64{at(axes[0]), at(axes[1]), at(axes[2])}
+	case Cone:
+		return [][]float64{rot(t1), rot(t2), at(axes[0]), at(axes[1]), at(axes[2])}
+	case Prismatic:
+		return [][]float64{rot(axes[0]), rot(axes[1]), rot(axes[2]), trans(t1), trans(t2)}
+	case Complex:
+		return identity(6)
+	}
+	return nil
+}
+
+// perpendiculars returns two unit vectors completing d to an orthonormal
+// frame. Which two does not matter: only the subspace they span enters the
+// conditions. Crossing with the axis least aligned with d keeps it well
+// conditioned.
+func perpendiculars(d Vec) (Vec, Vec) {
+	k := 0
+	for i := 1; i < 3; i++ {
+		if math.Abs(d[i]) < math.Abs(d[k]) {
+			k = i
+		}
+	}
+	var e Vec
+	e[k] = 1
+	t1 := unit(cross(d, e))
+	return t1, cross(d, t1)
+}
+
+func cross(a, b Vec) Vec {
+	return Vec{a[1]*b[2] - a[2]*b[1], a[2]*b[0] - a[0]*b[2], a[0]*b[1] - a[1]*b[0]}
+}
+
+func norm(a Vec) float64 { return math.Sqrt(a[0]*a[0] + a[1]*a[1] + a[2]*a[2]) }
+
+func unit(a Vec) Vec {
+	n := norm(a)
+	if n == 0 {
+		return a
+	}
+	return Vec{a[0] / n, a[1] / n, a[2] / n}
+}
+
+func sub(a, b Vec) Vec           { return Vec{a[0] - b[0], a[1] - b[1], a[2] - b[2]} }
+func add(a, b Vec) Vec           { return Vec{a[0] + b[0], a[1] + b[1], a[2] + b[2]} }
+func scale(a Vec, k float64) Vec { return Vec{a[0] * k, a[1] * k, a[2] * k} }
+
+func finite(a Vec) bool {
+	for _, x := range a {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return false
+		}
+	}
+	return true
+}

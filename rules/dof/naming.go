@@ -1,0 +1,203 @@
+package dof
+
+import (
+	"math"
+	"strconv"
+	"strings"
+)
+
+// readable returns motions that, together with k, span s (k ⊂ s, both
+// normalised): a basis of a complement of k in s chosen to read well rather
+// than an orthogonal one, which would mix rotations and translations in ways
+// that depend on the normalisation. Pure translations come first (they are
+// the part of s with ω = 0), snapped to the coordinate axes when an axis lies
+// in s; then one rotation per remaining direction of ω(s), again preferring
+// the axes, each with as little translation as s allows so that it names as
+// a rotation about an axis through a point.
+func (f Frame) readable(s, k space) []Motion {
+	ss, ks := splitSpace(s), splitSpace(k)
+	var out []Motion
+	for _, t := range pick(ss.trans, ks.trans) {
+		out = append(out, f.motion(Twist{V: t}))
+	}
+	for _, w := range pick(ss.rot, ks.rot) {
+		tw := f.out(ss.lift(w))
+		// Any free translation may be added to the rotation without
+		// leaving s; taking away its projection leaves the twist with the
+		// smallest translation at the origin: the axis through the point
+		// nearest the origin, and no pitch along it when that slide is free.
+		for _, t := range ss.trans {
+			tw.V = sub(tw.V, scale(t, dot(tw.V[:], t[:])))
+		}
+		out = append(out, f.motion(tw))
+	}
+	return out
+}
+
+// pick chooses len(a) − len(covered) unit vectors in span(a) that, with
+// covered, span it: first the coordinate axes x, y, z that lie in span(a)
+// and are not yet spanned, then, while more are needed, the axis whose
+// projection onto span(a) reaches furthest outside what is already spanned
+// (that residual, normalised). The result depends only on the subspaces, not
+// on the bases the SVD happened to return, so names are deterministic.
+func pick(a, covered [][3]float64) [][3]float64 {
+	need := len(a) - len(covered)
+	if need <= 0 {
+		return nil
+	}
+	var q [][3]float64 // orthonormal basis of covered + chosen
+	for _, c := range covered {
+		if r, n := residual(c, q); n > pickTol {
+			q = append(q, scale(r, 1/n))
+		}
+	}
+	var chosen [][3]float64
+	axes := [3]Vec{{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}
+	for _, e := range axes {
+		if len(chosen) == need {
+			return chosen
+		}
+		if _, out := residual(e, a); out > rankTol {
+			continue // not in span(a)
+		}
+		if r, n := residual(e, q); n > pickTol {
+			chosen = append(chosen, e)
+			q = append(q, scale(r, 1/n))
+		}
+	}
+	for len(chosen) < need {
+		best, bestN := Vec{}, 0.0
+		for _, e := range axes {
+			p := sub(e, mustResidual(e, a)) // projection of e onto span(a)
+			if r, n := residual(p, q); n > bestN+1e-12 {
+				best, bestN = scale(r, 1/n), n
+			}
+		}
+		if bestN < 1e-9 {
+			break // only when the inputs disagree numerically; never loop forever
+		}
+		chosen = append(chosen, canonical(best))
+		q = append(q, best)
+	}
+	return chosen
+}
+
+// residual returns what is left of v after removing its components along
+// the orthonormal vectors q, and that remainder's length.
+func residual(v Vec, q [][3]float64) (Vec, float64) {
+	for _, b := range q {
+		v = sub(v, scale(b, dot(v[:], b[:])))
+	}
+	return v, norm(v)
+}
+
+func mustResidual(v Vec, q [][3]float64) Vec {
+	r, _ := residual(v, q)
+	return r
+}
+
+// canonical flips a direction so that its first component that prints as
+// non-zero is positive: a basis vector and its opposite name the same line.
+func canonical(v Vec) Vec {
+	for _, x := range v {
+		if math.Abs(x) >= 5e-7 {
+			if x < 0 {
+				return scale(v, -1)
+			}
+			return v
+		}
+	}
+	return v
+}
+
+// motion names a twist after clearing rounding dust (components below 1e-12
+// of the twist's size), so that a caller printing the twist itself sees 0
+// rather than 1e-17 or -0.
+func (f Frame) motion(t Twist) Motion {
+	f = f.sanitized()
+	wn := norm(t.W)
+	clean(&t.W, 1e-12*wn)
+	clean(&t.V, 1e-12*(norm(t.V)+wn*f.Scale))
+	return Motion{Twist: t, Name: f.Name(t)}
+}
+
+func clean(v *Vec, below float64) {
+	for i, x := range v {
+		if math.Abs(x) <= below {
+			v[i] = 0 // also turns -0 into 0
+		}
+	}
+}
+
+// Name returns the contract's name for a twist given in the part's
+// coordinates: "translation x" or "rotation z" for motions along or about
+// the part's axes through its origin, "translation (a, b, c)" with a unit
+// vector, or "rotation (a, b, c) through (x, y, z)" with the unit axis and
+// the axis point nearest the origin. Directions print to six decimals;
+// points to about six significant digits of the larger of the point and the
+// frame's Scale, so noise far below the part's size prints as 0. A twist
+// with both parts zero (or not finite) is "no motion". A screw with a pitch
+// (rotation and slide along the same axis) is named by its axis; none of the
+// invariance classes produces one.
+func (f Frame) Name(t Twist) string {
+	f = f.sanitized()
+	if !finite(t.W) || !finite(t.V) {
+		return "no motion"
+	}
+	wn, vn := norm(t.W), norm(t.V)
+	if wn == 0 || wn*f.Scale <= 1e-9*vn {
+		if vn == 0 {
+			return "no motion"
+		}
+		d := formatDir(canonical(scale(t.V, 1/vn)))
+		if a := axisName(d); a != "" {
+			return "translation " + a
+		}
+		return "translation " + d
+	}
+	w := scale(t.W, 1/wn)
+	p := cross(w, scale(t.V, 1/wn)) // (W × V)/|W|², the axis point nearest the origin
+	d := formatDir(canonical(w))
+	pt := formatPoint(p, f.Scale)
+	if a := axisName(d); a != "" && pt == "(0, 0, 0)" {
+		return "rotation " + a
+	}
+	return "rotation " + d + " through " + pt
+}
+
+func axisName(dir string) string {
+	switch dir {
+	case "(1, 0, 0)":
+		return "x"
+	case "(0, 1, 0)":
+		return "y"
+	case "(0, 0, 1)":
+		return "z"
+	}
+	return ""
+}
+
+func formatDir(v Vec) string { return formatVec(v, 6) }
+
+func formatPoint(p Vec, size float64) string {
+	ref := math.Max(math.Max(math.Abs(p[0]), math.Abs(p[1])), math.Max(math.Abs(p[2]), size))
+	dec := 5 - int(math.Floor(math.Log10(ref)))
+	return formatVec(p, min(max(dec, 0), 15))
+}
+
+func formatVec(v Vec, dec int) string {
+	return "(" + formatNum(v[0], dec) + ", " + formatNum(v[1], dec) + ", " + formatNum(v[2], dec) + ")"
+}
+
+// formatNum prints x with dec decimals, trailing zeros trimmed, and never
+// as "-0".
+func formatNum(x float64, dec int) string {
+	s := strconv.FormatFloat(x, 'f', dec, 64)
+	if strings.Contains(s, ".") {
+		s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
+	}
+	if s == "-0" {
+		s = "0"
+	}
+	return s
+}

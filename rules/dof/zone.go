@@ -1,0 +1,100 @@
+package dof
+
+// Zone describes a tolerance zone by what leaves it unchanged. A zone about
+// a feature has that feature's invariance (a cylindrical zone about a hole's
+// axis is invariant under rotation about and slide along the axis; a planar
+// zone like a plane; a spherical zone about its centre; a profile zone like
+// its surface). For a pattern, Surfaces lists every member and the
+// framework of zones is invariant only under what leaves all of them
+// unchanged. Extra adds motions under which the zone is also unchanged, in
+// the part's coordinates (for runout the zone may float along the datum
+// axis). OrientationOnly is for orientation tolerances, whose zone may
+// translate freely: only the rotations that turn it count.
+type Zone struct {
+	Surfaces        []Surface
+	Extra           []Twist
+	OrientationOnly bool
+}
+
+// ZoneResult says which of a frame's free motions move (or, for orientation
+// tolerances, turn) a zone.
+type ZoneResult struct {
+	// Free is a basis of the free motions, after the last reference, that
+	// move the zone: together with the free motions that leave the zone
+	// unchanged they span the frame's freedom. For orientation tolerances
+	// they are rotations about axes through the origin ("rotation x"), as
+	// only their direction matters.
+	Free []Motion
+	// PerStep[k] is the dimension of the zone-moving free motions after k
+	// references (k = 0 … n). A reference k with PerStep[k] == PerStep[k−1]
+	// fixes nothing more of the zone.
+	PerStep []int
+	// TranslationMoves reports that some pure translation left free by the
+	// frame moves the zone. Always false for orientation tolerances, which
+	// translations do not affect.
+	TranslationMoves bool
+}
+
+// Zone computes what of the frame's freedom moves the zone. With Z the
+// zone's invariance subspace, the motions of F that leave the zone unchanged
+// are F ∩ Z and those that move it are what F adds to them, of dimension
+// dim F − dim(F ∩ Z). For orientation tolerances the same is computed on
+// rotation parts: ω(F) against ω(Z). Invalid surfaces contribute no
+// conditions; a zone with none at all is unchanged by every motion.
+func (d *DRF) Zone(z Zone) ZoneResult {
+	d = d.orDefault()
+	f := d.frame
+	var rows [][]float64
+	for _, s := range z.Surfaces {
+		rows = append(rows, s.conditions(f)...)
+	}
+	gens := [][]float64(nullSpace(rows, 6))
+	for _, t := range z.Extra {
+		if finite(t.W) && finite(t.V) {
+			gens = append(gens, f.in(t))
+		}
+	}
+	inv := orth(gens, 6)
+	res := ZoneResult{PerStep: make([]int, len(d.spaces))}
+	last := len(d.spaces) - 1
+
+	if z.OrientationOnly {
+		notTurning := complementRows(space(vecs3(splitSpace(inv).rot)), 3)
+		for k, fk := range d.spaces {
+			wf := splitSpace(fk).rot
+			kept := restrict(space(vecs3(wf)), notTurning)
+			res.PerStep[k] = len(wf) - len(kept)
+			if k == last {
+				for _, w := range pick(wf, to3(kept)) {
+					res.Free = append(res.Free, f.motion(Twist{W: w}))
+				}
+			}
+		}
+		return res
+	}
+
+	notMoving := complementRows(inv, 6)
+	for k, fk := range d.spaces {
+		kept := restrict(fk, notMoving)
+		res.PerStep[k] = len(fk) - len(kept)
+		if k == last {
+			res.Free = f.readable(fk, kept)
+			// Translations are listed first and exactly span the free
+			// translations the zone is not invariant under.
+			for _, m := range res.Free {
+				if m.Twist.W == (Vec{}) {
+					res.TranslationMoves = true
+				}
+			}
+		}
+	}
+	return res
+}
+
+func to3(s space) [][3]float64 {
+	out := make([][3]float64, len(s))
+	for i, v := range s {
+		copy(out[i][:], v)
+	}
+	return out
+}
