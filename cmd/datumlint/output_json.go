@@ -1,0 +1,36 @@
+package main
+
+import (
+	"encoding/json"
+	"io"
+
+	"github.com/datumlint/datumlint/rules/lint"
+)
+
+// jsonFinding is the contract's JSON object for one finding.
+type jsonFinding struct {
+	File      string `json:"file"`
+	Line      int    `json:"line"`
+	Column    int    `json:"column"`
+	EndLine   int    `json:"end_line"`
+	EndColumn int    `json:"end_column"`
+	Rule      string `json:"rule"`
+	Severity  string `json:"severity"`
+	Message   string `json:"message"`
+}
+
+// writeJSON prints a JSON array, one object per finding, sorted by file,
+// line and column (suppressed findings are left out).
+func writeJSON(w io.Writer, res lint.Result) error {
+	out := []jsonFinding{}
+	for _, d := range visible(res.Diagnostics) {
+		out = append(out, jsonFinding{
+			File: d.File, Line: d.Span.Start.Line, Column: d.Span.Start.Col,
+			EndLine: d.Span.End.Line, EndColumn: d.Span.End.Col,
+			Rule: d.Rule, Severity: d.Severity.String(), Message: d.Message,
+		})
+	}
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(out)
+}

@@ -1,0 +1,93 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"strings"
+	"unicode/utf8"
+
+	"github.com/fatih/color"
+
+	"github.com/datumlint/datumlint/rules"
+	"github.com/datumlint/datumlint/rules/lint"
+)
+
+func setColor(mode string) error {
+	switch mode {
+	case "auto":
+		// fatih/color already turns colour off for NO_COLOR, TERM=dumb and
+		// output that is not a terminal.
+	case "always":
+		color.NoColor = os.Getenv("NO_COLOR") != ""
+	case "never":
+		color.NoColor = true
+	default:
+		return fmt.Errorf("--color takes auto, always or never, not %q", mode)
+	}
+	return nil
+}
+
+var (
+	sevColor = map[rules.Severity]*color.Color{
+		rules.Error:   color.New(color.FgRed, color.Bold),
+		rules.Warning: color.New(color.FgYellow, color.Bold),
+		rules.Info:    color.New(color.FgCyan),
+	}
+	posColor   = color.New(color.Bold)
+	ruleColor  = color.New(color.Faint)
+	caretColor = color.New(color.FgGreen, color.Bold)
+)
+
+// writeText prints each finding as file:line:col: severity rule: message,
+// then the source line and a caret underline of the span.
+func writeText(w io.Writer, res lint.Result) error {
+	lines := map[string][]string{}
+	for _, d := range visible(res.Diagnostics) {
+		src, ok := lines[d.File]
+		if !ok {
+			src = readLines(d.File)
+			lines[d.File] = src
+		}
+		sev := sevColor[d.Severity]
+		if sev == nil {
+			sev = color.New()
+		}
+		fmt.Fprintf(w, "%s %s %s %s\n",
+			posColor.Sprintf("%s:%d:%d:", d.File, d.Span.Start.Line, d.Span.Start.Col),
+			sev.Sprint(d.Severity.String()),
+			ruleColor.Sprint(d.Rule+":"),
+			d.Message)
+		if d.Span.Start.Line >= 1 && d.Span.Start.Line <= len(src) {
+			line := strings.TrimRight(src[d.Span.Start.Line-1], "\r")
+			if len(line) > 400 || !utf8.ValidString(line) {
+				continue // an overlong or binary line helps no one on a terminal
+			}
+			fmt.Fprintf(w, "    %s\n", line)
+			fmt.Fprintf(w, "    %s\n", caretColor.Sprint(underline(line, d.Span.Start.Col, d.Span.End.Col, d.Span.End.Line == d.Span.Start.Line)))
+		}
+	}
+	return nil
+}
+
+// underline builds "    ^^^^" under columns [from, to) of line, keeping
+// tabs so that the carets line up.
+func underline(line string, from, to int, sameLine bool) string {
+	runes := []rune(line)
+	if !sameLine || to <= from {
+		to = len(runes) + 1
+		if to <= from {
+			to = from + 1
+		}
+	}
+	var b strings.Builder
+	for i := 1; i < from; i++ {
+		if i-1 < len(runes) && runes[i-1] == '\t' {
+			b.WriteByte('\t')
+		} else {
+			b.WriteByte(' ')
+		}
+	}
+	b.WriteString(strings.Repeat("^", to-from))
+	return b.String()
+}

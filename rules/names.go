@@ -1,0 +1,83 @@
+package rules
+
+import (
+	"fmt"
+
+	"github.com/datumlint/datumlint/grammar/model"
+)
+
+// NameUndefined reports a name that no feature declares.
+var NameUndefined = Register(&Rule{
+	ID:       "name-undefined",
+	Summary:  "a frame, datum or dimension names a feature or member that does not exist",
+	Severity: Error,
+	Rationale: `Every control frame, datum feature symbol and dimension is attached to a feature of the
+part. A name that nothing declares (usually a typo, or a feature renamed in one place only)
+attaches the annotation to nothing, and none of its checks can run.`,
+	Source: "common practice (every annotation is associated with a feature: ASME Y14.41-2019, annotation association)",
+	Bad:    "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bor: position dia 0.1 datums A",
+	Good:   "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position dia 0.1 datums A",
+	Run: func(p *Pass) {
+		for _, t := range p.Part.Refs {
+			if t.Resolved() {
+				continue
+			}
+			p.Report(t.Span, "'%s' names nothing: %s", t.Name, t.Problem)
+		}
+	},
+})
+
+// NameDuplicate reports a feature name declared twice.
+var NameDuplicate = Register(&Rule{
+	ID:       "name-duplicate",
+	Summary:  "a feature name declared twice",
+	Severity: Error,
+	Rationale: `A feature name must say which feature an annotation belongs to. Two declarations under
+one name make every reference to it ambiguous; datumlint uses the first and reports the second.`,
+	Source: "common practice",
+	Bad:    "feature base plane normal -z at (0, 0, 0)\nfeature base plane normal +z at (0, 0, 10)",
+	Good:   "feature base plane normal -z at (0, 0, 0)\nfeature top plane normal +z at (0, 0, 10)",
+	Run: func(p *Pass) {
+		for _, d := range p.Part.Duplicates {
+			first := p.Part.Feature(d.Name)
+			p.Report(d.NameSpan, "the feature name '%s' is already declared on line %d; give this %s a name of its own", d.Name, first.NameSpan.Start.Line, kindWord(d))
+		}
+	},
+})
+
+func kindWord(f *model.Feature) string {
+	if f.Kind == model.KindUnknown {
+		return "feature"
+	}
+	return f.Kind.String()
+}
+
+// SizeMissing reports a feature of size declared without its size.
+var SizeMissing = Register(&Rule{
+	ID:       "size-missing",
+	Summary:  "a feature of size without SIZE",
+	Severity: Error,
+	Rationale: `A feature of size (slot, tab, hole, pin, socket, ball) is controlled first by its size
+tolerance, and its maximum and least material conditions, on which (M) and (L) and the
+envelope rule depend, come from its limits of size. Without a size those cannot be known.`,
+	Source: "ASME Y14.5-2018, features of size and limits of size (Rule #1); ISO 14405-1:2016",
+	Bad:    "feature bore hole axis +z at (60, 40, 0)",
+	Good:   "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)",
+	Run: func(p *Pass) {
+		for _, f := range append(p.Part.Features, p.Part.Duplicates...) {
+			if f.Broken || !f.Kind.IsFOS() || f.Size != nil || f.Stmt == nil || f.Stmt.Size != nil {
+				continue
+			}
+			p.Report(f.NameSpan, "the %s '%s' is a feature of size but has no size: add one after the kind, e.g. %s",
+				f.Kind, f.Name, sizeExample(f))
+		}
+	},
+})
+
+func sizeExample(f *model.Feature) string {
+	switch f.Kind {
+	case model.Hole, model.Slot, model.Socket:
+		return fmt.Sprintf("feature %s %s size 10 +0.1 -0 ...", f.Name, f.Kind)
+	}
+	return fmt.Sprintf("feature %s %s size 10 +0 -0.1 ...", f.Name, f.Kind)
+}

@@ -1,0 +1,152 @@
+// Package rules holds datumlint's checks. A rule is a value: an identifier,
+// a one-line summary, a rationale with its published source, a bad and a
+// good example, a default severity and a Run function over a Pass.
+package rules
+
+import (
+	"fmt"
+	"sort"
+	"strings"
+
+	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/model"
+)
+
+// Severity of a finding. Off disables a rule.
+type Severity int
+
+const (
+	Off Severity = iota
+	Info
+	Warning
+	Error
+)
+
+func (s Severity) String() string {
+	switch s {
+	case Info:
+		return "info"
+	case Warning:
+		return "warning"
+	case Error:
+		return "error"
+	}
+	return "off"
+}
+
+// ParseSeverity reads "error", "warning", "info" or "off".
+func ParseSeverity(s string) (Severity, error) {
+	switch strings.ToLower(s) {
+	case "error":
+		return Error, nil
+	case "warning":
+		return Warning, nil
+	case "info":
+		return Info, nil
+	case "off":
+		return Off, nil
+	}
+	return Off, fmt.Errorf("unknown severity %q: use error, warning, info or off", s)
+}
+
+// Rule is one check.
+type Rule struct {
+	ID        string   // kebab-case identifier, part of the contract
+	Summary   string   // one line
+	Rationale string   // why it matters, in prose
+	Source    string   // the published source (or "common practice", "from memory")
+	Bad, Good string   // callout examples: Bad triggers the rule, Good does not
+	Severity  Severity // default severity
+	Run       func(*Pass)
+}
+
+// Diagnostic is one finding.
+type Diagnostic struct {
+	File     string
+	Span     grammar.Span
+	Rule     string
+	Severity Severity
+	Message  string
+	// Suppressed is set when an allow comment silenced the finding; the
+	// text outputs leave it out, SARIF carries it as a suppression.
+	Suppressed    bool
+	Justification string
+}
+
+// Pass is what a rule sees: the part, its file and a way to report.
+type Pass struct {
+	Rule  *Rule
+	Part  *model.Part
+	File  *grammar.File
+	Facts *Facts
+	out   *[]Diagnostic
+}
+
+// Report records a finding at a span.
+func (p *Pass) Report(sp grammar.Span, format string, args ...any) {
+	if sp.End.Line == 0 || sp.End.Before(sp.Start) {
+		sp.End = grammar.Pos{Line: sp.Start.Line, Col: sp.Start.Col + 1}
+	}
+	*p.out = append(*p.out, Diagnostic{
+		File:     p.File.Name,
+		Span:     sp,
+		Rule:     p.Rule.ID,
+		Severity: p.Rule.Severity,
+		Message:  fmt.Sprintf(format, args...),
+	})
+}
+
+var registry = map[string]*Rule{}
+
+// Register adds a rule; rule files call it from init. A duplicate or
+// incomplete rule is a programming error caught by the registry test.
+func Register(r *Rule) *Rule {
+	if _, dup := registry[r.ID]; dup {
+		panic("rules: duplicate rule " + r.ID)
+	}
+	registry[r.ID] = r
+	return r
+}
+
+// All returns every rule, sorted by identifier.
+func All() []*Rule {
+	out := make([]*Rule, 0, len(registry))
+	for _, r := range registry {
+		out = append(out, r)
+	}
+	sort.Slice(out, func(i, j int) bool { return out[i].ID < out[j].ID })
+	return out
+}
+
+// Lookup returns the rule with the identifier, or nil.
+func Lookup(id string) *Rule { return registry[id] }
+
+// Validate reports what is missing from a rule's documentation.
+func Validate(r *Rule) error {
+	var miss []string
+	if r.ID == "" || strings.ToLower(r.ID) != r.ID || strings.ContainsAny(r.ID, " _") {
+		miss = append(miss, "a kebab-case ID")
+	}
+	if r.Summary == "" || strings.Contains(r.Summary, "\n") {
+		miss = append(miss, "a one-line summary")
+	}
+	if r.Rationale == "" {
+		miss = append(miss, "a rationale")
+	}
+	if r.Source == "" {
+		miss = append(miss, "a source")
+	}
+	if r.Bad == "" || r.Good == "" {
+		miss = append(miss, "bad and good examples")
+	}
+	if r.Severity == Off {
+		miss = append(miss, "a default severity")
+	}
+	if r.Run == nil {
+		miss = append(miss, "a Run function")
+	}
+	if len(miss) > 0 {
+		return fmt.Errorf("rule %q lacks %s", r.ID, strings.Join(miss, ", "))
+	}
+	return nil
+}
