@@ -139,6 +139,9 @@ func Directives(f *grammar.File) []*Directive {
 		}
 		d := &Directive{Comment: c, Stmt: -1}
 		body := m[1]
+		if i := strings.Index(body, "#"); i >= 0 {
+			body = body[:i] // a second comment (e.g. a test's "# want") ends the directive
+		}
 		if i := strings.Index(body, "--"); i >= 0 {
 			d.Reason = strings.TrimSpace(body[i+2:])
 			body = body[:i]

@@ -127,8 +127,8 @@ or surfaces, and a sphere's centre a spherical zone (sdia). Conversely, the posi
 hole or pin is nearly always meant as a cylindrical zone; without dia it is a zone between
 two parallel planes, in one direction only.`,
 	Source: "ASME Y14.5-2018, tolerance zones (diameter symbol, spherical diameter); ISO 1101:2017, tolerance zone shapes",
-	Bad:    "frame bore: position 0.1 datums A, B, C",
-	Good:   "frame bore: position dia 0.1 datums A, B, C",
+	Bad:    "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position 0.1 datums A, B, C",
+	Good:   "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position dia 0.1 datums A, B, C",
 	Run: func(p *Pass) {
 		for _, fr := range p.Part.Frames {
 			if !fr.Target.Resolved() || fr.Target.Feature.Broken {
@@ -191,8 +191,8 @@ profile tolerance to datums of higher precedence. Circularity and cylindricity c
 material condition; (U) belongs to profile, and a projected zone (P) to the orientation or
 location of a feature of size.`,
 	Source: "ASME Y14.5-2018, material condition modifiers, runout (RFS only), datum features at MMB/LMB; ISO 2692:2014; ISO 1101:2017",
-	Bad:    "frame base: flatness 0.02 (M)",
-	Good:   "frame bore: position dia 0.1 (M) datums A, B, C",
+	Bad:    "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02 (M)",
+	Good:   "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02",
 	Run:    runModifierIllegal,
 })
 
