@@ -212,6 +212,13 @@ func applySuppressions(f *grammar.File, ds []Diagnostic, s *Settings) []Diagnost
 		if unknown {
 			continue
 		}
+		allOff := true // rules the configuration turned off could not report
+		for _, id := range dir.Rules {
+			allOff = allOff && s.severity(Lookup(id)) == Off
+		}
+		if allOff {
+			continue
+		}
 		msg := fmt.Sprintf("this allow comment silences nothing: no %s finding is reported on the statement it applies to; remove it", strings.Join(dir.Rules, " or "))
 		if dir.Stmt < 0 {
 			msg = "this allow comment applies to no statement: put it at the end of the statement's line or on the line directly above it"
