@@ -62,7 +62,13 @@ func checkGeometry(g *Geometry, add func(Span, string, ...any)) {
 			}
 			add(sp, "expected 'at' and a point after the direction, e.g. %s %s at (0, 0, 0)", w, "+z")
 		case len(g.Points) == 0:
-			add(after(), wantPoint)
+			sp := g.At.Span()
+			if len(g.Faces) > 0 {
+				sp = g.Faces[0].Span()
+			} else {
+				sp = Span{sp.End, Pos{sp.End.Line, sp.End.Col + 1}}
+			}
+			add(sp, wantPoint)
 		}
 		if len(g.Faces) > 0 {
 			add(g.Faces[0].Span(), "unexpected '%s' after the points", g.Faces[0].Value)

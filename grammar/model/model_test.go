@@ -1,0 +1,123 @@
+package model
+
+import (
+	"math"
+	"strings"
+	"testing"
+
+	"github.com/datumlint/datumlint/grammar"
+)
+
+func resolve(t *testing.T, src string) *Part {
+	t.Helper()
+	f := grammar.Parse("t.callouts", []byte("units mm\nstandard asme-2018\n"+src))
+	if len(f.Errors) > 0 {
+		t.Fatalf("syntax: %v", f.Errors)
+	}
+	return Resolve(f)
+}
+
+// TestMaterialConditions: MMC is the smallest size of an internal feature
+// and the largest of an external one (ASME Y14.5-2018, definitions: MMC,
+// LMC).
+func TestMaterialConditions(t *testing.T) {
+	p := resolve(t, `feature h hole size 10 +0.1 -0 axis +z at (0,0,0)
+feature s pin size 10 -0 -0.02 axis +z at (0,0,0)
+feature w slot size 11.95..12.05 normal +x at (0,0,0)
+feature b ball size 20 +-0.5 at (0,0,0)
+`)
+	for _, c := range []struct {
+		name     string
+		mmc, lmc float64
+	}{
+		{"h", 10, 10.1}, {"s", 10, 9.98}, {"w", 11.95, 12.05}, {"b", 20.5, 19.5},
+	} {
+		f := p.Feature(c.name)
+		if math.Abs(f.MMC()-c.mmc) > 1e-12 || math.Abs(f.LMC()-c.lmc) > 1e-12 {
+			t.Errorf("%s: MMC %g LMC %g, want %g %g", c.name, f.MMC(), f.LMC(), c.mmc, c.lmc)
+		}
+	}
+}
+
+func TestBetweenDerivesMidPlane(t *testing.T) {
+	p := resolve(t, `feature l plane normal -x at (10, 0, 0)
+feature r plane normal +x at (22, 5, 5)
+feature w slot size 12 +-0.05 between l r
+`)
+	w := p.Feature("w")
+	if !w.HasGeometry || w.Point()[0] != 16 || math.Abs(math.Abs(w.Dir[0])-1) > 1e-12 {
+		t.Errorf("mid-plane %v through %v", w.Dir, w.Point())
+	}
+	if len(p.GeometryErrors) != 0 {
+		t.Errorf("unexpected geometry errors %v", p.GeometryErrors)
+	}
+	p = resolve(t, `feature l plane normal -x at (10, 0, 0)
+feature r plane normal +y at (22, 5, 5)
+feature w slot size 12 +-0.05 between l r
+`)
+	if len(p.GeometryErrors) != 1 || !strings.Contains(p.GeometryErrors[0].Msg, "not parallel") {
+		t.Errorf("want a not-parallel error, got %v", p.GeometryErrors)
+	}
+}
+
+func TestMembersAndNames(t *testing.T) {
+	p := resolve(t, `feature bolts hole 4x size 8 +-0.1 axis +z at (1,0,0) (2,0,0) (3,0,0) (4,0,0)
+feature bore hole size 8 +-0.1 axis +z at (0,0,0)
+basic 1 from bolts.1 to bolts.2
+basic 1 from bolts.5 to bore.1
+basic 1 from bolt to bores
+`)
+	want := map[string]string{
+		"bolts.1": "", "bolts.2": "",
+		"bolts.5": "bolts has 4 members",
+		"bore.1":  "bore is a single hole, not a pattern",
+		"bolt":    "did you mean 'bolts'",
+		"bores":   "did you mean 'bore'",
+	}
+	for _, r := range p.Refs {
+		w, ok := want[r.Name]
+		if !ok {
+			t.Errorf("unexpected ref %s", r.Name)
+			continue
+		}
+		if w == "" && !r.Resolved() {
+			t.Errorf("%s did not resolve: %s", r.Name, r.Problem)
+		}
+		if w != "" && (r.Resolved() || !strings.Contains(r.Problem, w)) {
+			t.Errorf("%s: problem %q, want %q", r.Name, r.Problem, w)
+		}
+	}
+	if m := p.Refs[1]; m.Member == nil || m.Member.Point[0] != 2 {
+		t.Errorf("bolts.2 resolved to %+v", m.Member)
+	}
+}
+
+func TestValueErrors(t *testing.T) {
+	for src, want := range map[string]string{
+		"feature a hol size 1 +-0.1 axis +z at (0,0,0)":                "did you mean 'hole'",
+		"feature a plane size 1 +-0.1 normal +z at (0,0,0)":            "not a feature of size",
+		"feature a hole 3x size 1 +-0.1 axis +z at (0,0,0) (1,0,0)":    "says 3 but 2 points",
+		"feature a hole size 1 +-0.1 axis +z at (0,0,0) (1,0,0)":       "declare it with 2x",
+		"feature a hole size 1 +-0.1 normal +z at (0,0,0)":             "not given with 'normal'",
+		"feature a plane normal (0,0,0) at (0,0,0)":                    "must not be zero",
+		"feature a plane normal +z at (1e309,0,0)":                     "out of range",
+		"feature a plane normal +z at (0,0,0)\nframe a: flatnes 0.1":   "did you mean 'flatness'",
+		"feature a plane normal +z at (0,0,0)\ndatum A on a placed up": "unknown placement",
+		"feature a hole size 2 +0.1 +0.2 axis +z at (0,0,0)":           "below the lower deviation",
+	} {
+		f := grammar.Parse("t", []byte(src))
+		p := Resolve(f)
+		if len(p.Errors) != 1 || !strings.Contains(p.Errors[0].Msg, want) {
+			t.Errorf("%q: errors %v, want one containing %q", src, p.Errors, want)
+		}
+	}
+}
+
+func TestScaleAndCentre(t *testing.T) {
+	p := resolve(t, `feature a plane normal +z at (0,0,0)
+feature b plane normal +z at (30,40,0)
+`)
+	if p.Scale != 50 || p.Center != (Vec{15, 20, 0}) {
+		t.Errorf("scale %g centre %v", p.Scale, p.Center)
+	}
+}
