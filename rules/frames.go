@@ -214,7 +214,7 @@ func runModifierIllegal(p *Pass) {
 					case c == "circularity" || c == "cylindricity":
 						p.Report(m.Span, "%s controls surface elements and cannot be applied at %s: remove (%s)", c, cond, m.Letter)
 					case known && !tgt.Kind.IsFOS():
-						p.Report(m.Span, "(%s) needs a feature of size, and the %s '%s' is a %s with no size to vary: remove (%s), or put the frame on a feature of size", m.Letter, tgt.Kind, tgt.Name, tgt.Kind, m.Letter)
+						p.Report(m.Span, "(%s) needs a feature of size; the %s '%s' is not a feature of size and has no size to vary: remove (%s), or put the frame on a feature of size", m.Letter, tgt.Kind, tgt.Name, m.Letter)
 					}
 				case "U":
 					if cat != model.Profile {
