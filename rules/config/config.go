@@ -315,6 +315,20 @@ func (c *Config) Settings(o Overrides) *rules.Settings {
 	return s
 }
 
+// display shortens an absolute path to one relative to the working folder
+// where it lies beneath it, for messages.
+func display(abs string) string {
+	wd, err := os.Getwd()
+	if err != nil {
+		return abs
+	}
+	rel, err := filepath.Rel(wd, abs)
+	if err != nil || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+		return abs
+	}
+	return rel
+}
+
 // Finder finds and caches the configuration of each folder. It is safe for
 // concurrent use.
 type Finder struct {
@@ -354,7 +368,7 @@ func (f *Finder) Find(dir string) (*Config, error) {
 		if st, err := os.Stat(p); err == nil && !st.IsDir() {
 			r, ok := f.files[p]
 			if !ok {
-				c, err := Load(p)
+				c, err := Load(display(p))
 				r = &found{c, err}
 				f.files[p] = r
 			}
