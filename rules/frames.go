@@ -232,7 +232,8 @@ func runModifierIllegal(p *Pass) {
 				}
 				for _, d := range r.Datums {
 					f := d.Target.Feature
-					if f.Broken || f.Kind == model.KindUnknown || f.Kind.IsFOS() {
+					// A face of a width at MMB/LMB is midplane-ambiguous's finding.
+					if f.Broken || f.Kind == model.KindUnknown || f.Kind.IsFOS() || widthOfFace(p.Part, f) != nil {
 						continue
 					}
 					if ok, why := boundaryAllowed(p, d, fr); !ok {

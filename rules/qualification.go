@@ -1,0 +1,323 @@
+package rules
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/datumlint/datumlint/grammar/model"
+)
+
+// DatumUnqualified reports a datum feature that lacks the control its
+// precedence needs: form as primary, a relation to the datums above it as
+// secondary or tertiary.
+var DatumUnqualified = Register(&Rule{
+	ID:       "datum-unqualified",
+	Summary:  "a datum feature without the control its precedence needs: form as primary, orientation or location to the datums above it as secondary or tertiary",
+	Severity: Warning,
+	Rationale: `A datum is only as good as the feature that gives it. The primary datum feature is what
+the part rests on, so its form must be controlled: flatness for a plane; cylindricity, or
+circularity with straightness, for a cylinder; and so on by kind. A surface profile (with or
+without datums) and, on a plane, an orientation tolerance or total runout also limit form and
+are accepted (common practice). A feature of size has its form limited by the envelope
+principle under ASME (Rule #1, ASME Y14.5-2018), but under ISO the independency principle
+(ISO 8015:2011) leaves form uncontrolled unless the size carries the envelope requirement (E)
+(ISO 14405-1) or the feature has an explicit form tolerance. A secondary or tertiary datum
+feature is set up against the datums of higher precedence, so it needs a tolerance that relates
+it to at least one of them: orientation, position, profile or runout. For a common datum (A-B)
+each feature of the pair is checked as if it were that datum (common practice).
+
+Checked per use: a letter that is primary in one frame and secondary in another must meet
+both requirements.`,
+	Source: "datum feature qualification, common practice; ASME Y14.5-2018, Rule #1 (envelope principle); ISO 8015:2011, independency principle; ISO 14405-1:2016, envelope requirement (E)",
+	Bad: `feature base plane normal -z at (0, 0, 0)
+feature rear plane normal -y at (0, 0, 0)
+feature top plane normal +z at (0, 0, 10)
+datum A on base
+datum B on rear
+frame base: flatness 0.02
+frame top: parallelism 0.05 datums A, B`,
+	Good: `feature base plane normal -z at (0, 0, 0)
+feature rear plane normal -y at (0, 0, 0)
+feature top plane normal +z at (0, 0, 10)
+datum A on base
+datum B on rear
+frame base: flatness 0.02
+frame rear: perpendicularity 0.05 datums A
+frame top: parallelism 0.05 datums A, B`,
+	Run: runDatumUnqualified,
+})
+
+// datumUse is one appearance of a datum in a frame segment's references.
+type datumUse struct {
+	frame  *model.Frame
+	index  int               // 0 primary, 1 secondary, 2 tertiary
+	higher []*model.DatumRef // the references before it
+}
+
+var precedenceWords = []string{"primary", "secondary", "tertiary"}
+
+func precedenceWord(i int) string {
+	if i < len(precedenceWords) {
+		return precedenceWords[i]
+	}
+	return fmt.Sprintf("reference %d", i+1)
+}
+
+func runDatumUnqualified(p *Pass) {
+	uses := map[*model.Datum][]datumUse{}
+	for _, fr := range p.Part.Frames {
+		for _, seg := range fr.Segments {
+			for i, r := range seg.Refs {
+				for _, d := range r.Datums {
+					if d != nil {
+						uses[d] = append(uses[d], datumUse{frame: fr, index: i, higher: seg.Refs[:i]})
+					}
+				}
+			}
+		}
+	}
+	for _, d := range p.Part.Datums {
+		f := d.Target.Feature
+		if d.Broken || !d.Target.Resolved() || f.Broken || f.Kind == model.KindUnknown || len(uses[d]) == 0 {
+			continue
+		}
+		var problems []string
+		primary, related := false, false
+		for _, u := range uses[d] {
+			switch {
+			case u.index == 0 && !primary:
+				primary = true
+				if msg := primaryProblem(p, d); msg != "" {
+					problems = append(problems, msg)
+				}
+			case u.index > 0 && !related:
+				if msg := relationProblem(p, d, u); msg != "" {
+					related = true // one finding per datum is enough to act on
+					problems = append(problems, msg)
+				}
+			}
+		}
+		if len(problems) > 0 {
+			p.Report(d.LetterSpan, "%s", strings.Join(problems, "; also, "))
+		}
+	}
+}
+
+// framesOnDatum returns the frames that control the datum's target: frames
+// on the feature itself, or, for a datum on one member, on that member.
+// A frame on one member does not control a whole pattern.
+func framesOnDatum(part *model.Part, t *model.Target) []*model.Frame {
+	var out []*model.Frame
+	for _, fr := range part.FramesOn(t.Feature) {
+		if fr.Target.Member != nil && fr.Target.Member != t.Member {
+			continue
+		}
+		out = append(out, fr)
+	}
+	return out
+}
+
+// formChars lists, per kind, the characteristics that control a feature's
+// form on their own, and pairs that do together.
+//
+//   - plane: flatness; surface profile and orientation tolerances of a
+//     planar surface also limit its flatness (ASME Y14.5-2018, profile and
+//     orientation tolerances; from memory), as does total runout of a face
+//     (ASME Y14.5-2018, total runout).
+//   - cylinder: cylindricity, or circularity with straightness (common
+//     practice); surface profile; total runout limits cylindricity.
+//   - sphere: circularity applied to a sphere (ASME Y14.5-2018, circularity
+//     of a sphere), or surface profile.
+//   - width: flatness or surface profile of the width (ISO 1101 flatness of
+//     the median feature is not enough on its own; common practice takes
+//     flatness of the width, or of both its faces).
+//   - cone: surface profile, or circularity with straightness.
+//   - extrusion: surface profile, or line profile with straightness.
+//   - surface: surface profile.
+var formChars = map[model.Kind]struct {
+	alone []model.Characteristic
+	pairs [][2]model.Characteristic
+	hint  string
+}{
+	model.Plane:     {alone: []model.Characteristic{"flatness", "surface-profile", "perpendicularity", "parallelism", "angularity", "total-runout"}, hint: "flatness %s"},
+	model.Slot:      {alone: []model.Characteristic{"flatness", "surface-profile"}, hint: "flatness %s"},
+	model.Tab:       {alone: []model.Characteristic{"flatness", "surface-profile"}, hint: "flatness %s"},
+	model.Hole:      {alone: []model.Characteristic{"cylindricity", "surface-profile", "total-runout"}, pairs: [][2]model.Characteristic{{"circularity", "straightness"}}, hint: "cylindricity %s"},
+	model.Pin:       {alone: []model.Characteristic{"cylindricity", "surface-profile", "total-runout"}, pairs: [][2]model.Characteristic{{"circularity", "straightness"}}, hint: "cylindricity %s"},
+	model.Socket:    {alone: []model.Characteristic{"circularity", "surface-profile"}, hint: "circularity %s"},
+	model.Ball:      {alone: []model.Characteristic{"circularity", "surface-profile"}, hint: "circularity %s"},
+	model.Cone:      {alone: []model.Characteristic{"surface-profile"}, pairs: [][2]model.Characteristic{{"circularity", "straightness"}}, hint: "surface-profile %s"},
+	model.Extrusion: {alone: []model.Characteristic{"surface-profile"}, pairs: [][2]model.Characteristic{{"line-profile", "straightness"}}, hint: "surface-profile %s"},
+	model.Surface:   {alone: []model.Characteristic{"surface-profile"}, hint: "surface-profile %s"},
+}
+
+// hasFormControl reports whether the target carries a form control for its
+// kind. Frames that reference the datum's own letter do not count (a
+// feature cannot be controlled relative to itself).
+func hasFormControl(part *model.Part, t *model.Target, letter string) bool {
+	fc, ok := formChars[t.Feature.Kind]
+	if !ok {
+		return true
+	}
+	have := map[model.Characteristic]bool{}
+	for _, fr := range framesOnDatum(part, t) {
+		if letter != "" && refersTo(fr, letter) {
+			continue
+		}
+		have[fr.Characteristic] = true
+	}
+	for _, c := range fc.alone {
+		if have[c] {
+			return true
+		}
+	}
+	for _, pr := range fc.pairs {
+		if have[pr[0]] && have[pr[1]] {
+			return true
+		}
+	}
+	// A width given between two faces: form control of both faces.
+	if t.Feature.Kind.IsWidth() && t.Feature.Faces[0].Resolved() && t.Feature.Faces[1].Resolved() {
+		return hasFormControl(part, t.Feature.Faces[0], letter) && hasFormControl(part, t.Feature.Faces[1], letter)
+	}
+	return false
+}
+
+// primaryProblem says what a datum used as primary lacks, or "".
+func primaryProblem(p *Pass, d *model.Datum) string {
+	f := d.Target.Feature
+	if f.Kind.IsFOS() {
+		// ASME Y14.5-2018, Rule #1: the envelope at MMC limits the form of
+		// a feature of size. Under ISO 8015:2011 independency, only (E)
+		// (ISO 14405-1) or an explicit form tolerance does. An unknown
+		// standard is reported by header-missing; it is not guessed at here.
+		if p.Part.Standard != model.ISO {
+			return ""
+		}
+		if f.Size == nil || f.Size.Envelope {
+			return "" // size-missing reports a size that is not there
+		}
+		if hasFormControl(p.Part, &d.Target, d.Letter) {
+			return ""
+		}
+		return fmt.Sprintf("datum %s is used as primary but the %s '%s' has no form control: under ISO 8015 independency its size does not limit its form; add the envelope requirement (E) to its size (ISO 14405-1), e.g. `size %s (E)`, or a form tolerance, e.g. `frame %s: %s`",
+			d.Letter, f.Kind, f.Name, sizeText(f.Size), d.Target.Name, fmt.Sprintf(formChars[f.Kind].hint, exampleValue(p.Part, "0.02")))
+	}
+	if hasFormControl(p.Part, &d.Target, d.Letter) {
+		return ""
+	}
+	return fmt.Sprintf("datum %s is used as primary but has no form control: add e.g. `frame %s: %s`",
+		d.Letter, d.Target.Name, fmt.Sprintf(formChars[f.Kind].hint, exampleValue(p.Part, "0.02")))
+}
+
+// relationProblem says what a datum used as secondary or tertiary lacks:
+// a frame on it (orientation, position, profile or runout) that references
+// at least one of the datums before it in this use, or "".
+func relationProblem(p *Pass, d *model.Datum, u datumUse) string {
+	higher := map[string]bool{}
+	var names []string
+	for _, r := range u.higher {
+		if !r.Resolved() {
+			return "" // datum-undefined or name-undefined reports it
+		}
+		for _, hd := range r.Datums {
+			if hd == d {
+				return "" // a letter repeated in one frame: datum-duplicate reports it
+			}
+		}
+		names = append(names, r.Name)
+		for _, l := range r.Letters {
+			higher[l] = true
+		}
+	}
+	for _, fr := range framesOnDatum(p.Part, &d.Target) {
+		switch fr.Characteristic.Category() {
+		case model.Orientation, model.Location, model.Profile, model.Runout:
+		default:
+			continue
+		}
+		for _, seg := range fr.Segments {
+			for _, r := range seg.Refs {
+				for _, l := range r.Letters {
+					if higher[l] {
+						return ""
+					}
+				}
+			}
+		}
+	}
+	return fmt.Sprintf("datum %s is used as %s to %s but no tolerance relates '%s' to %s; add e.g. `frame %s: %s datums %s`",
+		d.Letter, precedenceWord(u.index), strings.Join(names, ", "), d.Target.Name, orList(names),
+		d.Target.Name, relationHint(p.Part, d, u.higher[0]), strings.Join(names, ", "))
+}
+
+func orList(names []string) string {
+	if len(names) == 1 {
+		return names[0]
+	}
+	return "any of " + strings.Join(names, ", ")
+}
+
+// relationHint suggests a typical control of a secondary or tertiary datum
+// feature relative to the primary: orientation for planes, widths and
+// cylinders by their nominal angle; position for a cylinder whose axis is
+// parallel to a datum axis and for a sphere; profile otherwise.
+func relationHint(part *model.Part, d *model.Datum, primary *model.DatumRef) string {
+	f := d.Target.Feature
+	v := func(mm string) string { return exampleValue(part, mm) }
+	var ref *model.Feature
+	if len(primary.Datums) > 0 && primary.Datums[0] != nil {
+		ref = primary.Datums[0].Target.Feature
+	}
+	switch {
+	case f.Kind.IsSphere():
+		return "position sdia " + v("0.1")
+	case f.Kind == model.Cone || f.Kind == model.Extrusion || f.Kind == model.Surface:
+		return "surface-profile " + v("0.1")
+	case ref == nil || ref.Dir.Norm() == 0 || f.Dir.Norm() == 0:
+		return "surface-profile " + v("0.1")
+	}
+	axial := func(k model.Kind) bool { return k.IsCylinder() || k == model.Cone }
+	ang := model.AngleBetweenLines(f.Dir, ref.Dir)
+	// Directions are normals for planes and widths, axes for cylinders:
+	// "parallel directions" means perpendicular features when exactly one
+	// of the two is an axis.
+	mixed := axial(f.Kind) != axial(ref.Kind)
+	switch {
+	case ang < 1e-6 && axial(f.Kind) && axial(ref.Kind):
+		return "position dia " + v("0.1")
+	case ang < 1e-6 && f.Kind.IsCylinder() && mixed:
+		return "perpendicularity dia " + v("0.05")
+	case ang < 1e-6 && mixed, ang > 90-1e-6 && !mixed:
+		return "perpendicularity " + v("0.05")
+	case ang < 1e-6 || ang > 90-1e-6:
+		return "parallelism " + v("0.05")
+	}
+	return "angularity " + v("0.05")
+}
+
+// exampleValue gives a suggested tolerance in the file's units.
+func exampleValue(part *model.Part, mm string) string {
+	if part.Units != model.Inch {
+		return mm
+	}
+	return map[string]string{"0.01": "0.0005", "0.02": "0.001", "0.05": "0.002", "0.1": "0.004"}[mm]
+}
+
+// sizeText writes a size back in the notation, for a suggestion.
+func sizeText(s *model.Size) string {
+	g := func(x float64) string { return strings.TrimSuffix(strings.TrimRight(fmt.Sprintf("%.6f", x), "0"), ".") }
+	switch {
+	case !s.Toleranced:
+		return g(s.Nominal)
+	case s.Upper == -s.Lower:
+		return g(s.Nominal) + " +-" + g(s.Upper)
+	}
+	sign := func(x float64) string {
+		if x < 0 {
+			return "-" + g(-x)
+		}
+		return "+" + g(x)
+	}
+	return g(s.Nominal) + " " + sign(s.Upper) + " " + sign(s.Lower)
+}
