@@ -206,13 +206,44 @@ func forEachLocated(p *Pass, fn func(*model.Frame, *SegmentDOF)) {
 		up := fr.Upper()
 		located := fr.Characteristic == "position" ||
 			fr.Characteristic.Category() == model.Profile && len(up.Refs) > 0
-		if !located || fr.Target.IsPattern() {
+		if !located || fr.Target.IsPattern() || isNextDatum(p.Part, fr) {
 			continue
 		}
 		if a := p.Facts.DOF(fr, 0); a.Resolved {
 			fn(fr, a)
 		}
 	}
+}
+
+// isNextDatum reports whether the frame's target is itself the datum
+// feature that some frame of the part references right after this frame's
+// references (a secondary or tertiary datum feature located to the datums
+// above it). The motions it leaves free are the ones it is there to fix,
+// so its own zone may move with them: the datum feature is related to the
+// higher-precedence datums only (ASME Y14.5-2018, section 7, datum feature
+// qualification and datum reference frame; ISO 5459:2011, datum systems).
+func isNextDatum(part *model.Part, fr *model.Frame) bool {
+	if fr.Target.Member != nil {
+		return false
+	}
+	prefix := refsKey(fr.Upper().Refs)
+	for _, d := range part.DatumsOn(fr.Target.Feature) {
+		if d.Target.Member != nil {
+			continue
+		}
+		want := d.Letter
+		if prefix != "" {
+			want = prefix + "," + d.Letter
+		}
+		for _, other := range part.Frames {
+			for _, seg := range other.Segments {
+				if k := refsKey(seg.Refs); k == want || strings.HasPrefix(k, want+",") {
+					return true
+				}
+			}
+		}
+	}
+	return false
 }
 
 func repeatsLetters(before []*model.DatumRef, r *model.DatumRef) bool {
