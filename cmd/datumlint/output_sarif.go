@@ -325,10 +325,11 @@ type parsedLines struct {
 func (st statementTexts) of(file string, line int) string {
 	p, ok := st[file]
 	if !ok {
-		p = &parsedLines{}
-		if src, err := os.ReadFile(file); err == nil {
-			p.f = grammar.Parse(file, src)
-			p.lines = readLines(file)
+		p = &parsedLines{lines: readLines(file)}
+		if p.lines != nil {
+			// Parsed from the lines as read (BOM and CRs dropped), so that
+			// comment columns index the same text.
+			p.f = grammar.Parse(file, []byte(strings.Join(p.lines, "\n")))
 		}
 		st[file] = p
 	}
