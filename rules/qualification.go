@@ -2,6 +2,7 @@ package rules
 
 import (
 	"fmt"
+	"math"
 	"strings"
 
 	"github.com/datumlint/datumlint/grammar/model"
@@ -51,6 +52,7 @@ frame top: parallelism 0.05 datums A, B`,
 type datumUse struct {
 	frame  *model.Frame
 	index  int               // 0 primary, 1 secondary, 2 tertiary
+	ref    *model.DatumRef   // the reference it appears in (A-B for a common datum)
 	higher []*model.DatumRef // the references before it
 }
 
@@ -70,7 +72,7 @@ func runDatumUnqualified(p *Pass) {
 			for i, r := range seg.Refs {
 				for _, d := range r.Datums {
 					if d != nil {
-						uses[d] = append(uses[d], datumUse{frame: fr, index: i, higher: seg.Refs[:i]})
+						uses[d] = append(uses[d], datumUse{frame: fr, index: i, ref: r, higher: seg.Refs[:i]})
 					}
 				}
 			}
@@ -87,7 +89,7 @@ func runDatumUnqualified(p *Pass) {
 			switch {
 			case u.index == 0 && !primary:
 				primary = true
-				if msg := primaryProblem(p, d); msg != "" {
+				if msg := primaryProblem(p, d, u.ref); msg != "" {
 					problems = append(problems, msg)
 				}
 			case u.index > 0 && !related:
@@ -184,8 +186,12 @@ func hasFormControl(part *model.Part, t *model.Target, letter string) bool {
 }
 
 // primaryProblem says what a datum used as primary lacks, or "".
-func primaryProblem(p *Pass, d *model.Datum) string {
+func primaryProblem(p *Pass, d *model.Datum, ref *model.DatumRef) string {
 	f := d.Target.Feature
+	as := "primary"
+	if ref.Common() {
+		as = "primary (in the common datum " + ref.Name + ")"
+	}
 	if f.Kind.IsFOS() {
 		// ASME Y14.5-2018, Rule #1: the envelope at MMC limits the form of
 		// a feature of size. Under ISO 8015:2011 independency, only (E)
@@ -200,14 +206,14 @@ func primaryProblem(p *Pass, d *model.Datum) string {
 		if hasFormControl(p.Part, &d.Target, d.Letter) {
 			return ""
 		}
-		return fmt.Sprintf("datum %s is used as primary but the %s '%s' has no form control: under ISO 8015 independency its size does not limit its form; add the envelope requirement (E) to its size (ISO 14405-1), e.g. `size %s (E)`, or a form tolerance, e.g. `frame %s: %s`",
-			d.Letter, f.Kind, f.Name, sizeText(f.Size), d.Target.Name, fmt.Sprintf(formChars[f.Kind].hint, exampleValue(p.Part, "0.02")))
+		return fmt.Sprintf("datum %s is used as %s but the %s '%s' has no form control: under ISO 8015 independency its size does not limit its form; add the envelope requirement (E) to its size (ISO 14405-1), e.g. `size %s (E)`, or a form tolerance, e.g. `frame %s: %s`",
+			d.Letter, as, f.Kind, f.Name, sizeText(f.Size), d.Target.Name, fmt.Sprintf(formChars[f.Kind].hint, exampleValue(p.Part, "0.02")))
 	}
 	if hasFormControl(p.Part, &d.Target, d.Letter) {
 		return ""
 	}
-	return fmt.Sprintf("datum %s is used as primary but has no form control: add e.g. `frame %s: %s`",
-		d.Letter, d.Target.Name, fmt.Sprintf(formChars[f.Kind].hint, exampleValue(p.Part, "0.02")))
+	return fmt.Sprintf("datum %s is used as %s but has no form control: add e.g. `frame %s: %s`",
+		d.Letter, as, d.Target.Name, fmt.Sprintf(formChars[f.Kind].hint, exampleValue(p.Part, "0.02")))
 }
 
 // relationProblem says what a datum used as secondary or tertiary lacks:
@@ -313,11 +319,14 @@ func sizeText(s *model.Size) string {
 	case s.Upper == -s.Lower:
 		return g(s.Nominal) + " +-" + g(s.Upper)
 	}
-	sign := func(x float64) string {
-		if x < 0 {
-			return "-" + g(-x)
-		}
-		return "+" + g(x)
+	// A zero deviation keeps the sign it is written with by convention:
+	// +0 above, -0 below.
+	upper, lower := "+"+g(math.Abs(s.Upper)), "-"+g(math.Abs(s.Lower))
+	if s.Upper < 0 {
+		upper = "-" + g(-s.Upper)
 	}
-	return g(s.Nominal) + " " + sign(s.Upper) + " " + sign(s.Lower)
+	if s.Lower > 0 {
+		lower = "+" + g(s.Lower)
+	}
+	return g(s.Nominal) + " " + upper + " " + lower
 }
