@@ -15,6 +15,7 @@ import (
 	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/lint"
+	"github.com/datumlint/datumlint/rules/ruledoc"
 )
 
 // SARIF 2.1.0 (OASIS Static Analysis Results Interchange Format), the
@@ -221,18 +222,16 @@ func writeSARIF(w io.Writer, res lint.Result) error {
 
 func sarifRuleOf(r *rules.Rule) sarifRule {
 	plain := strings.ReplaceAll(r.Summary, "`", "")
-	text := fmt.Sprintf("%s\n\n%s\n\nSource: %s", plain, r.Rationale, r.Source)
-	md := fmt.Sprintf("%s\n\n%s\n\n**Source:** %s", r.Summary, r.Rationale, r.Source)
+	text := plain + "\n\n" + r.Rationale + "\n\nSource: " + r.Source
 	if r.Bad != "" {
-		text += "\n\nBad:\n" + indent(r.Bad) + "\n\nGood:\n" + indent(r.Good)
-		md += "\n\nBad:\n\n" + fenced(r.Bad) + "\n\nGood:\n\n" + fenced(r.Good)
+		text = Explain(r) // what `datumlint explain` prints
 	}
 	out := sarifRule{
 		ID:                   r.ID,
 		Name:                 ruleName(r.ID),
 		ShortDescription:     sarifText{Text: plain, Markdown: r.Summary},
 		FullDescription:      sarifText{Text: oneParagraph(r.Rationale)},
-		Help:                 sarifText{Text: text, Markdown: md},
+		Help:                 sarifText{Text: text, Markdown: ruledoc.Markdown(r)},
 		DefaultConfiguration: sarifRuleConf{Level: sarifLevel(r.Severity)},
 		Properties:           map[string]any{"source": r.Source},
 	}
@@ -258,16 +257,6 @@ func ruleName(id string) string {
 }
 
 func oneParagraph(s string) string { return strings.Join(strings.Fields(s), " ") }
-
-// fenced puts text in a Markdown code block whose fence is longer than any
-// run of backticks inside it.
-func fenced(s string) string {
-	fence := "```"
-	for strings.Contains(s, fence) {
-		fence += "`"
-	}
-	return fence + "\n" + s + "\n" + fence
-}
 
 // artifactOf locates a file relative to SRCROOT (the working folder);
 // files outside it get an absolute file:// URI and no base.

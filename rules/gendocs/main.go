@@ -16,6 +16,7 @@ import (
 	"strings"
 
 	"github.com/datumlint/datumlint/rules"
+	"github.com/datumlint/datumlint/rules/ruledoc"
 )
 
 func main() {
@@ -49,11 +50,7 @@ func render(rs []*rules.Rule) []byte {
 	for _, r := range rs {
 		fmt.Fprintf(&b, "## %s\n\n", r.ID)
 		fmt.Fprintf(&b, "Default severity: **%s**\n\n", r.Severity)
-		fmt.Fprintf(&b, "%s\n\n", upperFirst(r.Summary))
-		fmt.Fprintf(&b, "%s\n\n", strings.TrimSpace(r.Rationale))
-		fmt.Fprintf(&b, "Source: %s\n\n", r.Source)
-		fmt.Fprintf(&b, "Bad:\n\n%s\n\n", fenced(r.Bad))
-		fmt.Fprintf(&b, "Good:\n\n%s\n\n", fenced(r.Good))
+		fmt.Fprintf(&b, "%s\n", ruledoc.Markdown(r))
 	}
 
 	fmt.Fprintf(&b, "## %s\n\n", rules.InternalRule)
@@ -66,25 +63,6 @@ func render(rs []*rules.Rule) []byte {
 // cell makes text safe inside a Markdown table cell.
 func cell(s string) string {
 	return strings.ReplaceAll(strings.ReplaceAll(s, "|", `\|`), "\n", " ")
-}
-
-func upperFirst(s string) string {
-	if s == "" {
-		return s
-	}
-	r := []rune(s)
-	r[0] = []rune(strings.ToUpper(string(r[0])))[0]
-	return string(r)
-}
-
-// fenced puts a callout example in a code block whose fence is longer than
-// any run of backticks inside it.
-func fenced(s string) string {
-	fence := "```"
-	for strings.Contains(s, fence) {
-		fence += "`"
-	}
-	return fence + "\n" + strings.TrimRight(s, "\n") + "\n" + fence
 }
 
 // writeAtomic writes through a temporary file in the same folder and a

@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"github.com/datumlint/datumlint/rules"
+	"github.com/datumlint/datumlint/rules/ruledoc"
 )
 
 const regenerate = "regenerate it from the project root with `go generate ./rules` (or `go run ./rules/gendocs -o docs/rules.md`)"
@@ -41,14 +42,11 @@ func TestRulesDocUpToDate(t *testing.T) {
 func TestRenderCoversEveryRule(t *testing.T) {
 	doc := string(render(rules.All()))
 	for _, r := range rules.All() {
-		for _, want := range []string{"\n## " + r.ID + "\n", "](#" + r.ID + ")", r.Source, fenced(r.Bad), fenced(r.Good)} {
+		for _, want := range []string{"\n## " + r.ID + "\n", "](#" + r.ID + ")", r.Source, ruledoc.Fence(r.Bad), ruledoc.Fence(r.Good)} {
 			if !strings.Contains(doc, want) {
 				t.Errorf("rule %s: the reference lacks %q", r.ID, want)
 			}
 		}
-	}
-	if got := fenced("a ``` b"); !strings.HasPrefix(got, "````\n") {
-		t.Errorf("a fence must be longer than the backticks inside: %q", got)
 	}
 }
 

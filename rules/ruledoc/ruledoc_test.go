@@ -1,0 +1,22 @@
+package ruledoc
+
+import (
+	"strings"
+	"testing"
+
+	"github.com/datumlint/datumlint/rules"
+)
+
+func TestMarkdown(t *testing.T) {
+	r := &rules.Rule{ID: "x-y", Summary: "a thing wrong", Rationale: "Because.\n", Source: "common practice",
+		Bad: "frame a: flatness 0", Good: "frame a: flatness ``` 1"}
+	got := Markdown(r)
+	want := "A thing wrong\n\nBecause.\n\nSource: common practice\n\nBad:\n\n```\nframe a: flatness 0\n```\n\nGood:\n\n````\nframe a: flatness ``` 1\n````\n"
+	if got != want {
+		t.Errorf("got:\n%s\nwant:\n%s", got, want)
+	}
+	r.Bad, r.Good = "", ""
+	if got := Markdown(r); strings.Contains(got, "Bad:") || !strings.HasSuffix(got, "Source: common practice\n") {
+		t.Errorf("a rule without examples: %q", got)
+	}
+}
