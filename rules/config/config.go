@@ -198,8 +198,8 @@ func (c *Config) Excluded(file string) bool {
 	if err != nil {
 		return false
 	}
-	rel, err := filepath.Rel(c.Dir, abs)
-	if err != nil || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+	rel, ok := beneath(c.Dir, abs)
+	if !ok {
 		return false
 	}
 	rel = filepath.ToSlash(rel)
@@ -322,11 +322,19 @@ func display(abs string) string {
 	if err != nil {
 		return abs
 	}
-	rel, err := filepath.Rel(wd, abs)
-	if err != nil || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
-		return abs
+	if rel, ok := beneath(wd, abs); ok {
+		return rel
 	}
-	return rel
+	return abs
+}
+
+// beneath returns path relative to dir, if it lies in dir or below it.
+func beneath(dir, path string) (string, bool) {
+	rel, err := filepath.Rel(dir, path)
+	if err != nil || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+		return "", false
+	}
+	return rel, true
 }
 
 // Finder finds and caches the configuration of each folder. It is safe for
