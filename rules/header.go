@@ -62,13 +62,17 @@ Y14.5-2018. A drawing states both in its title block; the callout file must too.
 			sp = grammar.Span{Start: grammar.Pos{Line: 1, Col: 1}, End: grammar.Pos{Line: 1, Col: 2}}
 		}
 		what := "units"
-		if !has["standard"] {
+		switch {
+		case !has["units"] && !has["standard"]:
+			what = "units nor its standard"
+		case !has["standard"]:
 			what = "standard"
-			if !has["units"] {
-				what = "units nor standard"
-			}
 		}
-		p.Report(sp, "the file does not declare its %s: add %s at the top", strings.Replace(what, "units nor", "neither units nor", 1), strings.Join(miss, " and "))
+		verb := "does not declare its"
+		if !has["units"] && !has["standard"] {
+			verb = "declares neither its"
+		}
+		p.Report(sp, "the file %s %s: add %s at the top", verb, what, strings.Join(miss, " and "))
 	},
 })
 
