@@ -66,14 +66,16 @@ func precedenceWord(i int) string {
 }
 
 func runDatumUnqualified(p *Pass) {
+	// Only upper segments set precedence: a well-formed composite lower
+	// segment repeats a prefix of them, and a malformed one is
+	// composite-invalid's finding, not a new precedence to qualify.
 	uses := map[*model.Datum][]datumUse{}
 	for _, fr := range p.Part.Frames {
-		for _, seg := range fr.Segments {
-			for i, r := range seg.Refs {
-				for _, d := range r.Datums {
-					if d != nil {
-						uses[d] = append(uses[d], datumUse{frame: fr, index: i, ref: r, higher: seg.Refs[:i]})
-					}
+		seg := fr.Upper()
+		for i, r := range seg.Refs {
+			for _, d := range r.Datums {
+				if d != nil {
+					uses[d] = append(uses[d], datumUse{frame: fr, index: i, ref: r, higher: seg.Refs[:i]})
 				}
 			}
 		}
