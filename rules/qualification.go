@@ -181,8 +181,11 @@ func hasFormControl(part *model.Part, t *model.Target, letter string) bool {
 		}
 	}
 	// A width given between two faces: form control of both faces.
-	if t.Feature.Kind.IsWidth() && t.Feature.Faces[0].Resolved() && t.Feature.Faces[1].Resolved() {
-		return hasFormControl(part, t.Feature.Faces[0], letter) && hasFormControl(part, t.Feature.Faces[1], letter)
+	// (Faces that are not planes are a geometry error; skipping them also
+	// keeps a width named among its own faces from recursing.)
+	fa, fb := t.Feature.Faces[0], t.Feature.Faces[1]
+	if t.Feature.Kind.IsWidth() && fa.Resolved() && fb.Resolved() && fa.Feature.Kind == model.Plane && fb.Feature.Kind == model.Plane {
+		return hasFormControl(part, fa, letter) && hasFormControl(part, fb, letter)
 	}
 	return false
 }
