@@ -90,7 +90,7 @@ func lexStmt(name string, rs rawStmt) (all []lexer.Token, sig []token, eof lexer
 	if bad := badText(rs); bad != nil {
 		return nil, nil, eof, bad
 	}
-	lx, lerr := lexerDef.LexString(name, rs.text)
+	lx, lerr := scanLexer(name, rs.text) // lexerDef's rules, hand-coded (scan.go)
 	if lerr != nil {
 		return nil, nil, eof, &SyntaxError{Span: Span{Pos{rs.first, 1}, Pos{rs.first, 2}}, Msg: lerr.Error()}
 	}

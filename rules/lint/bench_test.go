@@ -1,0 +1,122 @@
+package lint
+
+import (
+	"bytes"
+	"fmt"
+	"testing"
+
+	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/rules"
+	"github.com/datumlint/datumlint/rules/lint/internal/gen"
+)
+
+// The benchmarks measure each stage of a check on generated plates (about
+// 150 lines each) and the whole run over a 2,000-plate repository. They
+// report lines/s so that the figures compare with docs/performance.md; the
+// goals there are measured, never asserted.
+//
+//	go test -run '^$' -bench . -benchmem ./rules/lint/
+
+// plates returns a handful of different plates, parsed and raw.
+func plates(n int) (srcs [][]byte, lines int) {
+	for i := 0; i < n; i++ {
+		src := gen.Plate(i)
+		srcs = append(srcs, src)
+		lines += bytes.Count(src, []byte("\n"))
+	}
+	return srcs, lines
+}
+
+const sample = 16
+
+func reportLines(b *testing.B, lines int) {
+	b.ReportMetric(float64(lines)*float64(b.N)/b.Elapsed().Seconds(), "lines/s")
+}
+
+func BenchmarkParse(b *testing.B) {
+	srcs, lines := plates(sample)
+	b.ResetTimer()
+	for b.Loop() {
+		for i, src := range srcs {
+			if f := grammar.Parse(fmt.Sprint(i), src); len(f.Errors) > 0 {
+				b.Fatal(f.Errors[0])
+			}
+		}
+	}
+	reportLines(b, lines)
+}
+
+func BenchmarkResolve(b *testing.B) {
+	srcs, lines := plates(sample)
+	var files []*grammar.File
+	for i, src := range srcs {
+		files = append(files, grammar.Parse(fmt.Sprint(i), src))
+	}
+	b.ResetTimer()
+	for b.Loop() {
+		for _, f := range files {
+			if p := model.Resolve(f); len(p.Errors) > 0 {
+				b.Fatal(p.Errors[0])
+			}
+		}
+	}
+	reportLines(b, lines)
+}
+
+// BenchmarkDOF runs the kinematic engine over every segment of every frame
+// of a file, as the kinematic rules do (each distinct reference list once).
+func BenchmarkDOF(b *testing.B) {
+	srcs, lines := plates(sample)
+	var parts []*model.Part
+	for i, src := range srcs {
+		parts = append(parts, model.Resolve(grammar.Parse(fmt.Sprint(i), src)))
+	}
+	b.ResetTimer()
+	for b.Loop() {
+		for _, p := range parts {
+			facts := rules.NewFacts(p)
+			for _, fr := range p.Frames {
+				for s := range fr.Segments {
+					if d := facts.DOF(fr, s); !d.Resolved {
+						b.Fatal(d.Problem)
+					}
+				}
+			}
+		}
+	}
+	reportLines(b, lines)
+}
+
+// BenchmarkCheck is the whole check of one file in memory: parse, resolve,
+// every rule and the suppressions. (That the plates are clean is
+// gen.TestPlatesAreClean's to assert, not a benchmark's.)
+func BenchmarkCheck(b *testing.B) {
+	srcs, lines := plates(sample)
+	b.ResetTimer()
+	for b.Loop() {
+		for i, src := range srcs {
+			rules.Check(fmt.Sprint(i), src, nil)
+		}
+	}
+	reportLines(b, lines)
+}
+
+// BenchmarkRun2000 is the whole run over a generated repository of 2,000
+// plates on disk: walking, reading, checking in parallel and sorting.
+func BenchmarkRun2000(b *testing.B) {
+	dir := b.TempDir()
+	st, err := gen.Write(dir, 2000)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ResetTimer()
+	for b.Loop() {
+		res := Run([]string{dir}, Options{})
+		if len(res.Files) != st.Files || len(res.Errors) > 0 {
+			b.Fatalf("%d files of %d checked, %d errors", len(res.Files), st.Files, len(res.Errors))
+		}
+	}
+	b.ReportMetric(float64(st.Lines)*float64(b.N)/b.Elapsed().Seconds(), "lines/s")
+	b.ReportMetric(float64(st.Bytes)/float64(1<<20), "MiB")
+}
