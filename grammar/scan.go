@@ -255,7 +255,9 @@ func scanIdent(s string, i int) int {
 func scanDia(s string, i int) int { return runeIn(s, i, "⌀Øø") }
 
 // the characteristic symbols
-func scanSymbol(s string, i int) int { return runeIn(s, i, "⏤⏥○⌭⌒⌓∠⟂⊥∥⌖◎⌯↗⌰") }
+func scanSymbol(s string, i int) int {
+	return runeIn(s, i, "⏤⏥○⌭⌒⌓∠⟂⊥∥⌖◎⌯↗⌰")
+}
 
 // `\.\.`
 func scanRange(s string, i int) int {
