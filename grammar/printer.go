@@ -1,0 +1,419 @@
+package grammar
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"strings"
+	"unicode/utf8"
+)
+
+// The printer writes a parsed file in its canonical layout: one statement
+// per line (continuations joined, each composite segment on its own line
+// indented four spaces), ASCII spellings, single spaces, the name and value
+// columns of a block aligned, comments where they were and blank lines kept
+// (runs collapsed to one).
+//
+// Two things matter more than looks. Formatting must never change what the
+// file means, so the tokens printed are the tokens parsed, only respelled
+// where the notation gives two spellings of one thing; and an allow comment
+// must keep applying to its statement, which is why comments never move
+// across a statement or a blank line (see rules.Directives: a trailing
+// comment applies to the statement whose lines it is on, an own-line one to
+// the statement directly below it with only comment lines between).
+//
+// A block is a run of statements of the same kind with no blank line
+// between them (own-line comments do not end a block). Aligned columns:
+// the name of a feature, the letter of a datum (and its target when a
+// placement follows), the value of a basic dimension and of a dim. Frame
+// targets are not padded, so that the contract's example is its own
+// canonical form. A trailing comment follows its code after one space: no
+// column alignment, so that editing one line never rewrites its neighbours.
+
+// indent is the indentation of a composite lower segment.
+const indent = "    "
+
+// Format returns the canonical layout of a parsed file. A file with syntax
+// errors is refused: a file that does not parse is never rewritten.
+func Format(f *File) ([]byte, error) {
+	if f == nil {
+		return nil, errors.New("no file to format")
+	}
+	if len(f.Errors) > 0 {
+		return nil, fmt.Errorf("%s does not parse (%d syntax error(s), the first at %s: %s); it is not formatted",
+			f.Name, len(f.Errors), f.Errors[0].Span.Start, f.Errors[0].Msg)
+	}
+	if len(f.Extents) != len(f.Stmts) {
+		return nil, errors.New("internal: the statements and their line extents disagree")
+	}
+	for _, st := range f.Stmts {
+		if _, bad := st.(*BadStmt); bad {
+			return nil, fmt.Errorf("%s: a statement does not parse; the file is not formatted", st.Span().Start)
+		}
+	}
+	p := newPrinter(f)
+	return p.print(), nil
+}
+
+// outLine is one line of output.
+type outLine struct {
+	blank    bool
+	stmt     int    // index of the statement whose first line this is, or -1
+	fields   []cell // the statement's first line, for alignment
+	code     string // the text of a line that is not aligned (comments, composites)
+	trailing string // a trailing comment, or ""
+}
+
+// cell is one column of an aligned line.
+type cell struct {
+	text string
+	pad  bool // padded to the widest cell of its column in the block
+}
+
+type printer struct {
+	f        *File
+	lines    []physLine
+	own      map[int]string   // own-line comments by physical line
+	trailing map[int][]string // trailing comments by physical line
+	out      []outLine
+}
+
+func newPrinter(f *File) *printer {
+	p := &printer{f: f, own: map[int]string{}, trailing: map[int][]string{}}
+	p.lines = splitLines(bytes.TrimPrefix(f.Src, []byte("\xef\xbb\xbf")))
+	for _, c := range f.Comments {
+		text := strings.TrimRight(c.Text, " \t\r\f\v")
+		if c.Trailing {
+			p.trailing[c.Span.Start.Line] = append(p.trailing[c.Span.Start.Line], text)
+		} else {
+			p.own[c.Span.Start.Line] = text
+		}
+	}
+	return p
+}
+
+// hasCode reports whether a physical line holds code (a continuation
+// backslash alone counts: it belongs to its statement).
+func (p *printer) hasCode(line int) bool {
+	if line < 1 || line > len(p.lines) {
+		return false
+	}
+	return strings.TrimSpace(p.lines[line-1].code) != ""
+}
+
+func (p *printer) blank() {
+	if n := len(p.out); n == 0 || p.out[n-1].blank {
+		return // no leading blank lines, no runs
+	}
+	p.out = append(p.out, outLine{blank: true, stmt: -1})
+}
+
+func (p *printer) comment(text, ind string) {
+	p.out = append(p.out, outLine{stmt: -1, code: ind + text})
+}
+
+// gap prints the lines between statements: own-line comments and blank lines.
+func (p *printer) gap(from, to int) {
+	for l := from; l <= to; l++ {
+		if c, ok := p.own[l]; ok {
+			p.comment(c, "")
+		} else if !p.hasCode(l) {
+			p.blank()
+		}
+	}
+}
+
+func (p *printer) print() []byte {
+	next := 1 // the first physical line not yet printed
+	for i, st := range p.f.Stmts {
+		e := p.f.Extents[i]
+		p.gap(next, e.First-1)
+		p.statement(i, st, e)
+		next = e.Last + 1
+	}
+	p.gap(next, len(p.lines))
+	for n := len(p.out); n > 0 && p.out[n-1].blank; n = len(p.out) {
+		p.out = p.out[:n-1]
+	}
+	p.align()
+	var b bytes.Buffer
+	for _, l := range p.out {
+		s := l.code
+		if l.trailing != "" {
+			s += " " + l.trailing
+		}
+		b.WriteString(strings.TrimRight(s, " "))
+		b.WriteByte('\n')
+	}
+	return b.Bytes()
+}
+
+// statement prints one statement with the comments inside its extent.
+// Each segment (a frame's upper part and each composite) takes the first
+// trailing comment written on its lines; further trailing comments of the
+// statement go on their own lines directly above it, where an allow
+// comment still applies to the same statement.
+func (p *printer) statement(i int, st Stmt, e Extent) {
+	starts := []int{e.First}
+	segs := [][]string{nil}
+	if fr, ok := st.(*FrameStmt); ok {
+		for _, c := range fr.Composites {
+			starts = append(starts, max(e.First, c.Span().Start.Line))
+			segs = append(segs, nil)
+		}
+	}
+	segOf := func(line int) int {
+		k := 0
+		for j, s := range starts {
+			if s <= line {
+				k = j
+			}
+		}
+		return k
+	}
+	var hoisted []string
+	trail := make([]string, len(starts))
+	after := make([][]string, len(starts)) // own-line comments after segment k
+	for l := e.First; l <= e.Last; l++ {
+		k := segOf(l)
+		for _, c := range p.trailing[l] {
+			if trail[k] == "" {
+				trail[k] = c
+			} else {
+				hoisted = append(hoisted, c)
+			}
+		}
+		if c, ok := p.own[l]; ok {
+			after[k] = append(after[k], c)
+		}
+	}
+	for _, c := range hoisted {
+		p.comment(c, "")
+	}
+	first, rest := render(st)
+	p.out = append(p.out, outLine{stmt: i, fields: first, trailing: trail[0]})
+	for k := range starts {
+		if k > 0 {
+			p.out = append(p.out, outLine{stmt: -1, code: indent + rest[k-1], trailing: trail[k]})
+		}
+		ind := indent
+		if k == len(starts)-1 {
+			ind = "" // after the statement: reads as a comment between statements
+		}
+		for _, c := range after[k] {
+			p.comment(c, ind)
+		}
+	}
+}
+
+// align pads the aligned columns of each block and renders the first lines.
+func (p *printer) align() {
+	kind := func(i int) string { return p.f.Stmts[i].Keyword() }
+	for a := 0; a < len(p.out); {
+		if p.out[a].stmt < 0 {
+			a++
+			continue
+		}
+		// the block: statements of a's kind until a blank line or another kind
+		block := []int{a}
+		b := a + 1
+		for ; b < len(p.out); b++ {
+			l := p.out[b]
+			if l.blank || l.stmt >= 0 && kind(l.stmt) != kind(p.out[a].stmt) {
+				break
+			}
+			if l.stmt >= 0 {
+				block = append(block, b)
+			}
+		}
+		var width []int
+		for _, j := range block {
+			for c, cl := range p.out[j].fields {
+				for len(width) <= c {
+					width = append(width, 0)
+				}
+				if cl.pad {
+					width[c] = max(width[c], utf8.RuneCountInString(cl.text))
+				}
+			}
+		}
+		for _, j := range block {
+			var s strings.Builder
+			for c, cl := range p.out[j].fields {
+				if c > 0 {
+					s.WriteByte(' ')
+				}
+				s.WriteString(cl.text)
+				if cl.pad {
+					s.WriteString(strings.Repeat(" ", width[c]-utf8.RuneCountInString(cl.text)))
+				}
+			}
+			p.out[j].code = strings.TrimRight(s.String(), " ")
+		}
+		a = b
+	}
+}
+
+// --- statements -------------------------------------------------------------
+
+// render returns a statement's first line as cells and the text of its
+// further lines (a frame's composite segments).
+func render(st Stmt) (first []cell, rest []string) {
+	fixed := func(s ...string) []cell {
+		out := make([]cell, len(s))
+		for i, t := range s {
+			out[i] = cell{text: t}
+		}
+		return out
+	}
+	switch s := st.(type) {
+	case *PartStmt:
+		return fixed("part", s.Title), nil
+	case *UnitsStmt:
+		return fixed("units", s.Unit.Value), nil
+	case *StandardStmt:
+		return fixed("standard", s.Standard.Value), nil
+	case *FeatureStmt:
+		var w words
+		w.add(s.Kind.Value)
+		if s.Count != nil {
+			w.add(s.Count.N.Text + "x")
+		}
+		if s.Size != nil {
+			w.add("size", size(s.Size))
+		}
+		if g := s.Geometry; g != nil {
+			w.add(g.Word.Value)
+			if g.Dir != nil {
+				w.add(direction(g.Dir))
+			}
+			if g.At != nil {
+				w.add("at")
+			}
+			for _, pt := range g.Points {
+				w.add(vector(pt))
+			}
+			for _, n := range g.Faces {
+				w.add(n.Value)
+			}
+		}
+		return []cell{{text: "feature"}, {text: s.Name.Value, pad: true}, {text: w.String()}}, nil
+	case *DatumStmt:
+		c := []cell{{text: "datum"}, {text: s.Letter.Value, pad: true}, {text: "on"}, {text: s.Target.Value}}
+		if s.Placement != nil {
+			c[3].pad = true
+			c = append(c, cell{text: "placed " + s.Placement.Value})
+		}
+		return c, nil
+	case *FrameStmt:
+		head := "frame " + s.Target.Value + ":"
+		first := fixed(head, CanonicalWord(s.Characteristic.Value)+" "+tolerance(s.Tolerance))
+		for _, c := range s.Composites {
+			rest = append(rest, "composite "+tolerance(c.Tolerance))
+		}
+		return first, rest
+	case *BasicStmt:
+		var w words
+		var value string
+		if c := s.Circle; c != nil {
+			value = CanonicalWord(c.Zone.Value) + " " + c.Value.Text
+			w.add("through", c.Pattern.Value, "about", c.About.Value)
+		} else {
+			value = s.Value.Text
+			if s.Deg {
+				value += "deg"
+			}
+			w.add("from", s.From.Value, "to", s.To.Value)
+			if s.Along != nil {
+				w.add("along", direction(s.Along))
+			}
+			if s.About != nil {
+				w.add("about", s.About.Value)
+			}
+		}
+		return []cell{{text: "basic"}, {text: value, pad: true}, {text: w.String()}}, nil
+	case *DimStmt:
+		var w words
+		w.add("from", s.From.Value, "to", s.To.Value)
+		if s.Along != nil {
+			w.add("along", direction(s.Along))
+		}
+		return []cell{{text: "dim"}, {text: size(s.Size), pad: true}, {text: w.String()}}, nil
+	}
+	// Format refuses files with bad statements, so this is unreachable; keep
+	// the statement's words rather than lose them.
+	if b, ok := st.(*BadStmt); ok {
+		return fixed(strings.Join(strings.Fields(b.Text), " ")), nil
+	}
+	return fixed(st.Keyword()), nil
+}
+
+// words joins tokens with single spaces.
+type words struct{ parts []string }
+
+func (w *words) add(s ...string) { w.parts = append(w.parts, s...) }
+
+func (w *words) String() string { return strings.Join(w.parts, " ") }
+
+func vector(v *Vector) string {
+	return "(" + v.X.Text + ", " + v.Y.Text + ", " + v.Z.Text + ")"
+}
+
+func direction(d *Direction) string {
+	if d.Vector != nil {
+		return vector(d.Vector)
+	}
+	return d.Axis
+}
+
+func modifier(sym string) string { return "(" + ModifierLetter(sym) + ")" }
+
+// size writes a size or a toleranced value: 12 +-0.05, 12 +0.1 -0,
+// 11.95..12.05, each optionally followed by (E).
+func size(s *Size) string {
+	var w words
+	nominal := s.Nominal.Text
+	if s.Deg {
+		nominal += "deg"
+	}
+	switch {
+	case s.PlusMinus != nil:
+		w.add(nominal, "+-"+s.PlusMinus.Text)
+	case s.Upper != nil && s.Lower != nil:
+		w.add(nominal, s.Upper.Text, s.Lower.Text)
+	case s.Limit != nil:
+		w.add(nominal + ".." + s.Limit.Text)
+	default:
+		w.add(nominal)
+	}
+	if s.Envelope != nil {
+		w.add(modifier(s.Envelope.Symbol))
+	}
+	return w.String()
+}
+
+// tolerance writes one segment of a frame after its characteristic.
+func tolerance(t *Tolerance) string {
+	var w words
+	if t.Zone != nil {
+		w.add(CanonicalWord(t.Zone.Value))
+	}
+	w.add(t.Value.Text)
+	for _, m := range t.Modifiers {
+		w.add(modifier(m.Symbol))
+		if m.Value != nil {
+			w.add(m.Value.Text)
+		}
+	}
+	if len(t.Datums) > 0 {
+		refs := make([]string, len(t.Datums))
+		for i, d := range t.Datums {
+			refs[i] = d.Name
+			for _, m := range d.Modifiers {
+				refs[i] += modifier(m.Symbol)
+			}
+		}
+		w.add("datums", strings.Join(refs, ", "))
+	}
+	return w.String()
+}
