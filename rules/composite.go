@@ -23,7 +23,7 @@ datumlint implements these conditions:
 - a lower segment's datums repeat those of the upper segment in the same order of precedence,
   starting with the primary, or fewer of them (the primary; primary and secondary; or all),
   or none: a datum the upper segment does not have, a different order, or a repeat that skips
-  the primary is reported;
+  a datum before it (B alone, or A, C, under A, B, C) is reported;
 - composite position on a single feature, which has no pattern members to relate, is reported:
   to refine its orientation use a separate orientation tolerance. Composite profile of a single
   feature is a recognised form (the lower segment refines form and orientation) and is left
