@@ -3,6 +3,7 @@ package lint
 import (
 	"bytes"
 	"fmt"
+	"strings"
 	"testing"
 
 	"github.com/datumlint/datumlint/grammar"
@@ -119,4 +120,43 @@ func BenchmarkRun2000(b *testing.B) {
 	}
 	b.ReportMetric(float64(st.Lines)*float64(b.N)/b.Elapsed().Seconds(), "lines/s")
 	b.ReportMetric(float64(st.Bytes)/float64(1<<20), "MiB")
+}
+
+// BenchmarkBasicRules runs only the basic-dimension rules (and so the
+// basic-chain engine) over whole files; parsing and resolving are included.
+func BenchmarkBasicRules(b *testing.B) {
+	srcs, lines := plates(sample)
+	only := &rules.Settings{Severity: map[string]rules.Severity{}}
+	n := 0
+	for _, r := range rules.All() {
+		if strings.HasPrefix(r.ID, "basic-") {
+			n++
+			continue
+		}
+		only.Severity[r.ID] = rules.Off
+	}
+	if n == 0 {
+		b.Skip("no basic-dimension rule is registered")
+	}
+	b.ResetTimer()
+	for b.Loop() {
+		for i, src := range srcs {
+			rules.Check(fmt.Sprint(i), src, only)
+		}
+	}
+	reportLines(b, lines)
+}
+
+// BenchmarkCheckRow checks one part with a row of n holes for growing n:
+// with a linear engine ns/op doubles with n; the ratio between the
+// sub-benchmarks shows how the cost of a part grows with its features.
+func BenchmarkCheckRow(b *testing.B) {
+	for _, n := range []int{25, 50, 100, 200} {
+		src := gen.Row(n)
+		b.Run(fmt.Sprintf("holes=%d", n), func(b *testing.B) {
+			for b.Loop() {
+				rules.Check("row.callouts", src, nil)
+			}
+		})
+	}
 }

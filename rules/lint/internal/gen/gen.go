@@ -264,3 +264,25 @@ func Write(dir string, n int) (Stats, error) {
 	}
 	return st, nil
 }
+
+// Row returns a clean part with one straight row of n >= 2 holes, every hole
+// located from the first by a basic dimension: the input of the scaling
+// benchmark, which shows whether the cost of a part grows linearly with the
+// number of its features.
+func Row(n int) []byte {
+	var b strings.Builder
+	b.WriteString("part \"Perforated strip PS-1\"\nunits mm\nstandard asme-2018\n\n")
+	b.WriteString("feature base plane normal -z at (0, 0, 0)\nfeature rear plane normal -y at (0, 0, 0)\nfeature left plane normal -x at (0, 0, 0)\n")
+	fmt.Fprintf(&b, "feature row hole %dx size 4.5 +-0.1 axis +z at", n)
+	for i := 0; i < n; i++ {
+		fmt.Fprintf(&b, " (%d, 10, 0)", 10+10*i)
+	}
+	b.WriteString("\n\ndatum A on base\ndatum B on rear\ndatum C on left\n\n")
+	b.WriteString("frame base: flatness 0.02\nframe rear: perpendicularity 0.05 datums A\nframe left: perpendicularity 0.05 datums A, B\n")
+	b.WriteString("frame row: position dia 0.4 (M) datums A, B, C\n    composite dia 0.1 (M) datums A\n\n")
+	b.WriteString("basic 10 from left to row.1\nbasic 10 from rear to row.1\n")
+	for i := 2; i <= n; i++ {
+		fmt.Fprintf(&b, "basic %d from row.1 to row.%d along +x\n", 10*(i-1), i)
+	}
+	return []byte(b.String())
+}

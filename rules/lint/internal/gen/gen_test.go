@@ -26,6 +26,14 @@ func TestPlatesAreClean(t *testing.T) {
 	}
 }
 
+func TestRowIsClean(t *testing.T) {
+	for _, n := range []int{2, 7, 40} {
+		for _, d := range rules.Check("row.callouts", Row(n), nil) {
+			t.Errorf("row of %d:%s: %s: %s", n, d.Span.Start, d.Rule, d.Message)
+		}
+	}
+}
+
 func lineOf(src []byte, n int) string {
 	lines := strings.Split(string(src), "\n")
 	if n < 1 || n > len(lines) {
