@@ -147,6 +147,11 @@ func placementContradiction(p *Pass, d *model.Datum) {
 		other := "attach the letter to one of its faces, declared as a plane"
 		if f.Kind.IsWidth() && f.Faces[0].Resolved() {
 			other = fmt.Sprintf("attach the letter to one face, e.g. `datum %s on %s placed %s`", d.Letter, f.Faces[0].Name, d.Placement)
+		} else if f.Kind.IsCylinder() {
+			// ASME Y14.5 also lets a symbol on a cylinder's outline mean
+			// its axis (from memory: ASME Y14.5-2009, 4.3.3); the contract
+			// reads on-surface as the surface, so ask for one reading.
+			other = "declare a flat face as a plane and attach the letter to it (ASME Y14.5 also lets a symbol on a cylinder's outline mean its axis: if that is the drawing's intent, on-dimension-line records it unambiguously)"
 		} else if !f.Kind.IsWidth() {
 			other = "a single surface of a " + f.Kind.String() + " is not a datum the notation can name; if a flat face was meant, declare it as a plane and attach the letter to it"
 		}
