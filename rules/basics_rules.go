@@ -1,0 +1,290 @@
+package rules
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/rules/basics"
+)
+
+// This file holds the basic-dimension rules, built on the engine in
+// rules/basics and on the kinematic analysis of each frame (kinematics.go).
+
+func init() {
+	// modifier-illegal asks whether a planar datum feature referenced at
+	// MMB or LMB is located by basic dimensions to the higher-precedence
+	// datums of its position or profile frame (ASME Y14.5-2018, datum
+	// features at MMB applied to surfaces): the engine answers it.
+	// Located means both: the frame's datums fix the surface's place (no
+	// free translation moves its zone) and basic dimensions give it.
+	locatedByBasics = func(p *Pass, f *model.Feature, fr *model.Frame) bool {
+		if a := p.Facts.DOF(fr, 0); a.Resolved && a.Zone.TranslationMoves {
+			return false
+		}
+		ms, ok := frameMissing(p, fr, 0)
+		return !ok || len(ms) == 0
+	}
+}
+
+// basicsEngine is the file's basic-dimension engine, built once.
+func basicsEngine(p *Pass) *basics.Engine {
+	return Memo(p.Facts, "basics.engine", func() *basics.Engine {
+		var counted []*model.Dimension
+		for _, t := range tolerancedLocating(p) {
+			counted = append(counted, t.dim)
+		}
+		return basics.Build(p.Part, counted)
+	})
+}
+
+// frameMissing returns what segment seg of a frame needs that no basic
+// dimension fixes; ok is false when the frame cannot be analysed (an
+// unresolved name, unknown geometry), which other rules report.
+func frameMissing(p *Pass, fr *model.Frame, seg int) ([]basics.Missing, bool) {
+	type result struct {
+		ms []basics.Missing
+		ok bool
+	}
+	r := Memo(p.Facts, fmt.Sprintf("basics.missing:%p:%d", fr, seg), func() result {
+		if seg >= len(fr.Segments) {
+			return result{}
+		}
+		s := fr.Segments[seg]
+		if ask, _ := basics.Asks(fr, s); !ask {
+			return result{ok: true}
+		}
+		a := p.Facts.DOF(fr, seg)
+		if !a.Resolved || a.DRF == nil {
+			return result{}
+		}
+		q, ok := basics.FrameQuery(fr, s, a.DRF)
+		if !ok {
+			return result{}
+		}
+		return result{basicsEngine(p).Missing(q), true}
+	})
+	return r.ms, r.ok
+}
+
+// located reports whether a feature's place is a tolerance zone located by
+// basic dimensions: position, or profile with datums.
+func located(part *model.Part, f *model.Feature) (string, bool) {
+	for _, fr := range part.FramesOn(f) {
+		if fr.Characteristic == "position" {
+			return "position", true
+		}
+		if fr.Characteristic.Category() == model.Profile && len(fr.Upper().Refs) > 0 {
+			return string(fr.Characteristic), true
+		}
+	}
+	return "", false
+}
+
+type tolerancedDim struct {
+	dim  *model.Dimension
+	feat *model.Feature
+	char string
+}
+
+// tolerancedLocating finds the toleranced dimensions that locate a feature
+// under position or located profile.
+func tolerancedLocating(p *Pass) []tolerancedDim {
+	return Memo(p.Facts, "basics.toleranced", func() []tolerancedDim {
+		var out []tolerancedDim
+		for _, d := range p.Part.Dims {
+			if d.Basic || d.Circle != nil {
+				continue
+			}
+			for _, t := range []*model.Target{&d.To, &d.From} {
+				if !t.Resolved() || t.Feature.Broken {
+					continue
+				}
+				if c, ok := located(p.Part, t.Feature); ok {
+					out = append(out, tolerancedDim{d, t.Feature, c})
+					break
+				}
+			}
+		}
+		return out
+	})
+}
+
+// BasicMissing reports a frame whose zone's place is not fixed by basic
+// dimensions.
+var BasicMissing = Register(&Rule{
+	ID:       "basic-missing",
+	Summary:  "a located or oriented feature whose nominal place relative to a frame's datums is not fixed by basic dimensions (implied 0 and 90 degrees count)",
+	Severity: Error,
+	Rationale: `Position and located profile put the tolerance zone at the true position, and angularity
+orients it at the true angle; both are given by basic dimensions from the frame's datums. Where
+a distance or an angle that the datums fix is not written (and not implied: features that line
+up, coaxial features, and 0 or 90 degree angles are), the zone has no defined place and
+inspectors will each pick one. For a pattern, each member must also be placed relative to the
+others; a composite lower segment asks only for that and its orientation. datumlint decides
+it by the rank of the linearised basic relations, so chains, bolt circles and angles about an
+axis all count, and names the quantity and the dimension to add with its model value.`,
+	Source: "ASME Y14.5-2018, basic dimensions, true position and implied basic zero and 90 degree dimensions; ISO 1101:2017 and ISO 5458:2018, theoretically exact dimensions",
+	Bad: `feature base plane normal -z at (0, 0, 0)
+feature rear plane normal -y at (0, 0, 0)
+feature left plane normal -x at (0, 0, 0)
+feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)
+datum A on base
+datum B on rear
+datum C on left
+frame bore: position dia 0.1 (M) datums A, B, C
+basic 40 from rear to bore`,
+	Good: `feature base plane normal -z at (0, 0, 0)
+feature rear plane normal -y at (0, 0, 0)
+feature left plane normal -x at (0, 0, 0)
+feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)
+datum A on base
+datum B on rear
+datum C on left
+frame bore: position dia 0.1 (M) datums A, B, C
+basic 60 from left to bore
+basic 40 from rear to bore`,
+	Run: func(p *Pass) {
+		for _, fr := range p.Part.Frames {
+			seen := map[string]bool{}
+			for i, seg := range fr.Segments {
+				ms, ok := frameMissing(p, fr, i)
+				if !ok {
+					continue
+				}
+				for _, m := range ms {
+					msg := missingMessage(seg, m)
+					if !seen[msg] {
+						seen[msg] = true
+						p.Report(fr.CharSpan, "%s", msg)
+					}
+				}
+			}
+		}
+	},
+})
+
+func basicRefName(seg *model.Segment, k int) string {
+	if k < 0 || k >= len(seg.Refs) {
+		return "the datums"
+	}
+	return "datum " + seg.Refs[k].Name
+}
+
+func missingMessage(seg *model.Segment, m basics.Missing) string {
+	who := basics.Name(m.Member)
+	rel := basicRefName(seg, m.Ref)
+	if m.Other != nil {
+		rel = basics.Name(m.Other)
+	}
+	var msg string
+	switch m.Kind {
+	case basics.Location:
+		msg = fmt.Sprintf("%s's location along %s relative to %s has no basic dimension", who, basics.DirName(m.Dir), rel)
+	case basics.Angle:
+		msg = fmt.Sprintf("%s's angle to %s needs a basic angle", who, strings.TrimPrefix(rel, "the "))
+	case basics.Circle:
+		msg = fmt.Sprintf("the distance of %s's members from the axis of %s has no basic dimension", m.Member.Feature.Name, basics.Name(m.Hub))
+	case basics.Clocking:
+		msg = fmt.Sprintf("%s's angle about the axis of %s relative to %s needs a basic angle", who, basics.Name(m.Hub), rel)
+	}
+	if m.Suggest != "" {
+		msg += fmt.Sprintf(": add `%s`", m.Suggest)
+	}
+	return msg
+}
+
+// BasicMismatch reports a dimension that disagrees with the model.
+var BasicMismatch = Register(&Rule{
+	ID:       "basic-mismatch",
+	Summary:  "a basic or toleranced dimension whose value disagrees with the nominal geometry",
+	Severity: Error,
+	Rationale: `A basic dimension is the theoretically exact value the model has; a dimension that says
+something else puts the tolerance zone somewhere the part is not, and the drawing and the model
+then disagree about the part. Lengths are compared within about a millionth of the part's size,
+angles as the angle or its supplement (lines have no sense). A bolt circle's diameter must pass
+through every member, and a width given between two faces must have their distance as its size.
+Two chains of basic dimensions that define one quantity differently always contain a link that
+disagrees with the model, and it is reported on that line.`,
+	Source: "ASME Y14.5-2018, basic dimensions (theoretically exact); ASME Y14.41-2019, agreement of annotation and model; ISO 1101:2017, theoretically exact dimensions",
+	Bad: `feature left plane normal -x at (0, 0, 0)
+feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)
+basic 62 from left to bore`,
+	Good: `feature left plane normal -x at (0, 0, 0)
+feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)
+basic 60 from left to bore`,
+	Run: func(p *Pass) {
+		for _, m := range basicsEngine(p).Mismatches() {
+			p.Report(m.Dim.ValueSpan, "%s", mismatchMessage(m))
+		}
+		tol := p.Part.Tolerance()
+		for _, f := range p.Part.Features {
+			a, b := f.Faces[0], f.Faces[1]
+			if a == nil || b == nil || !a.Resolved() || !b.Resolved() || !f.HasGeometry || f.Size == nil || f.Broken {
+				continue
+			}
+			gap := math.Abs(f.Dir.Unit().Dot(b.Feature.Point().Sub(a.Feature.Point())))
+			if math.Abs(gap-f.Size.Nominal) > tol {
+				p.Report(f.Size.Span, "the faces %s and %s are %s apart in the model, so the width's nominal size is %s, not %s", a.Name, b.Name, basics.Num(gap), basics.Num(gap), basics.Num(f.Size.Nominal))
+			}
+		}
+	},
+})
+
+func mismatchMessage(m basics.Mismatch) string {
+	d := m.Dim
+	if m.Problem != "" {
+		return m.Problem
+	}
+	if d.Circle != nil {
+		return fmt.Sprintf("%s lies on a circle of diameter %s about %s in the model, not %s", basics.Name(m.Member), basics.Num(m.Nominal), d.Circle.About.Name, basics.Num(d.Value))
+	}
+	if d.Angle {
+		about := ""
+		if d.About != nil {
+			about = " about the axis of " + d.About.Name
+		}
+		return fmt.Sprintf("the nominal angle%s between %s and %s is %sdeg (or %sdeg), not %sdeg", about, d.From.Name, d.To.Name, basics.NumAngle(m.Nominal), basics.NumAngle(180-m.Nominal), basics.Num(d.Value))
+	}
+	along := ""
+	if d.Along != nil {
+		along = " along " + basics.DirName(*d.Along)
+	}
+	return fmt.Sprintf("the nominal distance from %s to %s%s is %s, not %s", d.From.Name, d.To.Name, along, basics.Num(m.Nominal), basics.Num(d.Value))
+}
+
+// BasicToleranced reports a toleranced dimension locating a feature whose
+// place is a basic one.
+var BasicToleranced = Register(&Rule{
+	ID:       "basic-toleranced",
+	Summary:  "a feature under position or located profile that is also located by a `dim` (toleranced) dimension",
+	Severity: Error,
+	Rationale: `Position and located profile already say how far the feature may be from its true position,
+which basic dimensions define. A toleranced location dimension to the same feature adds a
+second, conflicting tolerance on the same location (and the tolerance stack of a chain of
+them): the standards require the location to be basic.`,
+	Source: "ASME Y14.5-2018, position: true position established by basic dimensions; ISO 5458:2018 and ISO 1101:2017, theoretically exact dimensions",
+	Bad: `feature rear plane normal -y at (0, 0, 0)
+feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)
+frame bore: position dia 0.1 datums A, B, C
+dim 40 +-0.1 from rear to bore`,
+	Good: `feature rear plane normal -y at (0, 0, 0)
+feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)
+frame bore: position dia 0.1 datums A, B, C
+basic 40 from rear to bore`,
+	Run: func(p *Pass) {
+		for _, t := range tolerancedLocating(p) {
+			d := t.dim
+			val := basics.Num(d.Value)
+			if d.Angle {
+				val += "deg"
+			}
+			along := ""
+			if d.Along != nil {
+				along = " along " + basics.AlongName(*d.Along)
+			}
+			p.Report(d.ValueSpan, "%s is under %s; its location must be basic: write `basic %s from %s to %s%s`", t.feat.Name, t.char, val, d.From.Name, d.To.Name, along)
+		}
+	},
+})
