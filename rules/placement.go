@@ -16,7 +16,8 @@ var MidplaneAmbiguous = Register(&Rule{
 	Rationale: `Where a datum feature symbol is drawn decides what it means. In line with a size dimension
 (or on the frame of a feature of size) it designates the feature of size, so the datum is its
 mid-plane, axis or centre; offset onto the surface or onto an extension line, clear of the
-dimension line, it designates that surface. A file that attaches the letter to one face of a
+dimension line, it designates that surface (ASME also reads a symbol on a cylinder's outline as
+its axis; the notation records that intent as on-dimension-line, so datumlint asks for it). A file that attaches the letter to one face of a
 width but records the symbol in line with the width's size dimension, or attaches it to a width
 but records it on a surface, says two different things, and the inspector will set the part up
 on one of them. The same confusion shows when a face of a width is referenced at MMB or LMB
