@@ -83,11 +83,13 @@ type solve struct {
 	members []*entity
 	params  []param
 	index   map[int]int // variable → position in params
+	first   []int       // first[i]…first[i+1] are member i's params
 	free    [][][]float64
-	null    [][]float64 // orthonormal basis of what the frame needs (over params)
+	moves   [][]float64 // orthonormal basis of how free motions change the params
 	ground  map[int]bool
-	basis   []map[int]float64 // orthonormal rows (over classes) fixed so far
-	hubs    []*entity         // axis datum features, for circles and clocking
+	col     map[int]int // class → column of the dense rows below
+	basis   [][]float64 // orthonormal rows (over columns) fixed so far; shorter ones end in zeros
+	hubs    []*entity   // axis datum features, for circles and clocking
 }
 
 func (e *Engine) newSolve(q Query) *solve {
@@ -104,6 +106,7 @@ func (e *Engine) newSolve(q Query) *solve {
 		if x == nil {
 			return nil
 		}
+		s.first = append(s.first, len(s.params))
 		s.members = append(s.members, x)
 		if !q.Orientation {
 			for k, b := range x.tb {
@@ -116,6 +119,7 @@ func (e *Engine) newSolve(q Query) *solve {
 			s.params = append(s.params, param{x: x, mi: i, v: x.r0 + k, rot: true, dir: b})
 		}
 	}
+	s.first = append(s.first, len(s.params))
 	if len(s.params) == 0 {
 		return nil
 	}
@@ -154,8 +158,10 @@ func (e *Engine) newSolve(q Query) *solve {
 	} else {
 		last = s.free[len(s.free)-1]
 	}
-	s.null = nullSpace(last, len(s.params))
-	if len(s.null) == 0 {
+	// What the frame needs is everything no free motion changes: the
+	// orthogonal complement of the motions' rows.
+	s.moves = orthonormal(last)
+	if len(s.moves) >= len(s.params) {
 		return nil
 	}
 	s.fixed()
@@ -185,15 +191,25 @@ func (s *solve) motion(t dof.Twist) []float64 {
 	return out
 }
 
-// reduce maps a row over variables to classes, leaving out the datum
-// features' classes, which the frame holds at zero.
-func (s *solve) reduce(r row) map[int]float64 {
-	out := map[int]float64{}
+// reduce maps a row over variables to a dense row over the classes'
+// columns, leaving out the datum features' classes, which the frame holds
+// at zero. Classes seen for the first time get new columns.
+func (s *solve) reduce(r row) []float64 {
+	var out []float64
 	for _, t := range r {
 		c := s.e.class[t.v]
-		if !s.ground[c] {
-			out[c] += t.c
+		if s.ground[c] {
+			continue
 		}
+		k, ok := s.col[c]
+		if !ok {
+			k = len(s.col)
+			s.col[c] = k
+		}
+		for len(out) <= k {
+			out = append(out, 0)
+		}
+		out[k] += t.c
 	}
 	return out
 }
@@ -201,17 +217,17 @@ func (s *solve) reduce(r row) map[int]float64 {
 // fixed builds an orthonormal basis of the relations that bear on the
 // target: the general rows reachable from its classes.
 func (s *solve) fixed() {
-	seenClass := map[int]bool{}
+	s.col = map[int]int{}
 	seenRow := map[int]bool{}
 	var queue []int
 	for _, p := range s.params {
 		c := s.e.class[p.v]
-		if !s.ground[c] && !seenClass[c] {
-			seenClass[c] = true
+		if _, seen := s.col[c]; !s.ground[c] && !seen {
+			s.col[c] = len(s.col)
 			queue = append(queue, c)
 		}
 	}
-	var rows []map[int]float64
+	var rows [][]float64
 	for len(queue) > 0 {
 		c := queue[0]
 		queue = queue[1:]
@@ -220,17 +236,16 @@ func (s *solve) fixed() {
 				continue
 			}
 			seenRow[ri] = true
-			r := s.reduce(s.e.general[ri])
-			rows = append(rows, r)
-			for k := range r {
-				if !seenClass[k] {
-					seenClass[k] = true
-					queue = append(queue, k)
+			before := len(s.col)
+			rows = append(rows, s.reduce(s.e.general[ri]))
+			for _, cl := range s.e.general[ri] {
+				if c2 := s.e.class[cl.v]; !s.ground[c2] && s.col[c2] >= before {
+					queue = append(queue, c2)
 				}
 			}
 		}
 	}
-	s.basis = orthSparse(rows)
+	s.basis = orthDense(rows, len(s.col))
 }
 
 // undetermined returns the part of a row that the relations found so far
@@ -238,21 +253,28 @@ func (s *solve) fixed() {
 // before its datum features' terms were left out and its equal variables
 // merged, so that what cancels there counts as fixed however small the
 // rounding left it.
-func (s *solve) undetermined(r map[int]float64, n float64) map[int]float64 {
-	if n == 0 || sparseNorm(r) <= rankTol*n {
+func (s *solve) undetermined(r []float64, n float64) []float64 {
+	if n == 0 || math.Sqrt(dot(r, r)) <= rankTol*n {
 		return nil
 	}
-	res := map[int]float64{}
+	res := make([]float64, len(r))
 	for k, v := range r {
 		res[k] = v / n
 	}
 	for _, b := range s.basis {
-		d := sparseDot(res, b)
+		m := min(len(b), len(res))
+		d := dot(res[:m], b[:m])
+		if d == 0 {
+			continue
+		}
+		for len(res) < len(b) {
+			res = append(res, 0)
+		}
 		for k, v := range b {
 			res[k] -= d * v
 		}
 	}
-	rn := sparseNorm(res)
+	rn := math.Sqrt(dot(res, res))
 	if rn <= rankTol {
 		return nil
 	}
@@ -262,31 +284,50 @@ func (s *solve) undetermined(r map[int]float64, n float64) map[int]float64 {
 	return res
 }
 
+// sv is a sparse vector over the target's variables (term.v indexes
+// params). Candidates are sparse so that a pattern of many members costs
+// time in proportion to its members, not to their square.
+type sv []term
+
+func (c sv) norm() float64 {
+	t := 0.0
+	for _, x := range c {
+		t += x.c * x.c
+	}
+	return math.Sqrt(t)
+}
+
+func (c sv) dot(d []float64) float64 {
+	t := 0.0
+	for _, x := range c {
+		t += x.c * d[x.v]
+	}
+	return t
+}
+
 // needed reports whether a vector over the target's variables is something
 // the frame needs fixed: no free motion changes it.
-func (s *solve) needed(c []float64) bool {
-	n := math.Sqrt(dot(c, c))
+func (s *solve) needed(c sv) bool {
+	n := c.norm()
 	if n == 0 {
 		return false
 	}
-	res := append([]float64(nil), c...)
-	for _, b := range s.null {
-		d := dot(c, b)
-		for i := range res {
-			res[i] -= d * b[i]
-		}
+	moved := 0.0
+	for _, m := range s.moves {
+		d := c.dot(m)
+		moved += d * d
 	}
-	return math.Sqrt(dot(res, res)) <= rankTol*n
+	return math.Sqrt(moved) <= rankTol*n
 }
 
 // fixedBy returns the first reference after which no free motion changes c.
-func (s *solve) fixedBy(c []float64) int {
-	n := math.Sqrt(dot(c, c))
+func (s *solve) fixedBy(c sv) int {
+	n := c.norm()
 	for k, rows := range s.free {
 		ok := true
 		for _, r := range rows {
 			rn := math.Sqrt(dot(r, r))
-			if rn > 0 && math.Abs(dot(c, r)) > rankTol*n*rn {
+			if rn > 0 && math.Abs(c.dot(r)) > rankTol*n*rn {
 				ok = false
 				break
 			}
@@ -299,11 +340,11 @@ func (s *solve) fixedBy(c []float64) int {
 }
 
 // toRow turns a vector over the target's variables into a row.
-func (s *solve) toRow(c []float64) row {
-	var r row
-	for i, v := range c {
-		if v != 0 {
-			r = append(r, term{s.params[i].v, v})
+func (s *solve) toRow(c sv) row {
+	r := make(row, 0, len(c))
+	for _, t := range c {
+		if t.c != 0 {
+			r = append(r, term{s.params[t.v].v, t.c})
 		}
 	}
 	return r
@@ -311,11 +352,11 @@ func (s *solve) toRow(c []float64) row {
 
 // fromRow turns a row into a vector over the target's variables; ok is
 // false when it touches other variables that are not held by the datums.
-func (s *solve) fromRow(r row) ([]float64, bool) {
-	c := make([]float64, len(s.params))
+func (s *solve) fromRow(r row) (sv, bool) {
+	var c sv
 	for _, t := range r {
 		if i, ok := s.index[t.v]; ok {
-			c[i] += t.c
+			c = append(c, term{i, t.c})
 		} else if !s.ground[s.e.class[t.v]] {
 			return nil, false
 		}
@@ -325,11 +366,11 @@ func (s *solve) fromRow(r row) ([]float64, bool) {
 
 // try accepts a candidate when the frame needs it and nothing fixes it;
 // it is then counted as fixed, so later candidates are independent of it.
-func (s *solve) try(c []float64) bool {
+func (s *solve) try(c sv) bool {
 	if !s.needed(c) {
 		return false
 	}
-	res := s.undetermined(s.reduce(s.toRow(c)), math.Sqrt(dot(c, c)))
+	res := s.undetermined(s.reduce(s.toRow(c)), c.norm())
 	if res == nil {
 		return false
 	}
@@ -337,11 +378,7 @@ func (s *solve) try(c []float64) bool {
 	return true
 }
 
-func (s *solve) unit(p int) []float64 {
-	c := make([]float64, len(s.params))
-	c[p] = 1
-	return c
-}
+func unit(p int) sv { return sv{{p, 1}} }
 
 func (s *solve) run() []Missing {
 	var out []Missing
@@ -362,11 +399,9 @@ func (s *solve) run() []Missing {
 		if !s.q.Orientation && mi > 0 {
 			out = append(out, s.clocking(x)...)
 		}
-		for i, p := range s.params {
-			if p.mi != mi {
-				continue
-			}
-			c := s.unit(i)
+		for i := s.first[mi]; i < s.first[mi+1]; i++ {
+			p := s.params[i]
+			c := unit(i)
 			if !s.try(c) {
 				continue
 			}
@@ -378,48 +413,96 @@ func (s *solve) run() []Missing {
 			out = append(out, m)
 		}
 	}
-	// Whatever is left is no single variable: name it by its largest part.
-	for _, b := range s.null {
-		if !s.try(b) {
-			continue
-		}
-		big := 0
-		for i := range b {
-			if math.Abs(b[i]) > math.Abs(b[big]) {
-				big = i
+	return append(out, s.rest()...)
+}
+
+// rest finds what no single variable, spacing or clocking names (a
+// member's place relative to a datum axis the part may turn about, say):
+// the needed parts of the single variables span what the frame needs, and
+// each is tried in the classes' space, where it is as short as the part has
+// distinct places. Each is named by its variable.
+func (s *solve) rest() []Missing {
+	if len(s.moves) == 0 {
+		return nil // everything is needed: the single variables said it all
+	}
+	images := make([][]float64, len(s.moves))
+	for k, m := range s.moves {
+		var c sv
+		for i, v := range m {
+			if v != 0 {
+				c = append(c, term{i, v})
 			}
 		}
-		p := s.params[big]
-		m := Missing{Kind: Location, Member: p.x.m, Ref: s.fixedBy(b), Dir: p.dir}
-		if p.rot {
-			m.Kind = Angle
+		images[k] = s.reduce(s.toRow(c))
+	}
+	var out []Missing
+	for i, p := range s.params {
+		moved := 0.0
+		for _, m := range s.moves {
+			moved += m[i] * m[i]
 		}
-		out = append(out, m)
+		if moved <= rankTol*rankTol || moved >= 1-rankTol {
+			continue // needed whole (tried above), or not needed at all
+		}
+		w := s.reduce(row{{p.v, 1}})
+		for k, m := range s.moves {
+			for len(w) < len(images[k]) {
+				w = append(w, 0)
+			}
+			for j, v := range images[k] {
+				w[j] -= m[i] * v
+			}
+		}
+		res := s.undetermined(w, math.Sqrt(1-moved))
+		if res == nil {
+			continue
+		}
+		s.basis = append(s.basis, res)
+		c := unit(i)
+		for _, m := range s.moves {
+			for j, v := range m {
+				if v != 0 {
+					c = append(c, term{j, -m[i] * v})
+				}
+			}
+		}
+		mm := Missing{Kind: Location, Member: p.x.m, Ref: s.fixedBy(c), Dir: p.dir}
+		if p.rot {
+			mm.Kind = Angle
+		}
+		out = append(out, mm)
 	}
 	return out
 }
+
+// nearWindow bounds how many earlier members are searched for the nearest
+// one, so that a long pattern costs time in proportion to its length. A
+// grid's rows are far shorter; a longer window only changes which member
+// a message names, never whether a quantity is missing.
+const nearWindow = 32
 
 // spacings asks for each member relative to its nearest earlier member.
 func (s *solve) spacings() []Missing {
 	var out []Missing
 	for mi := 1; mi < len(s.members); mi++ {
 		x := s.members[mi]
-		near := s.members[0]
-		for _, y := range s.members[:mi] {
-			if y.p.Sub(x.p).Norm() < near.p.Sub(x.p).Norm()-s.e.tol {
-				near = y
+		nearIdx := 0
+		for j := max(0, mi-nearWindow); j < mi; j++ {
+			if s.members[j].p.Sub(x.p).Norm() < s.members[nearIdx].p.Sub(x.p).Norm()-s.e.tol {
+				nearIdx = j
 			}
 		}
+		near := s.members[nearIdx]
 		out = append(out, s.relativeClocking(x, near)...)
-		for i, p := range s.params {
-			if p.mi != mi {
-				continue
-			}
-			c := s.unit(i)
+		for i := s.first[mi]; i < s.first[mi+1]; i++ {
+			p := s.params[i]
+			c := unit(i)
 			// the same variable of the nearer member, in its own basis
-			for j, o := range s.params {
-				if o.x == near && o.rot == p.rot {
-					c[j] -= o.dir.Dot(p.dir)
+			for j := s.first[nearIdx]; j < s.first[nearIdx+1]; j++ {
+				if o := s.params[j]; o.rot == p.rot {
+					if d := o.dir.Dot(p.dir); d != 0 {
+						c = append(c, term{j, -d})
+					}
 				}
 			}
 			if !s.try(c) {
@@ -627,78 +710,55 @@ func dot(a, b []float64) float64 {
 	return t
 }
 
-// nullSpace returns an orthonormal basis of {x : r·x = 0 for every row},
-// rows scaled to unit length first so the tolerance means one thing.
-func nullSpace(rows [][]float64, n int) [][]float64 {
-	var data []float64
-	m := 0
+// orthonormal returns an orthonormal basis of the span of rows (modified
+// Gram-Schmidt on rows scaled to unit length; there are at most six).
+func orthonormal(rows [][]float64) [][]float64 {
+	var out [][]float64
 	for _, r := range rows {
 		l := math.Sqrt(dot(r, r))
 		if l == 0 || math.IsNaN(l) || math.IsInf(l, 0) {
 			continue
 		}
-		for _, v := range r {
-			data = append(data, v/l)
+		v := make([]float64, len(r))
+		for i := range r {
+			v[i] = r[i] / l
 		}
-		m++
-	}
-	if m == 0 {
-		out := make([][]float64, n)
-		for i := range out {
-			out[i] = make([]float64, n)
-			out[i][i] = 1
+		for _, b := range out {
+			d := dot(v, b)
+			for i := range v {
+				v[i] -= d * b[i]
+			}
 		}
-		return out
-	}
-	var svd mat.SVD
-	if !svd.Factorize(mat.NewDense(m, n, data), mat.SVDFull) {
-		return nil
-	}
-	vals := svd.Values(nil)
-	var v mat.Dense
-	svd.VTo(&v)
-	var out [][]float64
-	for j := 0; j < n; j++ {
-		if j < len(vals) && vals[j] > rankTol {
+		n := math.Sqrt(dot(v, v))
+		if n <= rankTol {
 			continue
 		}
-		out = append(out, mat.Col(nil, j, &v))
+		for i := range v {
+			v[i] /= n
+		}
+		out = append(out, v)
 	}
 	return out
 }
 
-// orthSparse returns an orthonormal basis of the span of sparse rows, by
-// SVD over the columns they touch.
-func orthSparse(rows []map[int]float64) []map[int]float64 {
-	col := map[int]int{}
-	var cols []int
-	m := 0
+// orthDense returns an orthonormal basis of the span of rows over n
+// columns (shorter rows end in zeros), by gonum's SVD: the rank decision.
+func orthDense(rows [][]float64, n int) [][]float64 {
+	var keep [][]float64
 	for _, r := range rows {
-		if sparseNorm(r) == 0 {
-			continue
-		}
-		m++
-		for k := range r {
-			if _, ok := col[k]; !ok {
-				col[k] = len(cols)
-				cols = append(cols, k)
-			}
+		if l := math.Sqrt(dot(r, r)); l > 0 && !math.IsNaN(l) && !math.IsInf(l, 0) {
+			keep = append(keep, r)
 		}
 	}
-	if m == 0 {
+	if len(keep) == 0 || n == 0 {
 		return nil
 	}
-	a := mat.NewDense(m, len(cols), nil)
-	i := 0
-	for _, r := range rows {
-		n := sparseNorm(r)
-		if n == 0 {
-			continue
-		}
+	a := mat.NewDense(len(keep), n, nil)
+	for i, r := range keep {
+		l := math.Sqrt(dot(r, r))
 		for k, v := range r {
-			a.Set(i, col[k], v/n)
+			a.Set(i, k, v/l)
 		}
-		i++
 	}
 	var svd mat.SVD
 	if !svd.Factorize(a, mat.SVDThinV) {
@@ -707,18 +767,11 @@ func orthSparse(rows []map[int]float64) []map[int]float64 {
 	vals := svd.Values(nil)
 	var v mat.Dense
 	svd.VTo(&v)
-	var out []map[int]float64
+	var out [][]float64
 	for j, sv := range vals {
-		if sv <= rankTol {
-			continue
+		if sv > rankTol {
+			out = append(out, mat.Col(nil, j, &v))
 		}
-		b := map[int]float64{}
-		for ci, k := range cols {
-			if x := v.At(ci, j); x != 0 {
-				b[k] = x
-			}
-		}
-		out = append(out, b)
 	}
 	return out
 }
@@ -730,19 +783,6 @@ func rowNorm(r row) float64 {
 	}
 	return math.Sqrt(t)
 }
-
-func sparseDot(a, b map[int]float64) float64 {
-	if len(b) < len(a) {
-		a, b = b, a
-	}
-	t := 0.0
-	for k, v := range a {
-		t += v * b[k]
-	}
-	return t
-}
-
-func sparseNorm(a map[int]float64) float64 { return math.Sqrt(sparseDot(a, a)) }
 
 // Asks says what a frame's characteristic asks of basic dimensions for
 // one of its segments: the location and orientation of its zone (position;
