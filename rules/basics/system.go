@@ -335,9 +335,11 @@ func equallySpaced(angles []float64) bool {
 // impliedZeros: features whose axes, centres or mid-planes coincide or line
 // up in the nominal geometry are at an implied basic zero along that
 // direction (ASME Y14.5-2018, implied basic zero dimensions; ISO 1101:2017,
-// implied theoretically exact dimensions of 0). For every direction that
-// occurs in the part, the entities that can move along it are sorted by
-// their coordinate, and neighbours within tolerance are related.
+// implied theoretically exact dimensions of 0), and so are coplanar faces
+// (from memory: common drafting practice draws no zero between them). For
+// every direction that occurs in the part, the entities that can move along
+// it are sorted by their coordinate, and neighbours within tolerance are
+// related.
 func (e *Engine) impliedZeros() []row {
 	var dirs []Vec
 	add := func(d Vec) {
@@ -379,19 +381,32 @@ func (e *Engine) impliedZeros() []row {
 			}
 		}
 		sort.SliceStable(list, func(i, j int) bool { return list[i].s < list[j].s })
-		for i := 1; i < len(list); i++ {
-			if list[i].s-list[i-1].s > e.tol {
-				continue
-			}
-			ra, oka := e.shift(list[i-1].x, u)
-			rb, okb := e.shift(list[i].x, u)
-			if oka && okb {
-				out = append(out, diff(rb, ra))
+		// Faces line up with faces (coplanar surfaces); axes, centres and
+		// mid-planes with each other. A face through a hole's axis is no
+		// centre line, so the two kinds are chained apart.
+		for _, faces := range []bool{false, true} {
+			var prev *at
+			for i := range list {
+				if isFace(list[i].x) != faces {
+					continue
+				}
+				if prev != nil && list[i].s-prev.s <= e.tol {
+					ra, oka := e.shift(prev.x, u)
+					rb, okb := e.shift(list[i].x, u)
+					if oka && okb {
+						out = append(out, diff(rb, ra))
+					}
+				}
+				prev = &list[i]
 			}
 		}
 	}
 	return out
 }
+
+// isFace reports whether an entity is a planar surface rather than a
+// mid-plane, axis or centre.
+func isFace(x *entity) bool { return x.m.Feature.Kind == model.Plane }
 
 // impliedAngles: nominal 0 and 90 degrees are implied basic angles (ASME
 // Y14.5-2018, implied 90 degree and 0 degree basic angles). Directions are
