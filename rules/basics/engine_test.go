@@ -290,3 +290,35 @@ basic dia 40 through bore about base
 		}
 	}
 }
+
+// A datum axis clocked by a second hole (the two-hole scheme): a single
+// hole is located in x and y from the axis, not by an angle.
+func TestTwoHoleScheme(t *testing.T) {
+	src := header + `
+feature base plane normal -z at (0, 0, 0)
+feature pilot hole size 10 +0.02 -0 axis +z at (20, 20, 0)
+feature loc hole size 8 +0.02 -0 axis +z at (100, 20, 0)
+feature bore hole size 12 +0.1 -0 axis +z at (60, 50, 0)
+datum A on base
+datum B on pilot
+datum C on loc
+frame loc: position dia 0.05 datums A, B
+frame bore: position dia 0.1 datums A, B, C
+basic 80 from pilot to loc
+`
+	expect(t, missing(t, src), map[string][]string{"bore/0": {
+		"bore location x B [basic 40 from pilot to bore along +x]",
+		"bore location y B [basic 30 from pilot to bore along +y]",
+	}})
+	expect(t, missing(t, src+"basic 40 from pilot to bore along +x\nbasic 30 from pilot to bore along +y\n"), nil)
+}
+
+// A face through a hole's axis is not a centre line: it implies no zero.
+func TestFaceImpliesNoZeroToAxis(t *testing.T) {
+	src := header + planes + `
+feature notch hole size 6 +-0.1 axis +z at (0, 30, 0)
+frame notch: position dia 0.1 datums A, B, C
+basic 30 from rear to notch
+`
+	expect(t, missing(t, src), map[string][]string{"notch/0": {"notch location x C [basic 0 from left to notch]"}})
+}

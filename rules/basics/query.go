@@ -386,17 +386,15 @@ func (s *solve) run() []Missing {
 	// A pattern's place about a datum axis is read as a bolt circle and a
 	// clocking angle before its members are compared with each other; a
 	// rigid turn of the whole pattern would otherwise read as spacings.
+	// A single feature is asked for its coordinates from the datums, as
+	// drawings locate one hole; polar dimensions are for patterns.
 	if pattern && !s.q.Orientation {
 		out = append(out, s.circles()...)
-	}
-	if !s.q.Orientation {
 		out = append(out, s.clocking(s.members[0])...)
-	}
-	if pattern && !s.q.Orientation {
 		out = append(out, s.spacings()...)
 	}
 	for mi, x := range s.members {
-		if !s.q.Orientation && mi > 0 {
+		if pattern && !s.q.Orientation && mi > 0 {
 			out = append(out, s.clocking(x)...)
 		}
 		for i := s.first[mi]; i < s.first[mi+1]; i++ {
@@ -409,7 +407,7 @@ func (s *solve) run() []Missing {
 			if p.rot {
 				m.Kind = Angle
 			}
-			m.Suggest = s.suggestFromRef(m, x)
+			m.Ref, m.Suggest = s.suggestFromRef(m, x)
 			out = append(out, m)
 		}
 	}
@@ -654,20 +652,24 @@ func (e *Engine) aboutAngle(a, b, hub *entity) (float64, bool) {
 	return math.Acos(math.Max(-1, math.Min(1, c))) * 180 / math.Pi, true
 }
 
-// suggestFromRef writes the dimension from the fixing reference's datum
-// feature to the member.
-func (s *solve) suggestFromRef(m Missing, x *entity) string {
-	if m.Ref < 0 {
-		return ""
-	}
-	for _, dm := range s.q.Refs[m.Ref] {
-		if d := s.e.byMem[dm]; d != nil && d != x {
-			if sg := s.e.suggestBetween(d, x, m.Kind, m.Dir); sg != "" {
-				return sg
+// suggestFromRef writes the dimension to the member from the datum
+// feature it is naturally measured from: the earliest reference, up to the
+// one that fixes the quantity, whose feature can measure it. With A|B|C
+// planes that is the one that fixes it (x from C, y from B); with a datum
+// axis B clocked by C, a location across the axis is measured from B, as
+// drawings measure it from the origin the axis gives. It returns the
+// reference used (m.Ref when none can measure it) and the dimension.
+func (s *solve) suggestFromRef(m Missing, x *entity) (int, string) {
+	for k := 0; k <= m.Ref && k < len(s.q.Refs); k++ {
+		for _, dm := range s.q.Refs[k] {
+			if d := s.e.byMem[dm]; d != nil && d != x {
+				if sg := s.e.suggestBetween(d, x, m.Kind, m.Dir); sg != "" {
+					return k, sg
+				}
 			}
 		}
 	}
-	return ""
+	return m.Ref, ""
 }
 
 // suggestBetween writes a basic dimension from a to b that fixes b's
