@@ -92,7 +92,7 @@ func findings(f *grammar.File, ds []rules.Diagnostic) []string {
 	return out
 }
 
-func fileList(t *testing.T) []string {
+func fileList(t testing.TB) []string {
 	var out []string
 	for _, root := range []string{"testdata", "../testdata", "../rules/testdata", "../cmd/datumlint/testdata"} {
 		filepath.WalkDir(root, func(p string, d fs.DirEntry, err error) error {
@@ -106,4 +106,30 @@ func fileList(t *testing.T) []string {
 		t.Fatal("no .callouts files found under testdata")
 	}
 	return out
+}
+
+// FuzzFormatFindings: for any input that parses, formatting keeps the
+// findings (rule, statement, silenced or not).
+func FuzzFormatFindings(f *testing.F) {
+	for _, path := range fileList(f) {
+		if src, err := os.ReadFile(path); err == nil {
+			f.Add(src)
+		}
+	}
+	f.Fuzz(func(t *testing.T, src []byte) {
+		g := grammar.Parse("a.callouts", src)
+		if len(g.Errors) > 0 {
+			return
+		}
+		out, err := grammar.Format(g)
+		if err != nil {
+			t.Fatal(err)
+		}
+		before := findings(g, rules.Check("a.callouts", src, nil))
+		after := findings(grammar.Parse("a.callouts", out), rules.Check("a.callouts", out, nil))
+		if strings.Join(before, "\n") != strings.Join(after, "\n") {
+			t.Errorf("findings changed under formatting\nbefore:\n  %s\nafter:\n  %s\ninput:\n%q\nformatted:\n%s",
+				strings.Join(before, "\n  "), strings.Join(after, "\n  "), src, out)
+		}
+	})
 }
