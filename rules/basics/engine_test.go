@@ -322,3 +322,25 @@ basic 30 from rear to notch
 `
 	expect(t, missing(t, src), map[string][]string{"notch/0": {"notch location x C [basic 0 from left to notch]"}})
 }
+
+// Coordinates written with three or more decimals are rounded computed
+// values: they agree with a bolt circle's diameter and an angle within
+// their last digit, and a wrong value is still wrong.
+func TestRoundedGeometry(t *testing.T) {
+	src := flange + `
+feature bolts hole 3x size 6 +-0.1 axis +z at (40, 0, 0) (-20, 34.641, 0) (-20, -34.641, 0)
+feature ramp plane normal (-0.5, 0, 0.866) at (20, 10, 10)
+basic dia 80 through bolts about hub
+basic 30deg from face to ramp
+basic dia 80.01 through bolts about hub
+basic 31deg from face to ramp
+`
+	p := model.Resolve(grammar.Parse("t.callouts", []byte(src)))
+	var got []int
+	for _, m := range basics.Build(p, nil).Mismatches() {
+		got = append(got, m.Dim.Span.Start.Line)
+	}
+	if fmt.Sprint(got) != "[16 17]" {
+		t.Errorf("mismatches on lines %v, want [16 17]", got)
+	}
+}

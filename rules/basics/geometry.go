@@ -3,7 +3,9 @@ package basics
 import (
 	"math"
 	"strconv"
+	"strings"
 
+	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/grammar/model"
 )
 
@@ -40,6 +42,9 @@ type entity struct {
 	rb    []Vec // orthonormal axes of its rotation variables
 	t0    int   // index of the first translation variable
 	r0    int   // index of the first rotation variable
+	// h and ah are how far the written geometry may be from what was meant
+	// by rounding alone: a length, and an angle in degrees (see written).
+	h, ah float64
 }
 
 // Name is how a member is written: "bore", or "bolts.3" in a pattern.
@@ -140,7 +145,57 @@ func newEntity(m *model.Member) *entity {
 	default:
 		return nil
 	}
+	e.h, e.ah = written(m)
 	return e
+}
+
+// written returns how far a member's written point (h, a length) and
+// direction (ah, degrees) may be from the values meant, by rounding alone.
+// A coordinate written with three or more decimals (34.641, 0.866025) is
+// taken as a computed value rounded to that digit, so ±half a unit of it;
+// one with fewer (15, 12.5) as exact, as designers write design values
+// (from memory: drawing practice; a bolt circle's coordinates are computed,
+// its diameter is chosen). Without this, a bolt circle written with
+// three-decimal coordinates would disagree with its diameter at 1e-6 of the
+// part's size.
+func written(m *model.Member) (h, ah float64) {
+	st := m.Feature.Stmt
+	if st == nil || st.Geometry == nil {
+		return 0, 0
+	}
+	g := st.Geometry
+	if i := m.Index - 1; i >= 0 && i < len(g.Points) {
+		if v := g.Points[i]; v != nil {
+			h = math.Sqrt(3) * math.Max(halfUnit(v.X), math.Max(halfUnit(v.Y), halfUnit(v.Z)))
+		}
+	}
+	if g.Dir != nil && g.Dir.Vector != nil {
+		v := g.Dir.Vector
+		d := math.Max(halfUnit(v.X), math.Max(halfUnit(v.Y), halfUnit(v.Z)))
+		if n := m.Feature.Dir.Norm(); n > 0 {
+			// Each component off by d turns a unit vector by at most about
+			// √2·d radians.
+			ah = math.Sqrt2 * d * 180 / math.Pi
+		}
+	}
+	return h, ah
+}
+
+// halfUnit is half a unit of the last written decimal of a number with
+// three or more decimals, else 0.
+func halfUnit(n *grammar.Number) float64 {
+	if n == nil || strings.ContainsAny(n.Text, "eE") {
+		return 0
+	}
+	i := strings.IndexByte(n.Text, '.')
+	if i < 0 {
+		return 0
+	}
+	d := len(n.Text) - i - 1
+	if d < 3 {
+		return 0
+	}
+	return 0.5 * math.Pow(10, -float64(d))
 }
 
 // offset is the vector from a to b that a distance between them measures:
@@ -226,10 +281,12 @@ func lineAngle(a, b Vec) float64 { return model.AngleBetweenLines(a, b) }
 
 // sameAngle reports whether a written angle v (degrees) names the nominal
 // angle between two undirected lines, nominal in [0, 90]: v or its
-// supplement (the contract: 30deg and 150deg are the same dimension).
-func sameAngle(v, nominal float64) bool {
+// supplement (the contract: 30deg and 150deg are the same dimension),
+// within angleTol and the slack that the geometry's rounding allows.
+func sameAngle(v, nominal, slack float64) bool {
 	v = math.Mod(math.Abs(v), 180)
-	return math.Abs(v-nominal) <= angleTol || math.Abs(180-v-nominal) <= angleTol
+	t := angleTol + slack
+	return math.Abs(v-nominal) <= t || math.Abs(180-v-nominal) <= t
 }
 
 // angleTol, in degrees, is how far a written angle may be from the model's.

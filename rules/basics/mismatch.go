@@ -53,19 +53,20 @@ func (e *Engine) Mismatches() []Mismatch {
 			}
 			// To a plane, the angle may be read to its normal or to the plane.
 			plane := a.shape == planeShape || b.shape == planeShape
-			if !sameAngle(d.Value, lineFold(v)) && !(plane && sameAngle(d.Value, 90-v)) {
+			slack := (a.h+b.h+2*hub.h)/math.Max(e.tol, math.Min(radial(hub, a.p).Norm(), radial(hub, b.p).Norm()))*180/math.Pi + a.ah + b.ah + hub.ah
+			if !sameAngle(d.Value, lineFold(v), slack) && !(plane && sameAngle(d.Value, 90-v, slack)) {
 				out = append(out, Mismatch{Dim: d, Nominal: v})
 			}
 		case d.Angle:
 			if len(a.rb) == 0 || len(b.rb) == 0 {
 				continue
 			}
-			if v := lineAngle(a.d, b.d); !sameAngle(d.Value, v) {
+			if v := lineAngle(a.d, b.d); !sameAngle(d.Value, v, a.ah+b.ah) {
 				out = append(out, Mismatch{Dim: d, Nominal: v})
 			}
 		default:
 			v, ok := distance(a, b, d.Along, e.tol)
-			if ok && math.Abs(math.Abs(d.Value)-v) > tol {
+			if ok && math.Abs(math.Abs(d.Value)-v) > tol+a.h+b.h {
 				out = append(out, Mismatch{Dim: d, Nominal: v})
 			}
 		}
@@ -90,7 +91,7 @@ func (e *Engine) circleMismatch(d *model.Dimension, tol float64) (Mismatch, bool
 		if x.shape == axisShape && !parallel(x.d, hub.d) {
 			return Mismatch{Dim: d, Member: m, Problem: fmt.Sprintf("the axis of %s is not parallel to the axis of %s", Name(m), c.About.Name)}, true
 		}
-		if dia := 2 * radial(hub, x.p).Norm(); math.Abs(dia-math.Abs(c.Diameter)) > tol {
+		if dia := 2 * radial(hub, x.p).Norm(); math.Abs(dia-math.Abs(c.Diameter)) > tol+2*(x.h+hub.h) {
 			return Mismatch{Dim: d, Member: m, Nominal: dia}, true
 		}
 	}
