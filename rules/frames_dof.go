@@ -206,7 +206,7 @@ func forEachLocated(p *Pass, fn func(*model.Frame, *SegmentDOF)) {
 		up := fr.Upper()
 		located := fr.Characteristic == "position" ||
 			fr.Characteristic.Category() == model.Profile && len(up.Refs) > 0
-		if !located || fr.Target.IsPattern() || isNextDatum(p.Part, fr) {
+		if !located || fr.Target.IsPattern() || isNextDatum(p, fr) {
 			continue
 		}
 		if a := p.Facts.DOF(fr, 0); a.Resolved {
@@ -222,12 +222,13 @@ func forEachLocated(p *Pass, fn func(*model.Frame, *SegmentDOF)) {
 // so its own zone may move with them: the datum feature is related to the
 // higher-precedence datums only (ASME Y14.5-2018, section 7, datum feature
 // qualification and datum reference frame; ISO 5459:2011, datum systems).
-func isNextDatum(part *model.Part, fr *model.Frame) bool {
+func isNextDatum(p *Pass, fr *model.Frame) bool {
 	if fr.Target.Member != nil {
 		return false
 	}
+	used := refPrefixes(p.Facts)
 	prefix := refsKey(fr.Upper().Refs)
-	for _, d := range part.DatumsOn(fr.Target.Feature) {
+	for _, d := range p.Part.DatumsOn(fr.Target.Feature) {
 		if d.Target.Member != nil {
 			continue
 		}
@@ -235,15 +236,32 @@ func isNextDatum(part *model.Part, fr *model.Frame) bool {
 		if prefix != "" {
 			want = prefix + "," + d.Letter
 		}
-		for _, other := range part.Frames {
-			for _, seg := range other.Segments {
-				if k := refsKey(seg.Refs); k == want || strings.HasPrefix(k, want+",") {
-					return true
-				}
-			}
+		if used[want] {
+			return true
 		}
 	}
 	return false
+}
+
+// refPrefixes is the set of every leading part of every segment's reference
+// list ("A", "A,B", "A,B,C" for A, B, C), built once per file so that
+// isNextDatum does not scan every frame for every frame.
+func refPrefixes(f *Facts) map[string]bool {
+	return Memo(f, "frames.refPrefixes", func() map[string]bool {
+		out := map[string]bool{}
+		for _, fr := range f.part.Frames {
+			for _, seg := range fr.Segments {
+				k := refsKey(seg.Refs)
+				for i := range k {
+					if k[i] == ',' {
+						out[k[:i]] = true
+					}
+				}
+				out[k] = true
+			}
+		}
+		return out
+	})
 }
 
 func repeatsLetters(before []*model.DatumRef, r *model.DatumRef) bool {

@@ -160,3 +160,22 @@ func BenchmarkCheckRow(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkCheckLongFile checks one file made of n plates one after the
+// other (every name declared n times): the cost should double with n, as
+// it does for n files; a rule that compares every frame with every other
+// shows here first.
+func BenchmarkCheckLongFile(b *testing.B) {
+	for _, n := range []int{40, 80, 160} {
+		var src []byte
+		for i := 0; i < n; i++ {
+			src = append(src, gen.Plate(i)...)
+		}
+		b.Run(fmt.Sprintf("plates=%d", n), func(b *testing.B) {
+			for b.Loop() {
+				rules.Check("long.callouts", src, nil)
+			}
+			b.ReportMetric(float64(bytes.Count(src, []byte("\n")))*float64(b.N)/b.Elapsed().Seconds(), "lines/s")
+		})
+	}
+}

@@ -92,6 +92,11 @@ func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError)
 				if p != root && strings.HasPrefix(d.Name(), ".") && d.Name() != "." && d.Name() != ".." {
 					return fs.SkipDir // .git and other hidden folders
 				}
+				if p != root && strings.HasSuffix(d.Name(), Ext) {
+					// Likely a mistake (an export that made a folder per part);
+					// say so, and still check the files inside.
+					errs = append(errs, &PathError{p, errors.New("a folder named like a callouts file; the .callouts files inside it are checked")})
+				}
 				return nil
 			}
 			if !strings.HasSuffix(d.Name(), Ext) {
