@@ -13,7 +13,7 @@ import (
 // of positioned findings whatever the files hold, and unreadable paths
 // make it exit 2 while every readable file is still checked.
 
-const hostilePlate = "part \"Hostile hostilePlate HP-1\"\nunits mm\nstandard asme-2018\nfeature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02\n"
+const hostilePlate = "part \"Hostile plate HP-1\"\nunits mm\nstandard asme-2018\nfeature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02\n"
 
 func hostileTree(t *testing.T) (dir string, files map[string]string) {
 	dir = t.TempDir()
