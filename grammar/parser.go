@@ -90,37 +90,36 @@ func lexStmt(name string, rs rawStmt) (all []lexer.Token, sig []token, eof lexer
 	if bad := badText(rs); bad != nil {
 		return nil, nil, eof, bad
 	}
-	lx, lerr := scanLexer(name, rs.text) // lexerDef's rules, hand-coded (scan.go)
-	if lerr != nil {
-		return nil, nil, eof, &SyntaxError{Span: Span{Pos{rs.first, 1}, Pos{rs.first, 2}}, Msg: lerr.Error()}
-	}
-	for {
-		t, e := lx.Next()
-		if e != nil {
-			var pe interface{ Position() lexer.Position }
-			pos, at := Pos{rs.first, 1}, 0
-			if errors.As(e, &pe) {
-				p := pe.Position()
-				pos, at = Pos{rs.first + p.Line - 1, p.Column}, p.Offset
-			}
-			r, _ := utf8.DecodeRuneInString(rs.text[min(len(rs.text), max(0, at)):])
-			return nil, nil, eof, &SyntaxError{
-				Span: Span{pos, Pos{pos.Line, pos.Col + 1}},
-				Msg:  fmt.Sprintf("unexpected character %q: it has no meaning in the callout notation", r),
-			}
+	// scanTokens applies lexerDef's rules, hand-coded (scan.go); its slice
+	// is moved to file positions in place rather than copied.
+	all, eof, e := scanTokens(name, rs.text)
+	if e != nil {
+		var pe interface{ Position() lexer.Position }
+		pos, at := Pos{rs.first, 1}, 0
+		if errors.As(e, &pe) {
+			p := pe.Position()
+			pos, at = Pos{rs.first + p.Line - 1, p.Column}, p.Offset
 		}
+		r, _ := utf8.DecodeRuneInString(rs.text[min(len(rs.text), max(0, at)):])
+		return nil, nil, eof, &SyntaxError{
+			Span: Span{pos, Pos{pos.Line, pos.Col + 1}},
+			Msg:  fmt.Sprintf("unexpected character %q: it has no meaning in the callout notation", r),
+		}
+	}
+	sig = make([]token, 0, len(all)/2+1)
+	toFile := func(t *lexer.Token) {
 		t.Pos.Line += rs.first - 1
 		t.Pos.Offset += rs.offset
 		t.Pos.Filename = name
-		if t.EOF() {
-			eof = t
-			break
-		}
-		all = append(all, t)
+	}
+	toFile(&eof)
+	for i := range all {
+		t := &all[i]
+		toFile(t)
 		if t.Type != tokWhitespace {
 			end := t.Pos
 			end.Advance(t.Value)
-			sig = append(sig, token{t, Span{Pos{t.Pos.Line, t.Pos.Column}, Pos{end.Line, end.Column}}})
+			sig = append(sig, token{*t, Span{Pos{t.Pos.Line, t.Pos.Column}, Pos{end.Line, end.Column}}})
 		}
 	}
 	return all, sig, eof, nil

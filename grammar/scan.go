@@ -284,27 +284,3 @@ func scanWhitespace(s string, i int) int {
 	}
 	return j
 }
-
-// scanLexer is scanTokens behind participle's lexer interface.
-func scanLexer(name, text string) (lexer.Lexer, error) {
-	toks, eof, err := scanTokens(name, text)
-	return &scannedLexer{toks: toks, eof: eof, err: err}, nil
-}
-
-type scannedLexer struct {
-	toks []lexer.Token
-	eof  lexer.Token
-	err  error
-}
-
-func (l *scannedLexer) Next() (lexer.Token, error) {
-	if l.err != nil {
-		return lexer.Token{}, l.err
-	}
-	if len(l.toks) == 0 {
-		return l.eof, nil
-	}
-	t := l.toks[0]
-	l.toks = l.toks[1:]
-	return t, nil
-}
