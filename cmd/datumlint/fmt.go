@@ -12,6 +12,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/rules/lint"
 )
 
@@ -161,8 +162,14 @@ func runFmt(stdout, stderr io.Writer, stdin io.Reader, f *fmtFlags, args []strin
 func formatSource(path string, src []byte, stderr io.Writer) (fmtResult, bool) {
 	r := fmtResult{path: path, old: src}
 	file := grammar.Parse(path, src)
-	if len(file.Errors) > 0 {
-		for _, e := range file.Errors {
+	// What check reports under the rule syntax: the parser's errors and the
+	// values the model cannot read (a number out of range, unknown units).
+	errs := file.Errors
+	if len(errs) == 0 {
+		errs = model.Resolve(file).Errors
+	}
+	if len(errs) > 0 {
+		for _, e := range errs {
 			fmt.Fprintf(stderr, "%s:%d:%d: syntax: %s\n", path, e.Span.Start.Line, e.Span.Start.Col, e.Msg)
 		}
 		fmt.Fprintf(stderr, "datumlint: %s does not parse; it was not formatted\n", path)

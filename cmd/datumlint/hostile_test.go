@@ -117,3 +117,38 @@ func TestMaxBytes(t *testing.T) {
 		t.Errorf("under the limit the hostilePlate is clean, exit %d", code)
 	}
 }
+
+// `fmt -w` never rewrites a file that check says does not parse (any
+// finding of the rule syntax, including values the model cannot read such
+// as 1e309): such a file stays byte for byte as it was.
+func TestFmtWriteLeavesFilesWithSyntaxFindingsAlone(t *testing.T) {
+	dir, files := hostileTree(t)
+	for name, src := range map[string]string{
+		"units.callouts":   strings.Replace(hostilePlate, "units mm", "units furlong", 1),
+		"point.callouts":   strings.Replace(hostilePlate, "(0, 0, 0)", "(0, 0, -1e400000)", 1),
+		"spacing.callouts": strings.Replace(hostilePlate, "frame base:", "frame   base :", 1) + "frame base: flatness 2e309\n",
+	} {
+		files[name] = src
+		os.WriteFile(filepath.Join(dir, name), []byte(src), 0o644)
+	}
+	_, before, _ := checkHostileJSON(t, dir)
+	broken := map[string]bool{}
+	for _, f := range before {
+		if f.Rule == "syntax" {
+			broken[filepath.Base(f.File)] = true
+		}
+	}
+	for _, name := range []string{"units.callouts", "point.callouts", "spacing.callouts", "huge.callouts", "binary.callouts"} {
+		if !broken[name] {
+			t.Fatalf("%s has no syntax finding; the test needs it to", name)
+		}
+	}
+	var stdout, stderr bytes.Buffer
+	run([]string{"fmt", "-w", dir}, &stdout, &stderr)
+	for name := range broken {
+		got, err := os.ReadFile(filepath.Join(dir, name))
+		if err != nil || string(got) != files[name] {
+			t.Errorf("fmt -w changed %s, which has a syntax finding (err %v)", name, err)
+		}
+	}
+}
