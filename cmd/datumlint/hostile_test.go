@@ -3,6 +3,8 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
+	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"strings"
@@ -149,6 +151,109 @@ func TestFmtWriteLeavesFilesWithSyntaxFindingsAlone(t *testing.T) {
 		got, err := os.ReadFile(filepath.Join(dir, name))
 		if err != nil || string(got) != files[name] {
 			t.Errorf("fmt -w changed %s, which has a syntax finding (err %v)", name, err)
+		}
+	}
+}
+
+// mutate returns a damaged copy of src: the kinds of damage an editor, a
+// bad merge or a broken export does.
+func mutate(src []byte, rng *rand.Rand) []byte {
+	lines := strings.SplitAfter(string(src), "\n")
+	pick := func() int { return rng.IntN(len(lines)) }
+	b := []byte(string(src))
+	switch rng.IntN(10) {
+	case 0: // delete a byte
+		if len(b) > 0 {
+			i := rng.IntN(len(b))
+			b = append(b[:i], b[i+1:]...)
+		}
+	case 1: // insert an arbitrary byte
+		i := rng.IntN(len(b) + 1)
+		b = append(b[:i], append([]byte{byte(rng.IntN(256))}, b[i:]...)...)
+	case 2: // truncate
+		b = b[:rng.IntN(len(b)+1)]
+	case 3: // duplicate a line
+		i := pick()
+		lines = append(lines[:i+1], lines[i:]...)
+		b = []byte(strings.Join(lines, ""))
+	case 4: // swap two lines
+		i, j := pick(), pick()
+		lines[i], lines[j] = lines[j], lines[i]
+		b = []byte(strings.Join(lines, ""))
+	case 5: // drop a line
+		i := pick()
+		b = []byte(strings.Join(append(lines[:i:i], lines[i+1:]...), ""))
+	case 6: // a number gets huge
+		b = []byte(strings.Replace(string(b), "0.", "9e999", 1+rng.IntN(3)))
+	case 7: // a parenthesis or comma goes missing
+		for _, c := range []string{"(", ")", ","} {
+			b = []byte(strings.Replace(string(b), c, "", 1))
+		}
+	case 8: // a word is cut short
+		words := strings.Fields(string(b))
+		if len(words) > 0 {
+			w := words[rng.IntN(len(words))]
+			b = []byte(strings.Replace(string(b), w, w[:len(w)/2], 1))
+		}
+	case 9: // a continuation backslash at a random line end
+		i := pick()
+		lines[i] = strings.TrimSuffix(lines[i], "\n") + " \\\n"
+		b = []byte(strings.Join(lines, ""))
+	}
+	return b
+}
+
+// Several hundred mutated copies of the test data: check gives valid JSON
+// with every finding inside its file, and fmt -w leaves every file with a
+// syntax finding as it was.
+func TestMutatedFiles(t *testing.T) {
+	var seeds [][]byte
+	for _, root := range []string{"../../rules/testdata", "../../testdata"} {
+		paths, _ := filepath.Glob(filepath.Join(root, "*.callouts"))
+		more, _ := filepath.Glob(filepath.Join(root, "*", "*.callouts"))
+		for _, p := range append(paths, more...) {
+			if b, err := os.ReadFile(p); err == nil {
+				seeds = append(seeds, b)
+			}
+		}
+	}
+	if len(seeds) < 10 {
+		t.Fatalf("only %d test files to mutate", len(seeds))
+	}
+	rng := rand.New(rand.NewPCG(7, 11))
+	dir := t.TempDir()
+	files := map[string][]byte{}
+	for i := 0; i < 400; i++ {
+		src := seeds[i%len(seeds)]
+		for k := 0; k <= rng.IntN(3); k++ {
+			src = mutate(src, rng)
+		}
+		name := fmt.Sprintf("m%03d.callouts", i)
+		files[name] = src
+		os.WriteFile(filepath.Join(dir, name), src, 0o644)
+	}
+	code, out, stderr := checkHostileJSON(t, dir)
+	if code == 2 || code == 0 {
+		t.Fatalf("exit %d, stderr %s", code, stderr)
+	}
+	broken := map[string]bool{}
+	for _, f := range out {
+		name := filepath.Base(f.File)
+		if n := len(strings.Split(string(bytes.TrimPrefix(files[name], []byte("\xef\xbb\xbf"))), "\n")); f.Line > n || f.EndLine > n {
+			t.Errorf("%s: finding at line %d of a file of %d lines: %s", name, f.Line, n, f.Message)
+		}
+		if f.Rule == "syntax" {
+			broken[name] = true
+		}
+	}
+	if len(broken) < 50 {
+		t.Errorf("only %d of 400 mutated files have a syntax finding: the mutations are too gentle to test anything", len(broken))
+	}
+	var so, se bytes.Buffer
+	run([]string{"fmt", "-w", dir}, &so, &se)
+	for name := range broken {
+		if got, _ := os.ReadFile(filepath.Join(dir, name)); !bytes.Equal(got, files[name]) {
+			t.Errorf("fmt -w rewrote %s, which has a syntax finding", name)
 		}
 	}
 }
