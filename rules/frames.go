@@ -47,8 +47,11 @@ concentricity and symmetry where the edition still has them.`,
 	Run: func(p *Pass) {
 		for _, fr := range p.Part.Frames {
 			cat := fr.Characteristic.Category()
+			// Concentricity and symmetry need datums too where the edition
+			// has them; under asme-2018 characteristic-withdrawn already
+			// reports the frame, so it is not reported twice.
 			needs := cat == model.Orientation || cat == model.Runout ||
-				fr.Characteristic == "concentricity" || fr.Characteristic == "symmetry"
+				((fr.Characteristic == "concentricity" || fr.Characteristic == "symmetry") && p.Part.Standard != model.ASME2018)
 			if needs && len(fr.Upper().Refs) == 0 {
 				p.Report(fr.CharSpan, "%s needs at least one datum reference: add e.g. 'datums A' naming the feature it relates to", fr.Characteristic)
 			}
