@@ -39,16 +39,8 @@ func hostileTree(t *testing.T) (dir string, files map[string]string) {
 	return dir, files
 }
 
-type hostileFinding struct {
-	File      string `json:"file"`
-	Line      int    `json:"line"`
-	Column    int    `json:"column"`
-	EndLine   int    `json:"end_line"`
-	EndColumn int    `json:"end_column"`
-	Rule      string `json:"rule"`
-	Severity  string `json:"severity"`
-	Message   string `json:"message"`
-}
+// hostileFinding is the JSON finding the command prints.
+type hostileFinding = jsonFinding
 
 func checkHostileJSON(t *testing.T, args ...string) (int, []hostileFinding, string) {
 	t.Helper()
