@@ -1,0 +1,601 @@
+package grammar
+
+import (
+	"github.com/alecthomas/participle/v2/lexer"
+)
+
+// fastParse builds the tree of one well-formed statement by plain recursive
+// descent over its scanned tokens, without participle. Profiling put
+// participle's reflective parser at almost a third of a whole check, most
+// of it spent on statements that are perfectly ordinary.
+//
+// The participle grammar (the tags in ast.go) stays the reference: this
+// parser must produce exactly the tree participle produces (same nodes, same
+// values, same Pos and EndPos) or nothing at all. It commits to an optional
+// part of the grammar as soon as that part's first token is there and gives
+// up ("not handled", nil) at the first token it does not expect, so it
+// accepts only input that participle's greedy, ordered matching accepts the
+// same way; everything else, every syntax error included, goes to
+// participle as before. TestFastParserMatchesParticiple and FuzzFastParser
+// hold the two parsers to the same trees.
+//
+// Positions follow participle: a node's Pos is its first significant token,
+// its EndPos the raw token (whitespace included) after its last token, or
+// the end of the statement.
+func fastParse(keyword string, all []lexer.Token, eof lexer.Token) Stmt {
+	p := fastParser{all: all, eof: eof, last: -1}
+	p.skip()
+	var st Stmt
+	switch keyword {
+	case "part":
+		st = stmtOrNil(p.part())
+	case "units":
+		st = stmtOrNil(p.units())
+	case "standard":
+		st = stmtOrNil(p.standard())
+	case "feature":
+		st = stmtOrNil(p.feature())
+	case "datum":
+		st = stmtOrNil(p.datum())
+	case "frame":
+		st = stmtOrNil(p.frame())
+	case "basic":
+		st = stmtOrNil(p.basic())
+	case "dim":
+		st = stmtOrNil(p.dim())
+	}
+	// participle requires the whole statement to be used up.
+	if p.failed || st == nil || p.next < len(p.all) {
+		return nil
+	}
+	return st
+}
+
+// stmtOrNil keeps a nil statement pointer from becoming a non-nil Stmt.
+func stmtOrNil[T any, P interface {
+	*T
+	Stmt
+}](s P) Stmt {
+	if s == nil {
+		return nil
+	}
+	return s
+}
+
+// maxRepeat is participle's MaxIterations: a repetition that reaches it is
+// an error there, so it is left to participle here.
+const maxRepeat = 1000000
+
+// fastParser walks the raw token slice (whitespace included) of one
+// statement.
+type fastParser struct {
+	all    []lexer.Token
+	eof    lexer.Token
+	next   int  // index in all of the next significant token (len(all) at the end)
+	last   int  // index in all of the last token taken, -1 before the first
+	failed bool // an expected token was missing: the statement is not handled
+}
+
+// skip moves next past whitespace.
+func (p *fastParser) skip() {
+	for p.next < len(p.all) && p.all[p.next].Type == tokWhitespace {
+		p.next++
+	}
+}
+
+// peek returns the next significant token, or the end-of-statement token.
+func (p *fastParser) peek() *lexer.Token {
+	if p.next < len(p.all) {
+		return &p.all[p.next]
+	}
+	return &p.eof
+}
+
+// take consumes the next significant token.
+func (p *fastParser) take() *lexer.Token {
+	t := &p.all[p.next]
+	p.last = p.next
+	p.next++
+	p.skip()
+	return t
+}
+
+// is reports whether the next token has the given type.
+func (p *fastParser) is(typ lexer.TokenType) bool {
+	return p.next < len(p.all) && p.all[p.next].Type == typ
+}
+
+// isWord reports whether the next token is the literal word (or punctuation) w.
+func (p *fastParser) isWord(w string) bool {
+	return p.next < len(p.all) && p.all[p.next].Value == w
+}
+
+// expect consumes the literal w or marks the statement as not handled.
+func (p *fastParser) expect(w string) bool {
+	if !p.isWord(w) {
+		p.failed = true
+		return false
+	}
+	p.take()
+	return true
+}
+
+// open starts a node at the next significant token.
+func (p *fastParser) open() node {
+	return node{Pos: p.peek().Pos}
+}
+
+// close ends a node after the last token taken: at the raw token that
+// follows it, which may be whitespace, as participle's RawPeek does.
+func (p *fastParser) close(n *node) {
+	if p.last+1 < len(p.all) {
+		n.EndPos = p.all[p.last+1].Pos
+	} else {
+		n.EndPos = p.eof.Pos
+	}
+}
+
+func (p *fastParser) fail() { p.failed = true }
+
+// --- leaves ---------------------------------------------------------------
+
+func (p *fastParser) isName() bool { return p.is(tokIdent) || p.is(tokMember) }
+
+// name: @(Ident | Member)
+func (p *fastParser) name() *Name {
+	if !p.isName() {
+		p.fail()
+		return nil
+	}
+	n := &Name{node: p.open()}
+	n.Value = p.take().Value
+	p.close(&n.node)
+	return n
+}
+
+func (p *fastParser) isWordTok() bool {
+	if p.next >= len(p.all) {
+		return false
+	}
+	switch p.all[p.next].Type {
+	case tokIdent, tokSymbol, tokDia, tokSDia:
+		return true
+	}
+	return false
+}
+
+// word: @(Ident | Symbol | Dia | SDia)
+func (p *fastParser) word() *Word {
+	if !p.isWordTok() {
+		p.fail()
+		return nil
+	}
+	w := &Word{node: p.open()}
+	w.Value = p.take().Value
+	p.close(&w.node)
+	return w
+}
+
+// number: @Number
+func (p *fastParser) number() *Number {
+	if !p.is(tokNumber) {
+		p.fail()
+		return nil
+	}
+	n := &Number{node: p.open()}
+	n.Text = p.take().Value
+	p.close(&n.node)
+	return n
+}
+
+// vector: '(' @@ ',' @@ ',' @@ ')'
+func (p *fastParser) vector() *Vector {
+	v := &Vector{node: p.open()}
+	if !p.expect("(") {
+		return nil
+	}
+	if v.X = p.number(); v.X == nil || !p.expect(",") {
+		return nil
+	}
+	if v.Y = p.number(); v.Y == nil || !p.expect(",") {
+		return nil
+	}
+	if v.Z = p.number(); v.Z == nil || !p.expect(")") {
+		return nil
+	}
+	p.close(&v.node)
+	return v
+}
+
+func (p *fastParser) isDirection() bool { return p.is(tokDir) || p.isWord("(") }
+
+// direction: @Dir | @@(Vector)
+func (p *fastParser) direction() *Direction {
+	d := &Direction{node: p.open()}
+	switch {
+	case p.is(tokDir):
+		d.Axis = p.take().Value
+	case p.isWord("("):
+		if d.Vector = p.vector(); d.Vector == nil {
+			return nil
+		}
+	default:
+		p.fail()
+		return nil
+	}
+	p.close(&d.node)
+	return d
+}
+
+// refModifier: @Modifier
+func (p *fastParser) refModifier() *RefModifier {
+	m := &RefModifier{node: p.open()}
+	m.Symbol = p.take().Value
+	p.close(&m.node)
+	return m
+}
+
+// size: Nominal 'deg'? ( PlusMinus @@ | @@ '/'? @@ | Range @@ )? Envelope?
+func (p *fastParser) size() *Size {
+	s := &Size{node: p.open()}
+	if s.Nominal = p.number(); s.Nominal == nil {
+		return nil
+	}
+	if p.isWord("deg") {
+		p.take()
+		s.Deg = true
+	}
+	switch {
+	case p.is(tokPlusMinus):
+		p.take()
+		if s.PlusMinus = p.number(); s.PlusMinus == nil {
+			return nil
+		}
+	case p.is(tokNumber):
+		s.Upper = p.number()
+		if p.isWord("/") {
+			p.take()
+			s.Slash = true
+		}
+		if s.Lower = p.number(); s.Lower == nil {
+			return nil
+		}
+	case p.is(tokRange):
+		p.take()
+		if s.Limit = p.number(); s.Limit == nil {
+			return nil
+		}
+	}
+	if p.is(tokModifier) {
+		s.Envelope = p.refModifier()
+	}
+	p.close(&s.node)
+	return s
+}
+
+// --- statements -----------------------------------------------------------
+
+// part: 'part' @String
+func (p *fastParser) part() *PartStmt {
+	s := &PartStmt{node: p.open()}
+	if !p.expect("part") || !p.is(tokString) {
+		p.fail()
+		return nil
+	}
+	s.Title = p.take().Value
+	p.close(&s.node)
+	return s
+}
+
+// units: 'units' @@
+func (p *fastParser) units() *UnitsStmt {
+	s := &UnitsStmt{node: p.open()}
+	if !p.expect("units") {
+		return nil
+	}
+	if s.Unit = p.word(); s.Unit == nil {
+		return nil
+	}
+	p.close(&s.node)
+	return s
+}
+
+// standard: 'standard' @@
+func (p *fastParser) standard() *StandardStmt {
+	s := &StandardStmt{node: p.open()}
+	if !p.expect("standard") {
+		return nil
+	}
+	if s.Standard = p.word(); s.Standard == nil {
+		return nil
+	}
+	p.close(&s.node)
+	return s
+}
+
+// feature: 'feature' Name Kind Count? ('size' Size)? Geometry?
+func (p *fastParser) feature() *FeatureStmt {
+	s := &FeatureStmt{node: p.open()}
+	if !p.expect("feature") {
+		return nil
+	}
+	if s.Name = p.name(); s.Name == nil {
+		return nil
+	}
+	if s.Kind = p.word(); s.Kind == nil {
+		return nil
+	}
+	if p.is(tokNumber) {
+		c := &Count{node: p.open()}
+		c.N = p.number()
+		if !p.isWord("x") && !p.isWord("X") {
+			p.fail()
+			return nil
+		}
+		p.take()
+		p.close(&c.node)
+		s.Count = c
+	}
+	if p.isWord("size") {
+		p.take()
+		if s.Size = p.size(); s.Size == nil {
+			return nil
+		}
+	}
+	if p.isGeomWord() {
+		if s.Geometry = p.geometry(); s.Geometry == nil {
+			return nil
+		}
+	}
+	p.close(&s.node)
+	return s
+}
+
+func (p *fastParser) isGeomWord() bool {
+	if p.next >= len(p.all) {
+		return false
+	}
+	switch p.all[p.next].Value {
+	case "normal", "axis", "along", "at", "between":
+		return true
+	}
+	return false
+}
+
+// geometry: GeomWord Direction? AtWord? Vector* Name*
+func (p *fastParser) geometry() *Geometry {
+	g := &Geometry{node: p.open()}
+	w := &GeomWord{node: p.open()}
+	w.Value = p.take().Value
+	p.close(&w.node)
+	g.Word = w
+	if p.isDirection() {
+		if g.Dir = p.direction(); g.Dir == nil {
+			return nil
+		}
+	}
+	if p.isWord("at") {
+		a := &AtWord{node: p.open()}
+		a.Value = p.take().Value
+		p.close(&a.node)
+		g.At = a
+	}
+	for p.isWord("(") {
+		if len(g.Points) == maxRepeat-1 {
+			p.fail()
+			return nil
+		}
+		v := p.vector()
+		if v == nil {
+			return nil
+		}
+		g.Points = append(g.Points, v)
+	}
+	for p.isName() {
+		if len(g.Faces) == maxRepeat-1 {
+			p.fail()
+			return nil
+		}
+		g.Faces = append(g.Faces, p.name())
+	}
+	p.close(&g.node)
+	return g
+}
+
+// datum: 'datum' Name 'on' Name ('placed' Word)?
+func (p *fastParser) datum() *DatumStmt {
+	s := &DatumStmt{node: p.open()}
+	if !p.expect("datum") {
+		return nil
+	}
+	if s.Letter = p.name(); s.Letter == nil || !p.expect("on") {
+		return nil
+	}
+	if s.Target = p.name(); s.Target == nil {
+		return nil
+	}
+	if p.isWord("placed") {
+		p.take()
+		if s.Placement = p.word(); s.Placement == nil {
+			return nil
+		}
+	}
+	p.close(&s.node)
+	return s
+}
+
+// frame: 'frame' Name ':' Word Tolerance Composite*
+func (p *fastParser) frame() *FrameStmt {
+	s := &FrameStmt{node: p.open()}
+	if !p.expect("frame") {
+		return nil
+	}
+	if s.Target = p.name(); s.Target == nil || !p.expect(":") {
+		return nil
+	}
+	if s.Characteristic = p.word(); s.Characteristic == nil {
+		return nil
+	}
+	if s.Tolerance = p.tolerance(); s.Tolerance == nil {
+		return nil
+	}
+	for p.isWord("composite") {
+		if len(s.Composites) == maxRepeat-1 {
+			p.fail()
+			return nil
+		}
+		c := &Composite{node: p.open()}
+		p.take()
+		if c.Tolerance = p.tolerance(); c.Tolerance == nil {
+			return nil
+		}
+		p.close(&c.node)
+		s.Composites = append(s.Composites, c)
+	}
+	p.close(&s.node)
+	return s
+}
+
+// tolerance: Word? Number Modifier* ('datums' DatumRef (',' DatumRef)*)?
+func (p *fastParser) tolerance() *Tolerance {
+	t := &Tolerance{node: p.open()}
+	if p.isWordTok() {
+		t.Zone = p.word()
+	}
+	if t.Value = p.number(); t.Value == nil {
+		return nil
+	}
+	for p.is(tokModifier) {
+		if len(t.Modifiers) == maxRepeat-1 {
+			p.fail()
+			return nil
+		}
+		m := &Modifier{node: p.open()}
+		m.Symbol = p.take().Value
+		if p.is(tokNumber) {
+			m.Value = p.number()
+		}
+		p.close(&m.node)
+		t.Modifiers = append(t.Modifiers, m)
+	}
+	if p.isWord("datums") {
+		p.take()
+		for {
+			if len(t.Datums) == maxRepeat {
+				p.fail()
+				return nil
+			}
+			r := p.datumRef()
+			if r == nil {
+				return nil
+			}
+			t.Datums = append(t.Datums, r)
+			if !p.isWord(",") {
+				break
+			}
+			p.take()
+		}
+	}
+	p.close(&t.node)
+	return t
+}
+
+// datumRef: @Ident RefModifier*
+func (p *fastParser) datumRef() *DatumRef {
+	if !p.is(tokIdent) {
+		p.fail()
+		return nil
+	}
+	r := &DatumRef{node: p.open()}
+	r.Name = p.take().Value
+	for p.is(tokModifier) {
+		if len(r.Modifiers) == maxRepeat-1 {
+			p.fail()
+			return nil
+		}
+		r.Modifiers = append(r.Modifiers, p.refModifier())
+	}
+	p.close(&r.node)
+	return r
+}
+
+// basic: 'basic' ( BoltCircle | Number 'deg'? 'from' Name 'to' Name
+// ('along' Direction)? ('about' Name)? )
+func (p *fastParser) basic() *BasicStmt {
+	s := &BasicStmt{node: p.open()}
+	if !p.expect("basic") {
+		return nil
+	}
+	if p.isWordTok() {
+		c := &BoltCircle{node: p.open()}
+		c.Zone = p.word()
+		if c.Value = p.number(); c.Value == nil || !p.expect("through") {
+			return nil
+		}
+		if c.Pattern = p.name(); c.Pattern == nil || !p.expect("about") {
+			return nil
+		}
+		if c.About = p.name(); c.About == nil {
+			return nil
+		}
+		p.close(&c.node)
+		s.Circle = c
+		p.close(&s.node)
+		return s
+	}
+	if s.Value = p.number(); s.Value == nil {
+		return nil
+	}
+	if p.isWord("deg") {
+		p.take()
+		s.Deg = true
+	}
+	if !p.expect("from") {
+		return nil
+	}
+	if s.From = p.name(); s.From == nil || !p.expect("to") {
+		return nil
+	}
+	if s.To = p.name(); s.To == nil {
+		return nil
+	}
+	if p.isWord("along") {
+		p.take()
+		if s.Along = p.direction(); s.Along == nil {
+			return nil
+		}
+	}
+	if p.isWord("about") {
+		p.take()
+		if s.About = p.name(); s.About == nil {
+			return nil
+		}
+	}
+	p.close(&s.node)
+	return s
+}
+
+// dim: 'dim' Size 'from' Name 'to' Name ('along' Direction)?
+func (p *fastParser) dim() *DimStmt {
+	s := &DimStmt{node: p.open()}
+	if !p.expect("dim") {
+		return nil
+	}
+	if s.Size = p.size(); s.Size == nil || !p.expect("from") {
+		return nil
+	}
+	if s.From = p.name(); s.From == nil || !p.expect("to") {
+		return nil
+	}
+	if s.To = p.name(); s.To == nil {
+		return nil
+	}
+	if p.isWord("along") {
+		p.take()
+		if s.Along = p.direction(); s.Along == nil {
+			return nil
+		}
+	}
+	p.close(&s.node)
+	return s
+}

@@ -1,0 +1,310 @@
+package grammar
+
+import (
+	"bytes"
+	"fmt"
+	"go/ast"
+	"go/parser"
+	gotoken "go/token"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"reflect"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/alecthomas/participle/v2/lexer"
+)
+
+// participleStmt parses one lexed statement with participle alone, the
+// reference for the hand-written parser.
+func participleStmt(keyword string, all []lexer.Token, eof lexer.Token) (Stmt, error) {
+	p, err := lexer.Upgrade(&sliceLexer{toks: all, eof: eof}, tokWhitespace)
+	if err != nil {
+		return nil, err
+	}
+	switch keyword {
+	case "part":
+		return run(partParser, p)
+	case "units":
+		return run(unitsParser, p)
+	case "standard":
+		return run(standardParser, p)
+	case "feature":
+		return run(featureParser, p)
+	case "datum":
+		return run(datumParser, p)
+	case "frame":
+		return run(frameParser, p)
+	case "basic":
+		return run(basicParser, p)
+	case "dim":
+		return run(dimParser, p)
+	}
+	return nil, fmt.Errorf("no statement starts with %q", keyword)
+}
+
+// stmtResult is what both parsers made of one statement.
+type stmtResult struct {
+	text     string
+	fast     Stmt  // nil: not handled
+	ref      Stmt  // participle's tree, nil on error
+	refErr   error // participle's error
+	lexError bool  // the statement does not lex: neither parser sees it
+}
+
+// parseBoth splits src into statements as Parse does and parses each with
+// both parsers.
+func parseBoth(src []byte) []stmtResult {
+	body := bytes.TrimPrefix(src, []byte("\xef\xbb\xbf"))
+	if looksBinary(body) {
+		return nil
+	}
+	var out []stmtResult
+	for _, rs := range splitStatements(splitLines(body)) {
+		r := stmtResult{text: rs.text}
+		all, sig, eof, lerr := lexStmt("t.callouts", rs)
+		if lerr != nil || len(sig) == 0 {
+			r.lexError = true
+			out = append(out, r)
+			continue
+		}
+		r.fast = fastParse(sig[0].Value, all, eof)
+		r.ref, r.refErr = participleStmt(sig[0].Value, all, eof)
+		out = append(out, r)
+	}
+	return out
+}
+
+// sameTrees fails when the fast parser accepted a statement and participle
+// did not, or built a different tree. With valid set, it also fails when
+// participle accepted a statement the fast parser left to it.
+func sameTrees(t *testing.T, where string, src []byte, valid bool) (handled, total int) {
+	t.Helper()
+	for _, r := range parseBoth(src) {
+		if r.lexError {
+			if valid {
+				t.Errorf("%s: %q does not lex", where, r.text)
+			}
+			continue
+		}
+		total++
+		switch {
+		case r.fast != nil && r.refErr != nil:
+			t.Errorf("%s: %q: the fast parser accepted what participle rejects (%v):\n%s", where, r.text, r.refErr, dumpTree(r.fast))
+		case r.fast != nil && !reflect.DeepEqual(r.fast, r.ref):
+			t.Errorf("%s: %q: the trees differ\nparticiple:\n%s\nfast:\n%s", where, r.text, dumpTree(r.ref), dumpTree(r.fast))
+		case r.fast == nil && r.refErr == nil && valid:
+			t.Errorf("%s: %q: the fast parser left a statement to participle that participle accepts", where, r.text)
+		}
+		if r.fast != nil {
+			handled++
+		}
+	}
+	return handled, total
+}
+
+// dumpTree prints a tree with every field and position, one node per
+// line, so that two trees can be compared by eye.
+func dumpTree(v any) string {
+	var b strings.Builder
+	var walk func(rv reflect.Value, indent string)
+	walk = func(rv reflect.Value, indent string) {
+		switch rv.Kind() {
+		case reflect.Interface, reflect.Pointer:
+			if rv.IsNil() {
+				b.WriteString("nil\n")
+				return
+			}
+			walk(rv.Elem(), indent)
+		case reflect.Slice:
+			if rv.IsNil() {
+				b.WriteString("nil slice\n")
+				return
+			}
+			b.WriteString("[\n")
+			for i := 0; i < rv.Len(); i++ {
+				b.WriteString(indent + "  ")
+				walk(rv.Index(i), indent+"  ")
+			}
+			b.WriteString(indent + "]\n")
+		case reflect.Struct:
+			if rv.Type() == reflect.TypeOf(lexer.Position{}) {
+				p := rv.Interface().(lexer.Position)
+				fmt.Fprintf(&b, "%s:%d:%d@%d\n", p.Filename, p.Line, p.Column, p.Offset)
+				return
+			}
+			b.WriteString(rv.Type().Name() + "\n")
+			for i := 0; i < rv.NumField(); i++ {
+				f := rv.Type().Field(i)
+				b.WriteString(indent + "  " + f.Name + ": ")
+				walk(rv.Field(i), indent+"  ")
+			}
+		default:
+			fmt.Fprintf(&b, "%#v\n", rv.Interface())
+		}
+	}
+	walk(reflect.ValueOf(v), "")
+	return b.String()
+}
+
+// testFuncStrings returns the cases written as a composite literal in one
+// test function of this package, so that the corner cases kept there are checked here
+// too without a second copy of the list.
+func testFuncStrings(t testing.TB, file, fn string) []string {
+	t.Helper()
+	f, err := parser.ParseFile(gotoken.NewFileSet(), file, nil, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out []string
+	for _, d := range f.Decls {
+		fd, ok := d.(*ast.FuncDecl)
+		if !ok || fd.Name.Name != fn {
+			continue
+		}
+		// The cases are the elements of a composite literal: strings, or
+		// structs whose first field is the source.
+		ast.Inspect(fd.Body, func(n ast.Node) bool {
+			cl, ok := n.(*ast.CompositeLit)
+			if !ok {
+				return true
+			}
+			for _, e := range cl.Elts {
+				if inner, ok := e.(*ast.CompositeLit); ok && len(inner.Elts) > 0 {
+					e = inner.Elts[0]
+				}
+				if lit, ok := e.(*ast.BasicLit); ok && lit.Kind == gotoken.STRING {
+					if s, err := strconv.Unquote(lit.Value); err == nil {
+						out = append(out, s)
+					}
+				}
+			}
+			return false
+		})
+	}
+	if len(out) == 0 {
+		t.Fatalf("no string literals found in %s of %s", fn, file)
+	}
+	return out
+}
+
+// fastCases are the corners of the grammar where participle's ordered,
+// greedy matching decides: optional parts that start alike, words that are
+// both keywords and names, positions at the ends of lines. Some are valid,
+// some are not; either way the two parsers must agree.
+var fastCases = []string{
+	"units mm  ", "  units mm", "units\tmm\t", "units ⌀", "units", "units mm mm", "part \"\"", "part x",
+	"feature s socket size 10 +-0.1 at (0, 0, 0)", "feature s ball 2x size 10 +-0.1 at (0, 0, 0) (1, 0, 0)",
+	"feature a size 10", "feature a hole 4 size 10", "feature a hole 4X", "feature a hole size 10 +0.1",
+	"feature a hole size 10 +0.1 /", "feature a hole size 10 +0.1 / -0", "feature a hole size 10 (E)",
+	"feature a hole size 10 +-", "feature a hole size 10..", "feature a hole size 10deg +-1 (M) at",
+	"feature a plane normal at at at", "feature a plane between at b.1 c", "feature a plane at (1,2,3) b (4,5,6)",
+	"feature a plane normal (1, 2) at (0,0,0)", "feature a plane normal ( 1 x", "feature bolts.2 hole",
+	"feature a plane along +x+y", "feature a plane normal +z at (0,0,0) \\\n  (1,1,1)",
+	"datum A on b placed", "datum A on b placed on-surface extra", "datum A-B on b.3", "datum A on b placed ⌀",
+	"frame a: flatness 0.1 (M) 3 (P) 12 (F)", "frame a: flatness datums 0.1", "frame a: position dia 0.1 datums A,",
+	"frame a: position dia 0.1 datums A B", "frame a: position dia 0.1 datums A(M)(L), B ( M ), C",
+	"frame a: position 0.1 datums", "frame a: position dia dia 0.1", "frame a:position⌀0.1Ⓜdatums A",
+	"frame a: position dia 0.4 (M) datums A, B\n  composite dia 0.1\n\n  composite dia 0.05 datums A",
+	"frame a: position dia 0.4\n  composite", "frame a: position dia 0.4 composite 0.1 composite",
+	"frame a b: flatness 0.1", "frame a: 0.1", "frame a: ⌖ 0.1", "frame a: flatness S⌀ 0.1",
+	"basic dia 80 through b about c", "basic dia 80 through b about", "basic dia 80 from a to b",
+	"basic 1 from a to b along ( 1 , 2 , 3 ) about c", "basic 1deg from a to b about c along +x",
+	"basic 1 from a to b along", "basic x", "basic", "basic ⌀ 1 through b.1 about c.2",
+	"dim 1 from a to b", "dim 1 +1 -1 (E) from a to b along -Z", "dim 1 / 2 from a to b", "dim 1..2 (M) from a to b",
+	"dim 1 +-1 from a to b along (1,1,0) extra", "dim from a to b", "dim 1e3 +-1e-3 from a.1 to b.2",
+}
+
+// TestFastParserMatchesParticiple compares the two parsers on every
+// statement of every .callouts file and txtar script of the repository (all
+// valid statements there must take the fast path), on the notation's
+// written forms and syntax errors listed in parser_test.go, and on the
+// corner cases above.
+func TestFastParserMatchesParticiple(t *testing.T) {
+	handled, total, files := 0, 0, 0
+	err := filepath.WalkDir("..", func(p string, d fs.DirEntry, err error) error {
+		if err != nil || d.IsDir() || !(strings.HasSuffix(p, ".callouts") || strings.HasSuffix(p, ".txtar")) {
+			return err
+		}
+		src, err := os.ReadFile(p)
+		if err != nil {
+			return err
+		}
+		files++
+		// Test data holds broken statements on purpose, so only the
+		// agreement of the two parsers is checked, and separately that no
+		// statement participle accepts is left to it.
+		h, n := sameTrees(t, p, src, false)
+		handled, total = handled+h, total+n
+		for _, r := range parseBoth(src) {
+			if !r.lexError && r.refErr == nil && r.fast == nil {
+				t.Errorf("%s: %q: the fast parser left a statement to participle that participle accepts", p, r.text)
+			}
+		}
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if files == 0 || handled == 0 {
+		t.Fatalf("compared %d statements of %d files, the fast parser took %d", total, files, handled)
+	}
+	t.Logf("%d files, %d statements, %d parsed on the fast path", files, total, handled)
+
+	for _, src := range testFuncStrings(t, "parser_test.go", "TestParsesContractForms") {
+		if h, n := sameTrees(t, "contract form", []byte(src), true); h != n || n == 0 {
+			t.Errorf("contract form %q: %d of %d statements on the fast path", src, h, n)
+		}
+	}
+	for _, src := range testFuncStrings(t, "parser_test.go", "TestSyntaxErrors") {
+		sameTrees(t, "syntax error case", []byte(src), false)
+	}
+	for _, src := range fastCases {
+		sameTrees(t, "corner case", []byte(src), false)
+	}
+}
+
+// TestFastParserDeclinesErrors: a statement with a syntax error never takes
+// the fast path, so its message is still participle's.
+func TestFastParserDeclinesErrors(t *testing.T) {
+	for _, src := range testFuncStrings(t, "parser_test.go", "TestSyntaxErrors") {
+		for _, r := range parseBoth([]byte(src)) {
+			if r.refErr != nil && r.fast != nil {
+				t.Errorf("%q: the fast parser accepted a statement with a syntax error", r.text)
+			}
+		}
+	}
+	declined := 0
+	for _, src := range fastCases {
+		for _, r := range parseBoth([]byte(src)) {
+			if !r.lexError && r.refErr != nil {
+				declined++
+				if r.fast != nil {
+					t.Errorf("%q: the fast parser accepted a statement with a syntax error", r.text)
+				}
+			}
+		}
+	}
+	if declined == 0 {
+		t.Fatal("no corner case has a syntax error: the cases no longer test declining")
+	}
+}
+
+// FuzzFastParser: whenever the fast parser accepts a statement of any
+// text, participle accepts it too and builds an identical tree.
+func FuzzFastParser(f *testing.F) {
+	for _, s := range fastCases {
+		f.Add(s)
+	}
+	for _, s := range testFuncStrings(f, "parser_test.go", "TestParsesContractForms") {
+		f.Add(s)
+	}
+	for _, s := range testFuncStrings(f, "parser_test.go", "TestSyntaxErrors") {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, src string) {
+		sameTrees(t, "fuzz", []byte(src), false)
+	})
+}
