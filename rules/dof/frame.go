@@ -1,6 +1,9 @@
 package dof
 
-import "math"
+import (
+	"math"
+	"slices"
+)
 
 // Twist is a small rigid motion: a rotation W and a translation V at the
 // part's origin, in the part's own units, so that a point x moves with
@@ -85,6 +88,7 @@ type Step struct {
 type DRF struct {
 	frame  Frame
 	spaces []space // free subspace after 0, 1, … n references (normalised)
+	splits []split // splitSpace of each space, for naming and for zones
 	steps  []Step
 	free   []Motion
 }
@@ -101,24 +105,41 @@ type DRF struct {
 // conditions, and an empty Datum removes nothing.
 func (f Frame) Analyze(refs []Datum) *DRF {
 	f = f.sanitized()
-	d := &DRF{frame: f}
-	free := identity(6)
-	d.spaces = append(d.spaces, free)
+	d := &DRF{
+		frame:  f,
+		spaces: make([]space, 1, len(refs)+1),
+		splits: make([]split, 1, len(refs)+1),
+		steps:  make([]Step, 0, len(refs)),
+	}
+	free, sp := identity(6), wholeSplit()
+	d.spaces[0], d.splits[0] = free, sp
+	var rows [][]float64
 	for _, ref := range refs {
-		var rows [][]float64
+		rows = rows[:0]
 		for _, s := range ref {
 			rows = append(rows, s.conditions(f)...)
 		}
 		next := restrict(free, rows)
+		// Each space is split once and the split reused for every name
+		// and zone that needs it (splitSpace is a pure function of the
+		// space, so this changes no answer).
+		nsp := splitSpace(next)
 		d.steps = append(d.steps, Step{
 			Constrains: len(free) - len(next),
-			Removed:    f.readable(free, next),
-			Free:       f.readable(next, nil),
+			Removed:    f.readableSplit(sp, nsp),
+			Free:       f.readableSplit(nsp, split{}),
 		})
-		free = next
+		free, sp = next, nsp
 		d.spaces = append(d.spaces, free)
+		d.splits = append(d.splits, sp)
 	}
-	d.free = f.readable(free, nil)
+	if n := len(d.steps); n > 0 {
+		// The frame's freedom is the last step's, named the same way; a
+		// copy, so that a caller changing one cannot change the other.
+		d.free = slices.Clone(d.steps[n-1].Free)
+	} else {
+		d.free = f.readableSplit(sp, split{})
+	}
 	return d
 }
 

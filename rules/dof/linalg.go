@@ -2,6 +2,7 @@ package dof
 
 import (
 	"math"
+	"sync"
 
 	"gonum.org/v1/gonum/mat"
 )
@@ -63,8 +64,10 @@ func nullSpace(rows [][]float64, n int) space {
 	for _, r := range rows {
 		data = append(data, r...)
 	}
+	// Only V is read: asking for U as well (SVDFull) made LAPACK build an
+	// m × m matrix, 48 × 48 for the zone of a 12-hole pattern, for nothing.
 	var svd mat.SVD
-	if !svd.Factorize(mat.NewDense(len(rows), n, data), mat.SVDFull) {
+	if !svd.Factorize(mat.NewDense(len(rows), n, data), mat.SVDFullV) {
 		return identity(n)
 	}
 	vals := svd.Values(nil)
@@ -139,7 +142,7 @@ func orth(vecs [][]float64, n int) space {
 		a.SetCol(j, c)
 	}
 	var svd mat.SVD
-	if !svd.Factorize(a, mat.SVDThin) {
+	if !svd.Factorize(a, mat.SVDThinU) { // only U is read
 		return nil
 	}
 	vals := svd.Values(nil)
@@ -176,6 +179,11 @@ type split struct {
 	v    [][]float64
 	vals []float64
 }
+
+// wholeSplit is splitSpace(identity(6)), the split of every frame's
+// freedom before its first reference, computed once. Callers must not
+// change it.
+var wholeSplit = sync.OnceValue(func() split { return splitSpace(identity(6)) })
 
 func splitSpace(s space) split {
 	sp := split{basis: s}

@@ -15,7 +15,11 @@ import (
 // the axes, each with as little translation as s allows so that it names as
 // a rotation about an axis through a point.
 func (f Frame) readable(s, k space) []Motion {
-	ss, ks := splitSpace(s), splitSpace(k)
+	return f.readableSplit(splitSpace(s), splitSpace(k))
+}
+
+// readableSplit is readable for spaces already split by splitSpace.
+func (f Frame) readableSplit(ss, ks split) []Motion {
 	var out []Motion
 	for _, t := range pick(ss.trans, ks.trans) {
 		out = append(out, f.motion(Twist{V: t}))

@@ -41,9 +41,32 @@ type ZoneResult struct {
 // dim F − dim(F ∩ Z). For orientation tolerances the same is computed on
 // rotation parts: ω(F) against ω(Z). Invalid surfaces contribute no
 // conditions; a zone with none at all is unchanged by every motion.
+//
+// Zone is d.ZoneIn(frame.PrepareZone(z)); a caller checking one zone
+// against several frames of a part prepares it once.
 func (d *DRF) Zone(z Zone) ZoneResult {
 	d = d.orDefault()
-	f := d.frame
+	return d.ZoneIn(d.frame.PrepareZone(z))
+}
+
+// PreparedZone is the part of a zone's analysis that does not depend on the
+// datum reference frame: the conditions under which a motion leaves the
+// zone unchanged, for one normalisation Frame. It is not changed after
+// PrepareZone returns, so it may be shared by goroutines.
+type PreparedZone struct {
+	frame Frame
+	zone  Zone
+	// moving: rows whose null space is the zone's invariance Z (location
+	// zones, in R^6), or the rotation parts ω(Z) (orientation zones, in
+	// R^3). Orthonormal.
+	moving [][]float64
+}
+
+// PrepareZone computes the zone's invariance subspace Z once, to be checked
+// against any number of frames analysed with the same Frame (DRF.ZoneIn).
+// The zone's slices are kept, not copied: do not change them afterwards.
+func (f Frame) PrepareZone(z Zone) *PreparedZone {
+	f = f.sanitized()
 	var rows [][]float64
 	for _, s := range z.Surfaces {
 		rows = append(rows, s.conditions(f)...)
@@ -55,14 +78,44 @@ func (d *DRF) Zone(z Zone) ZoneResult {
 		}
 	}
 	inv := orth(gens, 6)
+	pz := &PreparedZone{frame: f, zone: z}
+	if z.OrientationOnly {
+		pz.moving = complementRows(space(vecs3(splitSpace(inv).rot)), 3)
+	} else {
+		pz.moving = complementRows(inv, 6)
+	}
+	return pz
+}
+
+// ZoneIn is Zone for a prepared zone. A zone prepared with another Frame
+// than the DRF's is prepared again with the DRF's, so the answer never
+// depends on which Frame the caller happened to prepare it with.
+func (d *DRF) ZoneIn(pz *PreparedZone) ZoneResult {
+	d = d.orDefault()
+	f := d.frame
+	if pz == nil {
+		pz = f.PrepareZone(Zone{})
+	} else if pz.frame != f {
+		pz = f.PrepareZone(pz.zone)
+	}
 	res := ZoneResult{PerStep: make([]int, len(d.spaces))}
 	last := len(d.spaces) - 1
 
-	if z.OrientationOnly {
-		notTurning := complementRows(space(vecs3(splitSpace(inv).rot)), 3)
-		for k, fk := range d.spaces {
-			wf := splitSpace(fk).rot
-			kept := restrict(space(vecs3(wf)), notTurning)
+	// In the steps before the last, only a count is needed, and two counts
+	// are certain without an SVD. With F empty nothing moves the zone (0).
+	// With F the whole ambient space (R^6, or R^3 of rotations: before the
+	// first reference, or after references that removed nothing) the
+	// conditions restricted to F's orthonormal basis are an orthonormal set
+	// of len(moving) rows, whose singular values are all 1, far above
+	// rankTol: exactly len(moving) dimensions of F move the zone.
+	if pz.zone.OrientationOnly {
+		for k := range d.spaces {
+			wf := d.splits[k].rot
+			if k != last && (len(wf) == 0 || len(wf) == 3) {
+				res.PerStep[k] = min(len(wf), len(pz.moving))
+				continue
+			}
+			kept := restrict(space(vecs3(wf)), pz.moving)
 			res.PerStep[k] = len(wf) - len(kept)
 			if k == last {
 				for _, w := range pick(wf, to3(kept)) {
@@ -73,12 +126,15 @@ func (d *DRF) Zone(z Zone) ZoneResult {
 		return res
 	}
 
-	notMoving := complementRows(inv, 6)
 	for k, fk := range d.spaces {
-		kept := restrict(fk, notMoving)
+		if k != last && (len(fk) == 0 || len(fk) == 6) {
+			res.PerStep[k] = min(len(fk), len(pz.moving))
+			continue
+		}
+		kept := restrict(fk, pz.moving)
 		res.PerStep[k] = len(fk) - len(kept)
 		if k == last {
-			res.Free = f.readable(fk, kept)
+			res.Free = f.readableSplit(d.splits[k], splitSpace(kept))
 			// Translations are listed first and exactly span the free
 			// translations the zone is not invariant under.
 			for _, m := range res.Free {

@@ -1,0 +1,178 @@
+package dof
+
+import (
+	"encoding/binary"
+	"math"
+	"math/rand/v2"
+	"testing"
+)
+
+// The engine is held to the reference engine of reference_test.go on
+// random frames here, and on the repository's test data in
+// differential_test.go: the same counts, names and twists, bit for bit.
+
+// randomScenario draws a frame and a zone from a small vocabulary chosen
+// so that the cases the fast paths and the sharing depend on occur often:
+// directions along the part's axes (either sign), slightly and strongly
+// tilted ones; points on a coarse grid (so that planes coincide, axes are
+// coaxial and patterns line up) or anywhere; patterns of parallel members;
+// frames that fix everything, nothing or something in between; invalid
+// surfaces; runout's extra slide and orientation zones.
+func randomScenario(rng *rand.Rand) scenario {
+	dir := func() Vec {
+		switch rng.IntN(6) {
+		case 0, 1, 2:
+			var d Vec
+			d[rng.IntN(3)] = float64(1 - 2*rng.IntN(2))
+			return d
+		case 3:
+			var d Vec
+			d[rng.IntN(3)] = 1
+			d[rng.IntN(3)] += 1e-3 * rng.NormFloat64()
+			return d
+		case 4:
+			return Vec{}
+		}
+		return Vec{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}
+	}
+	point := func() Vec {
+		if rng.IntN(4) == 0 {
+			return Vec{200 * rng.Float64(), 200 * rng.Float64(), 50 * rng.Float64()}
+		}
+		return Vec{float64(20 * rng.IntN(6)), float64(20 * rng.IntN(5)), float64(10 * rng.IntN(3))}
+	}
+	surface := func() Surface {
+		c := Class(rng.IntN(8)) // 0 and 7 are not classes
+		if rng.IntN(3) > 0 {
+			c = Class(1 + rng.IntN(2)) // planes and cylinders, as on most parts
+		}
+		d := dir()
+		if d == (Vec{}) && rng.IntN(4) > 0 {
+			d = Vec{0, 0, 1}
+		}
+		return Surface{Class: c, Dir: d, Point: point()}
+	}
+	members := func(max int) []Surface {
+		s := surface()
+		out := []Surface{s}
+		n := rng.IntN(max)
+		for range n {
+			m := s
+			if rng.IntN(3) > 0 {
+				m.Point = point() // a pattern: same class and direction
+			} else {
+				m = surface()
+			}
+			out = append(out, m)
+		}
+		return out
+	}
+	sc := scenario{frame: Frame{Center: Vec{100 * rng.Float64(), 100 * rng.Float64(), 20 * rng.Float64()}, Scale: 50 + 300*rng.Float64()}}
+	nref := rng.IntN(5)
+	for range nref {
+		switch rng.IntN(8) {
+		case 0:
+			sc.refs = append(sc.refs, nil) // a reference that did not resolve
+		case 1, 2:
+			sc.refs = append(sc.refs, members(4))
+		default:
+			sc.refs = append(sc.refs, Datum{surface()})
+		}
+	}
+	sc.zone.Surfaces = members(14)
+	switch rng.IntN(5) {
+	case 0:
+		sc.zone.OrientationOnly = true
+	case 1:
+		sc.zone.Extra = []Twist{{V: dir()}}
+		if rng.IntN(3) == 0 {
+			sc.zone.Extra = append(sc.zone.Extra, Twist{W: dir(), V: point()}, Twist{V: Vec{math.NaN(), 0, 0}})
+		}
+	}
+	return sc
+}
+
+// sameAsReference compares the engine with the reference engine on one
+// scenario, through both ways a caller reaches a zone: DRF.Zone, and a
+// PreparedZone shared between frames.
+func sameAsReference(t *testing.T, sc scenario) {
+	t.Helper()
+	ref := refAnalyze(sc.frame, sc.refs)
+	want := refZone(ref, sc.zone)
+	d := sc.frame.Analyze(sc.refs)
+	steps := d.Steps()
+	if len(steps) != len(ref.Steps) {
+		t.Fatalf("%+v: %d steps, reference %d", sc, len(steps), len(ref.Steps))
+	}
+	for k := range steps {
+		if steps[k].Constrains != ref.Steps[k].Constrains ||
+			!sameMotions(steps[k].Removed, ref.Steps[k].Removed) || !sameMotions(steps[k].Free, ref.Steps[k].Free) {
+			t.Fatalf("%+v: step %d is %+v, reference %+v", sc, k+1, steps[k], ref.Steps[k])
+		}
+	}
+	if !sameMotions(d.Free(), ref.Free) {
+		t.Fatalf("%+v: free %v, reference %v", sc, d.Free(), ref.Free)
+	}
+	got := map[string]ZoneResult{
+		"Zone":     d.Zone(sc.zone),
+		"prepared": d.ZoneIn(sc.frame.PrepareZone(sc.zone)),
+	}
+	for how, z := range got {
+		if !sameZoneResult(z, want) {
+			t.Fatalf("%+v: %s gives %+v, reference %+v", sc, how, z, want)
+		}
+	}
+}
+
+func sameZoneResult(a, b ZoneResult) bool {
+	if len(a.PerStep) != len(b.PerStep) || a.TranslationMoves != b.TranslationMoves || !sameMotions(a.Free, b.Free) {
+		return false
+	}
+	for i := range a.PerStep {
+		if a.PerStep[i] != b.PerStep[i] {
+			return false
+		}
+	}
+	return true
+}
+
+func sameMotions(a, b []Motion) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if a[i] != b[i] {
+			return false
+		}
+	}
+	return true
+}
+
+func TestFastMatchesReferenceOnRandomFrames(t *testing.T) {
+	rng := rand.New(rand.NewPCG(2011, 5459))
+	n := 20000
+	if testing.Short() {
+		n = 2000
+	}
+	for range n {
+		sc := randomScenario(rng)
+		sameAsReference(t, sc)
+		if t.Failed() {
+			return
+		}
+	}
+}
+
+// FuzzFastMatchesReference draws the scenario from the fuzzer's seed.
+func FuzzFastMatchesReference(f *testing.F) {
+	for _, s := range []uint64{0, 1, 1994, 5459} {
+		f.Add(binary.LittleEndian.AppendUint64(nil, s), uint64(7))
+	}
+	f.Fuzz(func(t *testing.T, seed []byte, s2 uint64) {
+		var s1 uint64
+		for i, b := range seed {
+			s1 ^= uint64(b) << (8 * (i % 8))
+		}
+		sameAsReference(t, randomScenario(rand.New(rand.NewPCG(s1, s2))))
+	})
+}
