@@ -1,7 +1,9 @@
 package rules
 
 import (
+	"encoding/binary"
 	"fmt"
+	"math"
 	"strings"
 
 	"github.com/datumlint/datumlint/grammar/model"
@@ -196,9 +198,46 @@ func (f *Facts) DOF(fr *model.Frame, seg int) *SegmentDOF {
 		}
 		out.Resolved = true
 		out.DRF = f.DRFOf(s.Refs)
-		out.Zone = out.DRF.Zone(ZoneOf(fr, s))
+		out.Zone = f.zoneIn(out.DRF, ZoneOf(fr, s))
 		return out
 	})
+}
+
+// zoneIn analyses a zone against a frame once per file for each distinct
+// pair: the zone's invariance once per distinct zone (the upper and lower
+// segments of a composite frame, several frames on one feature), and the
+// result once per frame and zone. Zones are told apart by what they are
+// (see zoneKey), not by which frame asked. Segments that share a result
+// share its slices; rules only read them.
+func (f *Facts) zoneIn(d *dof.DRF, z dof.Zone) dof.ZoneResult {
+	key := zoneKey(z)
+	pz := Memo(f, "dof.zone:"+key, func() *dof.PreparedZone { return f.engineFrame().PrepareZone(z) })
+	return Memo(f, fmt.Sprintf("dof.zonein:%p:%s", d, key), func() dof.ZoneResult { return d.ZoneIn(pz) })
+}
+
+// zoneKey encodes everything a zone's analysis depends on, bit for bit:
+// each surface's class, direction and point, the extra invariant twists
+// and the orientation flag. Equal keys give equal answers.
+func zoneKey(z dof.Zone) string {
+	b := make([]byte, 0, 2+len(z.Surfaces)*7*8+len(z.Extra)*6*8)
+	num := func(x float64) { b = binary.LittleEndian.AppendUint64(b, math.Float64bits(x)) }
+	vec := func(v dof.Vec) { num(v[0]); num(v[1]); num(v[2]) }
+	if z.OrientationOnly {
+		b = append(b, 'o')
+	} else {
+		b = append(b, 'l')
+	}
+	for _, s := range z.Surfaces {
+		b = binary.LittleEndian.AppendUint64(b, uint64(s.Class))
+		vec(s.Dir)
+		vec(s.Point)
+	}
+	b = append(b, 'x')
+	for _, t := range z.Extra {
+		vec(t.W)
+		vec(t.V)
+	}
+	return string(b)
 }
 
 // segmentProblem says why a segment cannot be analysed, or "".
