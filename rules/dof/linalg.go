@@ -54,11 +54,20 @@ func dot(a, b []float64) float64 {
 // ignored rather than trusted: the caller then sees no constraint, which a
 // linter reports as a reference that removes nothing, not as a crash.
 func nullSpace(rows [][]float64, n int) space {
+	null, _ := nullAndRowSpace(rows, n)
+	return null
+}
+
+// nullAndRowSpace returns nullSpace(rows, n) and, from the same SVD, an
+// orthonormal basis of its orthogonal complement (the span of the rows, to
+// the rank tolerance): the right singular vectors whose singular values
+// exceed rankTol.
+func nullAndRowSpace(rows [][]float64, n int) (null, row space) {
 	if n == 0 {
-		return nil
+		return nil, nil
 	}
 	if len(rows) == 0 {
-		return identity(n)
+		return identity(n), nil
 	}
 	data := make([]float64, 0, len(rows)*n)
 	for _, r := range rows {
@@ -68,19 +77,19 @@ func nullSpace(rows [][]float64, n int) space {
 	// m × m matrix, 48 × 48 for the zone of a 12-hole pattern, for nothing.
 	var svd mat.SVD
 	if !svd.Factorize(mat.NewDense(len(rows), n, data), mat.SVDFullV) {
-		return identity(n)
+		return identity(n), nil
 	}
 	vals := svd.Values(nil)
 	var v mat.Dense
 	svd.VTo(&v)
-	var out space
 	for j := 0; j < n; j++ {
 		if j < len(vals) && vals[j] > rankTol {
+			row = append(row, mat.Col(nil, j, &v))
 			continue
 		}
-		out = append(out, mat.Col(nil, j, &v))
+		null = append(null, mat.Col(nil, j, &v))
 	}
-	return out
+	return null, row
 }
 
 // restrict returns an orthonormal basis of S ∩ {x : r·x = 0 for every row r},

@@ -71,18 +71,31 @@ func (f Frame) PrepareZone(z Zone) *PreparedZone {
 	for _, s := range z.Surfaces {
 		rows = append(rows, s.conditions(f)...)
 	}
-	gens := [][]float64(nullSpace(rows, 6))
+	null, moving := nullAndRowSpace(rows, 6)
+	gens := [][]float64(null)
+	extra := false
 	for _, t := range z.Extra {
 		if finite(t.W) && finite(t.V) {
 			gens = append(gens, f.in(t))
+			extra = true
 		}
 	}
-	inv := orth(gens, 6)
 	pz := &PreparedZone{frame: f, zone: z}
+	inv := space(null)
+	if extra {
+		inv = orth(gens, 6)
+		moving = complementRows(inv, 6)
+	}
+	// Without extra twists Z is the null space of the conditions, already
+	// orthonormal, and the rows that say "moves the zone" are its
+	// complement from the same SVD. (Orthonormalising Z again and taking
+	// its complement by two more SVDs, as the engine once did, gives the
+	// same subspace to rounding and always the same dimension: an
+	// orthonormal set has singular values 1.)
 	if z.OrientationOnly {
 		pz.moving = complementRows(space(vecs3(splitSpace(inv).rot)), 3)
 	} else {
-		pz.moving = complementRows(inv, 6)
+		pz.moving = moving
 	}
 	return pz
 }
