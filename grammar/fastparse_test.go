@@ -304,6 +304,11 @@ func FuzzFastParser(f *testing.F) {
 	for _, s := range testFuncStrings(f, "parser_test.go", "TestSyntaxErrors") {
 		f.Add(s)
 	}
+	for _, path := range testdataFiles(f) {
+		if src, err := os.ReadFile(path); err == nil {
+			f.Add(string(src))
+		}
+	}
 	f.Fuzz(func(t *testing.T, src string) {
 		sameTrees(t, "fuzz", []byte(src), false)
 	})
