@@ -3,8 +3,6 @@ package dof
 import (
 	"math"
 	"sync"
-
-	"gonum.org/v1/gonum/mat"
 )
 
 // rankTol is the singular value below which a normalised condition counts as
@@ -69,25 +67,30 @@ func nullAndRowSpace(rows [][]float64, n int) (null, row space) {
 	if len(rows) == 0 {
 		return identity(n), nil
 	}
-	data := make([]float64, 0, len(rows)*n)
-	for _, r := range rows {
-		data = append(data, r...)
+	b := getSVD(len(rows), n)
+	defer putSVD(b)
+	for i, r := range rows {
+		copy(b.a[i*n:(i+1)*n], r)
 	}
-	// Only V is read: asking for U as well (SVDFull) made LAPACK build an
-	// m × m matrix, 48 × 48 for the zone of a 12-hole pattern, for nothing.
-	var svd mat.SVD
-	if !svd.Factorize(mat.NewDense(len(rows), n, data), mat.SVDFullV) {
+	return b.nullAndRow()
+}
+
+// nullAndRow is nullAndRowSpace for the rows already in b.a. Only V is
+// read: asking for U as well made LAPACK build an m × m matrix, 48 × 48 for
+// the zone of a 12-hole pattern, for nothing.
+func (b *svdBuf) nullAndRow() (null, row space) {
+	n := b.n
+	if !b.factorize(false, false, true) {
 		return identity(n), nil
 	}
-	vals := svd.Values(nil)
-	var v mat.Dense
-	svd.VTo(&v)
-	for j := 0; j < n; j++ {
-		if j < len(vals) && vals[j] > rankTol {
-			row = append(row, mat.Col(nil, j, &v))
-			continue
+	vs := vectors(n, n)
+	for j, v := range vs {
+		b.vCol(v, j)
+		if j < len(b.s) && b.s[j] > rankTol {
+			row = append(row, v)
+		} else {
+			null = append(null, v)
 		}
-		null = append(null, mat.Col(nil, j, &v))
 	}
 	return null, row
 }
@@ -99,14 +102,18 @@ func restrict(s space, rows [][]float64) space {
 	if len(s) == 0 {
 		return nil
 	}
-	m := make([][]float64, len(rows))
+	if len(rows) == 0 {
+		return combine(s, identity(len(s)))
+	}
+	b := getSVD(len(rows), len(s))
+	defer putSVD(b)
 	for i, r := range rows {
-		m[i] = make([]float64, len(s))
-		for j, b := range s {
-			m[i][j] = dot(r, b)
+		for j, v := range s {
+			b.a[i*len(s)+j] = dot(r, v)
 		}
 	}
-	return combine(s, nullSpace(m, len(s)))
+	null, _ := b.nullAndRow()
+	return combine(s, null)
 }
 
 // combine returns the vectors Σ_j c[j]·s[j], one per coefficient vector c.
@@ -114,15 +121,14 @@ func combine(s space, coeffs space) space {
 	if len(coeffs) == 0 {
 		return nil
 	}
-	out := make(space, len(coeffs))
+	out := space(vectors(len(coeffs), len(s[0])))
 	for k, c := range coeffs {
-		x := make([]float64, len(s[0]))
+		x := out[k]
 		for j, b := range s {
 			for i := range x {
 				x[i] += c[j] * b[i]
 			}
 		}
-		out[k] = x
 	}
 	return out
 }
@@ -131,36 +137,35 @@ func combine(s space, coeffs space) space {
 // Vectors are scaled to unit length first so that the tolerance means the
 // same thing for every one of them; zero and non-finite vectors are dropped.
 func orth(vecs [][]float64, n int) space {
-	var cols [][]float64
+	var lens []float64
+	var keep [][]float64
 	for _, v := range vecs {
 		l := math.Sqrt(dot(v, v))
 		if l == 0 || math.IsNaN(l) || math.IsInf(l, 0) {
 			continue
 		}
-		u := make([]float64, n)
-		for i := range u {
-			u[i] = v[i] / l
+		lens, keep = append(lens, l), append(keep, v)
+	}
+	if len(keep) == 0 {
+		return nil
+	}
+	k := len(keep)
+	b := getSVD(n, k) // one unit column per kept vector
+	defer putSVD(b)
+	for j, v := range keep {
+		for i := range n {
+			b.a[i*k+j] = v[i] / lens[j]
 		}
-		cols = append(cols, u)
 	}
-	if len(cols) == 0 {
+	if !b.factorize(false, true, false) { // only U is read
 		return nil
 	}
-	a := mat.NewDense(n, len(cols), nil)
-	for j, c := range cols {
-		a.SetCol(j, c)
-	}
-	var svd mat.SVD
-	if !svd.Factorize(a, mat.SVDThinU) { // only U is read
-		return nil
-	}
-	vals := svd.Values(nil)
-	var u mat.Dense
-	svd.UTo(&u)
 	var out space
-	for j, s := range vals {
+	for j, s := range b.s {
 		if s > rankTol {
-			out = append(out, mat.Col(nil, j, &u))
+			u := make([]float64, n)
+			b.uCol(u, j)
+			out = append(out, u)
 		}
 	}
 	return out
@@ -200,42 +205,45 @@ func splitSpace(s space) split {
 	if k == 0 {
 		return sp
 	}
-	a := mat.NewDense(3, k, nil)
-	for j, b := range s {
-		a.SetCol(j, b[:3])
+	b := getSVD(3, k)
+	defer putSVD(b)
+	for j, v := range s {
+		for i := range 3 {
+			b.a[i*k+j] = v[i]
+		}
 	}
-	var svd mat.SVD
-	if !svd.Factorize(a, mat.SVDFull) {
+	if !b.factorize(true, false, true) {
 		// Not reached for finite input; call everything a rotation-free
 		// translation-free remainder rather than guess.
 		return sp
 	}
-	vals := svd.Values(nil)
-	var u, v mat.Dense
-	svd.UTo(&u)
-	svd.VTo(&v)
 	rank := 0
-	for _, x := range vals {
+	for _, x := range b.s {
 		if x > rankTol {
 			rank++
 		}
 	}
-	for j := 0; j < rank; j++ {
-		var w [3]float64
-		copy(w[:], mat.Col(nil, j, &u))
-		sp.rot = append(sp.rot, w)
-		sp.u = append(sp.u, w)
-		sp.v = append(sp.v, mat.Col(nil, j, &v))
-		sp.vals = append(sp.vals, vals[j])
+	vs := vectors(k, k)
+	for j, v := range vs {
+		b.vCol(v, j)
 	}
-	var coeffs space
-	for j := rank; j < k; j++ {
-		coeffs = append(coeffs, mat.Col(nil, j, &v))
+	if rank > 0 {
+		sp.rot = make([][3]float64, rank)
+		for j := range rank {
+			b.uCol(sp.rot[j][:], j)
+		}
+		sp.u = sp.rot
+		sp.v = vs[:rank:rank]
+		sp.vals = append([]float64(nil), b.s[:rank]...)
 	}
-	for _, t := range combine(s, coeffs) {
-		var d [3]float64
-		copy(d[:], t[3:])
-		sp.trans = append(sp.trans, unit(d))
+	if rank < k {
+		ts := combine(s, vs[rank:])
+		sp.trans = make([][3]float64, len(ts))
+		for i, t := range ts {
+			var d [3]float64
+			copy(d[:], t[3:])
+			sp.trans[i] = unit(d)
+		}
 	}
 	return sp
 }
