@@ -210,9 +210,34 @@ func (f *Facts) DOF(fr *model.Frame, seg int) *SegmentDOF {
 // (see zoneKey), not by which frame asked. Segments that share a result
 // share its slices; rules only read them.
 func (f *Facts) zoneIn(d *dof.DRF, z dof.Zone) dof.ZoneResult {
+	c := Memo(f, "dof.zones", func() *zoneCache {
+		return &zoneCache{prepared: map[string]*dof.PreparedZone{}, results: map[zoneInKey]dof.ZoneResult{}}
+	})
 	key := zoneKey(z)
-	pz := Memo(f, "dof.zone:"+key, func() *dof.PreparedZone { return f.engineFrame().PrepareZone(z) })
-	return Memo(f, fmt.Sprintf("dof.zonein:%p:%s", d, key), func() dof.ZoneResult { return d.ZoneIn(pz) })
+	k := zoneInKey{d, key}
+	if r, ok := c.results[k]; ok {
+		return r
+	}
+	pz, ok := c.prepared[key]
+	if !ok {
+		pz = f.engineFrame().PrepareZone(z)
+		c.prepared[key] = pz
+	}
+	r := d.ZoneIn(pz)
+	c.results[k] = r
+	return r
+}
+
+// zoneCache holds a file's prepared zones by zoneKey and their results by
+// frame and zoneKey.
+type zoneCache struct {
+	prepared map[string]*dof.PreparedZone
+	results  map[zoneInKey]dof.ZoneResult
+}
+
+type zoneInKey struct {
+	drf  *dof.DRF
+	zone string
 }
 
 // zoneKey encodes everything a zone's analysis depends on, bit for bit:

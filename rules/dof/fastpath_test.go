@@ -4,6 +4,8 @@ import (
 	"encoding/binary"
 	"math"
 	"math/rand/v2"
+	"strconv"
+	"strings"
 	"testing"
 )
 
@@ -194,4 +196,31 @@ func FuzzFastMatchesReference(f *testing.F) {
 		}
 		sameAsReference(t, randomScenario(rand.New(rand.NewPCG(s1, s2))))
 	})
+}
+
+// TestFormatNumMatchesPlainFormatting holds the buffer-building number
+// formatting to the plain strconv-and-trim one it replaced.
+func TestFormatNumMatchesPlainFormatting(t *testing.T) {
+	plain := func(x float64, dec int) string {
+		s := strconv.FormatFloat(x, 'f', dec, 64)
+		if strings.Contains(s, ".") {
+			s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
+		}
+		if s == "-0" {
+			s = "0"
+		}
+		return s
+	}
+	rng := rand.New(rand.NewPCG(6, 15))
+	xs := []float64{0, math.Copysign(0, -1), -1e-7, 1e-7, 0.5, -0.5, 10, 100, 1000060.4, -2.5, 123456789012, math.Inf(1), math.NaN(), 1e300}
+	for range 20000 {
+		xs = append(xs, rng.NormFloat64()*math.Pow(10, float64(rng.IntN(16)-8)))
+	}
+	for _, x := range xs {
+		for dec := 0; dec <= 15; dec++ {
+			if got, want := formatNum(x, dec), plain(x, dec); got != want {
+				t.Fatalf("formatNum(%v, %d) = %q, want %q", x, dec, got, want)
+			}
+		}
+	}
 }

@@ -1,9 +1,9 @@
 package dof
 
 import (
+	"bytes"
 	"math"
 	"strconv"
-	"strings"
 )
 
 // readable returns motions that, together with k, span s (k ⊂ s, both
@@ -189,19 +189,35 @@ func formatPoint(p Vec, size float64) string {
 	return formatVec(p, min(max(dec, 0), 15))
 }
 
+// formatVec prints "(a, b, c)", building the text in one buffer: every
+// motion of every frame is named, so this is on the engine's hot path.
 func formatVec(v Vec, dec int) string {
-	return "(" + formatNum(v[0], dec) + ", " + formatNum(v[1], dec) + ", " + formatNum(v[2], dec) + ")"
+	var buf [96]byte
+	b := append(buf[:0], '(')
+	b = appendNum(b, v[0], dec)
+	b = append(b, ", "...)
+	b = appendNum(b, v[1], dec)
+	b = append(b, ", "...)
+	b = appendNum(b, v[2], dec)
+	return string(append(b, ')'))
 }
 
 // formatNum prints x with dec decimals, trailing zeros trimmed, and never
 // as "-0".
 func formatNum(x float64, dec int) string {
-	s := strconv.FormatFloat(x, 'f', dec, 64)
-	if strings.Contains(s, ".") {
-		s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
+	var buf [32]byte
+	return string(appendNum(buf[:0], x, dec))
+}
+
+// appendNum appends formatNum(x, dec) to b.
+func appendNum(b []byte, x float64, dec int) []byte {
+	start := len(b)
+	b = strconv.AppendFloat(b, x, 'f', dec, 64)
+	if bytes.IndexByte(b[start:], '.') >= 0 {
+		b = bytes.TrimRight(bytes.TrimRight(b, "0"), ".")
 	}
-	if s == "-0" {
-		s = "0"
+	if string(b[start:]) == "-0" {
+		b = append(b[:start], '0')
 	}
-	return s
+	return b
 }
