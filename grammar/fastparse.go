@@ -5,9 +5,10 @@ import (
 )
 
 // fastParse builds the tree of one well-formed statement by plain recursive
-// descent over its scanned tokens, without participle. Profiling put
-// participle's reflective parser at almost a third of a whole check, most
-// of it spent on statements that are perfectly ordinary.
+// descent, scanning its tokens as it goes, without participle and without
+// a token slice. Profiling put participle's reflective parser at almost a
+// third of a whole check, and the token slices it needs at a good part of
+// the rest, most of it spent on statements that are perfectly ordinary.
 //
 // The participle grammar (the tags in ast.go) stays the reference: this
 // parser must produce exactly the tree participle produces (same nodes, same
@@ -15,18 +16,23 @@ import (
 // part of the grammar as soon as that part's first token is there and gives
 // up ("not handled", nil) at the first token it does not expect, so it
 // accepts only input that participle's greedy, ordered matching accepts the
-// same way; everything else, every syntax error included, goes to
-// participle as before. TestFastParserMatchesParticiple and FuzzFastParser
-// hold the two parsers to the same trees.
+// same way; everything else, every lexical and syntax error included, goes
+// to lexStmt and participle as before. TestFastParserMatchesParticiple and
+// FuzzFastParser hold the two parsers to the same trees.
 //
-// Positions follow participle: a node's Pos is its first significant token,
-// its EndPos the raw token (whitespace included) after its last token, or
-// the end of the statement.
-func fastParse(keyword string, all []lexer.Token, eof lexer.Token) Stmt {
-	p := fastParser{all: all, eof: eof, last: -1}
-	p.skip()
+// Tokens come from scanOne, the scanner lexStmt uses, with positions moved
+// to the file as lexStmt moves them. Positions follow participle: a node's
+// Pos is its first significant token, its EndPos the raw token (whitespace
+// included) after its last token, which always starts where that last token
+// ends, or the end of the statement.
+func fastParse(name string, rs rawStmt) Stmt {
+	if badText(rs) != nil {
+		return nil
+	}
+	p := fastParser{text: rs.text, pos: lexer.Position{Filename: name, Offset: rs.offset, Line: rs.first, Column: 1}}
+	p.scan()
 	var st Stmt
-	switch keyword {
+	switch p.tok.Value {
 	case "part":
 		st = stmtOrNil(p.part())
 	case "units":
@@ -45,7 +51,7 @@ func fastParse(keyword string, all []lexer.Token, eof lexer.Token) Stmt {
 		st = stmtOrNil(p.dim())
 	}
 	// participle requires the whole statement to be used up.
-	if p.failed || st == nil || p.next < len(p.all) {
+	if p.failed || st == nil || p.tok.Type != lexer.EOF {
 		return nil
 	}
 	return st
@@ -66,49 +72,51 @@ func stmtOrNil[T any, P interface {
 // an error there, so it is left to participle here.
 const maxRepeat = 1000000
 
-// fastParser walks the raw token slice (whitespace included) of one
-// statement.
+// fastParser scans and parses one statement's text.
 type fastParser struct {
-	all    []lexer.Token
-	eof    lexer.Token
-	next   int  // index in all of the next significant token (len(all) at the end)
-	last   int  // index in all of the last token taken, -1 before the first
-	failed bool // an expected token was missing: the statement is not handled
+	text   string
+	i      int            // byte offset in text just after tok
+	pos    lexer.Position // file position of text[i]
+	tok    lexer.Token    // the next significant token, or EOF
+	end    lexer.Position // file position just after the last token taken
+	failed bool           // unexpected or unlexable input: not handled
 }
 
-// skip moves next past whitespace.
-func (p *fastParser) skip() {
-	for p.next < len(p.all) && p.all[p.next].Type == tokWhitespace {
-		p.next++
+// scan reads the next significant token into tok, skipping whitespace. A
+// character no token rule matches ends the statement as not handled.
+func (p *fastParser) scan() {
+	for p.i < len(p.text) {
+		typ, e := scanOne(p.text, p.i)
+		if e <= p.i {
+			p.failed = true
+			break
+		}
+		v := p.text[p.i:e]
+		at := p.pos
+		advance(&p.pos, v)
+		p.i = e
+		if typ != tokWhitespace {
+			p.tok = lexer.Token{Type: typ, Value: v, Pos: at}
+			return
+		}
 	}
+	p.tok = lexer.EOFToken(p.pos)
 }
 
-// peek returns the next significant token, or the end-of-statement token.
-func (p *fastParser) peek() *lexer.Token {
-	if p.next < len(p.all) {
-		return &p.all[p.next]
-	}
-	return &p.eof
-}
-
-// take consumes the next significant token.
-func (p *fastParser) take() *lexer.Token {
-	t := &p.all[p.next]
-	p.last = p.next
-	p.next++
-	p.skip()
-	return t
+// take consumes the next significant token and returns its text.
+func (p *fastParser) take() string {
+	v := p.tok.Value
+	p.end = p.pos
+	p.scan()
+	return v
 }
 
 // is reports whether the next token has the given type.
-func (p *fastParser) is(typ lexer.TokenType) bool {
-	return p.next < len(p.all) && p.all[p.next].Type == typ
-}
+func (p *fastParser) is(typ lexer.TokenType) bool { return p.tok.Type == typ }
 
-// isWord reports whether the next token is the literal word (or punctuation) w.
-func (p *fastParser) isWord(w string) bool {
-	return p.next < len(p.all) && p.all[p.next].Value == w
-}
+// isWord reports whether the next token is the literal word (or
+// punctuation) w, whatever its type, as participle's literals match.
+func (p *fastParser) isWord(w string) bool { return p.tok.Value == w && p.tok.Type != lexer.EOF }
 
 // expect consumes the literal w or marks the statement as not handled.
 func (p *fastParser) expect(w string) bool {
@@ -121,19 +129,10 @@ func (p *fastParser) expect(w string) bool {
 }
 
 // open starts a node at the next significant token.
-func (p *fastParser) open() node {
-	return node{Pos: p.peek().Pos}
-}
+func (p *fastParser) open() node { return node{Pos: p.tok.Pos} }
 
-// close ends a node after the last token taken: at the raw token that
-// follows it, which may be whitespace, as participle's RawPeek does.
-func (p *fastParser) close(n *node) {
-	if p.last+1 < len(p.all) {
-		n.EndPos = p.all[p.last+1].Pos
-	} else {
-		n.EndPos = p.eof.Pos
-	}
-}
+// close ends a node after the last token taken.
+func (p *fastParser) close(n *node) { n.EndPos = p.end }
 
 func (p *fastParser) fail() { p.failed = true }
 
@@ -148,16 +147,13 @@ func (p *fastParser) name() *Name {
 		return nil
 	}
 	n := &Name{node: p.open()}
-	n.Value = p.take().Value
+	n.Value = p.take()
 	p.close(&n.node)
 	return n
 }
 
 func (p *fastParser) isWordTok() bool {
-	if p.next >= len(p.all) {
-		return false
-	}
-	switch p.all[p.next].Type {
+	switch p.tok.Type {
 	case tokIdent, tokSymbol, tokDia, tokSDia:
 		return true
 	}
@@ -171,7 +167,7 @@ func (p *fastParser) word() *Word {
 		return nil
 	}
 	w := &Word{node: p.open()}
-	w.Value = p.take().Value
+	w.Value = p.take()
 	p.close(&w.node)
 	return w
 }
@@ -183,7 +179,7 @@ func (p *fastParser) number() *Number {
 		return nil
 	}
 	n := &Number{node: p.open()}
-	n.Text = p.take().Value
+	n.Text = p.take()
 	p.close(&n.node)
 	return n
 }
@@ -214,7 +210,7 @@ func (p *fastParser) direction() *Direction {
 	d := &Direction{node: p.open()}
 	switch {
 	case p.is(tokDir):
-		d.Axis = p.take().Value
+		d.Axis = p.take()
 	case p.isWord("("):
 		if d.Vector = p.vector(); d.Vector == nil {
 			return nil
@@ -230,7 +226,7 @@ func (p *fastParser) direction() *Direction {
 // refModifier: @Modifier
 func (p *fastParser) refModifier() *RefModifier {
 	m := &RefModifier{node: p.open()}
-	m.Symbol = p.take().Value
+	m.Symbol = p.take()
 	p.close(&m.node)
 	return m
 }
@@ -282,7 +278,7 @@ func (p *fastParser) part() *PartStmt {
 		p.fail()
 		return nil
 	}
-	s.Title = p.take().Value
+	s.Title = p.take()
 	p.close(&s.node)
 	return s
 }
@@ -352,10 +348,7 @@ func (p *fastParser) feature() *FeatureStmt {
 }
 
 func (p *fastParser) isGeomWord() bool {
-	if p.next >= len(p.all) {
-		return false
-	}
-	switch p.all[p.next].Value {
+	switch p.tok.Value {
 	case "normal", "axis", "along", "at", "between":
 		return true
 	}
@@ -366,7 +359,7 @@ func (p *fastParser) isGeomWord() bool {
 func (p *fastParser) geometry() *Geometry {
 	g := &Geometry{node: p.open()}
 	w := &GeomWord{node: p.open()}
-	w.Value = p.take().Value
+	w.Value = p.take()
 	p.close(&w.node)
 	g.Word = w
 	if p.isDirection() {
@@ -376,7 +369,7 @@ func (p *fastParser) geometry() *Geometry {
 	}
 	if p.isWord("at") {
 		a := &AtWord{node: p.open()}
-		a.Value = p.take().Value
+		a.Value = p.take()
 		p.close(&a.node)
 		g.At = a
 	}
@@ -471,7 +464,7 @@ func (p *fastParser) tolerance() *Tolerance {
 			return nil
 		}
 		m := &Modifier{node: p.open()}
-		m.Symbol = p.take().Value
+		m.Symbol = p.take()
 		if p.is(tokNumber) {
 			m.Value = p.number()
 		}
@@ -507,7 +500,7 @@ func (p *fastParser) datumRef() *DatumRef {
 		return nil
 	}
 	r := &DatumRef{node: p.open()}
-	r.Name = p.take().Value
+	r.Name = p.take()
 	for p.is(tokModifier) {
 		if len(r.Modifiers) == maxRepeat-1 {
 			p.fail()

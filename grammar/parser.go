@@ -150,6 +150,11 @@ func badText(rs rawStmt) *SyntaxError {
 }
 
 func parseStmt(name string, rs rawStmt) Stmt {
+	// Well-formed statements take the hand-written parser (fastparse.go);
+	// anything it does not handle, errors included, goes to participle.
+	if st := fastParse(name, rs); st != nil {
+		return st
+	}
 	all, sig, eof, lerr := lexStmt(name, rs)
 	if lerr != nil {
 		return bad(rs, sig, lerr)
@@ -158,11 +163,6 @@ func parseStmt(name string, rs rawStmt) Stmt {
 		return bad(rs, sig, &SyntaxError{Span: Span{Pos{rs.first, 1}, Pos{rs.first, 1}}, Msg: "empty statement"})
 	}
 	first := sig[0]
-	// Well-formed statements take the hand-written parser (fastparse.go);
-	// anything it does not handle, errors included, goes to participle.
-	if st := fastParse(first.Value, all, eof); st != nil {
-		return st
-	}
 	var (
 		st  Stmt
 		err error
