@@ -70,10 +70,25 @@ func (b *svdBuf) factorize(fullU, thinU, wantV bool) bool {
 	}
 	a := blas64.General{Rows: m, Cols: n, Stride: n, Data: b.a}
 	b.s = zeroed(b.s, k)
-	var query [1]float64
-	lapack64.Gesvd(jobU, jobVT, a, u, vt, b.s, query[:], -1)
-	b.work = zeroed(b.work, int(query[0]))
+	key := workKey{m, n, jobU, jobVT}
+	lwork, ok := workSizes.Load(key)
+	if !ok {
+		var query [1]float64
+		lapack64.Gesvd(jobU, jobVT, a, u, vt, b.s, query[:], -1)
+		lwork, _ = workSizes.LoadOrStore(key, int(query[0]))
+	}
+	b.work = zeroed(b.work, lwork.(int))
 	return lapack64.Gesvd(jobU, jobVT, a, u, vt, b.s, b.work, len(b.work))
+}
+
+// workSizes remembers LAPACK's optimal workspace length for each shape and
+// job: the query depends on nothing else, and asking it again for every
+// SVD cost as much as a small factorisation.
+var workSizes sync.Map // workKey → int
+
+type workKey struct {
+	m, n        int
+	jobU, jobVT lapack.SVDJob
 }
 
 // vCol copies right singular vector j (row j of Vᵀ) into dst.
