@@ -80,12 +80,16 @@ func (s Surface) conditions(f Frame) [][]float64 {
 	p := f.point(s.Point)
 	d := unit(s.Dir)
 	t1, t2 := perpendiculars(d)
-	rot := func(a Vec) []float64 { return []float64{a[0], a[1], a[2], 0, 0, 0} }
-	trans := func(a Vec) []float64 { return []float64{0, 0, 0, a[0], a[1], a[2]} }
-	at := func(a Vec) []float64 { // a·(v + ω×p)
-		m := cross(p, a)
-		return []float64{m[0], m[1], m[2], a[0], a[1], a[2]}
+	// The rows share one allocation: a pattern's zone has four rows for
+	// each of its members.
+	back := make([]float64, 0, 6*condCount[s.Class])
+	row := func(w, v Vec) []float64 {
+		back = append(back, w[0], w[1], w[2], v[0], v[1], v[2])
+		return back[len(back)-6 : len(back) : len(back)]
 	}
+	rot := func(a Vec) []float64 { return row(a, Vec{}) }
+	trans := func(a Vec) []float64 { return row(Vec{}, a) }
+	at := func(a Vec) []float64 { return row(cross(p, a), a) } // a·(v + ω×p)
 	axes := []Vec{{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}
 	switch s.Class {
 	case Plane:
@@ -103,6 +107,10 @@ func (s Surface) conditions(f Frame) [][]float64 {
 	}
 	return nil
 }
+
+// condCount is the number of condition rows of each class (complex: none
+// built by row).
+var condCount = [...]int{Plane: 3, Cylinder: 4, Sphere: 3, Cone: 5, Prismatic: 5, Complex: 0}
 
 // perpendiculars returns two unit vectors completing d to an orthonormal
 // frame. Which two does not matter: only the subspace they span enters the
