@@ -1,5 +1,7 @@
 package dof
 
+import "math"
+
 // Zone describes a tolerance zone by what leaves it unchanged. A zone about
 // a feature has that feature's invariance (a cylindrical zone about a hole's
 // axis is invariant under rotation about and slide along the axis; a planar
@@ -114,19 +116,16 @@ func (d *DRF) ZoneIn(pz *PreparedZone) ZoneResult {
 	res := ZoneResult{PerStep: make([]int, len(d.spaces))}
 	last := len(d.spaces) - 1
 
-	// In the steps before the last, only a count is needed, and two counts
-	// are certain without an SVD. With F empty nothing moves the zone (0).
-	// With F the whole ambient space (R^6, or R^3 of rotations: before the
-	// first reference, or after references that removed nothing) the
-	// conditions restricted to F's orthonormal basis are an orthonormal set
-	// of len(moving) rows, whose singular values are all 1, far above
-	// rankTol: exactly len(moving) dimensions of F move the zone.
+	// In the steps before the last only a count is needed, and it is often
+	// certain without an SVD (certainCount).
 	if pz.zone.OrientationOnly {
 		for k := range d.spaces {
 			wf := d.splits[k].rot
-			if k != last && (len(wf) == 0 || len(wf) == 3) {
-				res.PerStep[k] = min(len(wf), len(pz.moving))
-				continue
+			if k != last {
+				if n, ok := certainCount(vecs3(wf), pz.moving); ok {
+					res.PerStep[k] = n
+					continue
+				}
 			}
 			kept := restrict(space(vecs3(wf)), pz.moving)
 			res.PerStep[k] = len(wf) - len(kept)
@@ -140,9 +139,11 @@ func (d *DRF) ZoneIn(pz *PreparedZone) ZoneResult {
 	}
 
 	for k, fk := range d.spaces {
-		if k != last && (len(fk) == 0 || len(fk) == 6) {
-			res.PerStep[k] = min(len(fk), len(pz.moving))
-			continue
+		if k != last {
+			if n, ok := certainCount(fk, pz.moving); ok {
+				res.PerStep[k] = n
+				continue
+			}
 		}
 		kept := restrict(fk, pz.moving)
 		res.PerStep[k] = len(fk) - len(kept)
@@ -158,6 +159,42 @@ func (d *DRF) ZoneIn(pz *PreparedZone) ZoneResult {
 		}
 	}
 	return res
+}
+
+// certainCount returns len(f) − len(restrict(f, rows)), the number of
+// dimensions of the space with orthonormal basis f that the conditions rows
+// (orthonormal, as PreparedZone's are) do not leave free, when it is
+// certain without an SVD; ok is false otherwise.
+//
+//   - f empty: 0.
+//   - f spans the whole space (R^6, or R^3 of rotations): restricted to f's
+//     orthonormal basis the rows are still orthonormal, so their singular
+//     values are all 1, far above rankTol: len(rows).
+//   - f one vector: the restricted conditions are one column, whose only
+//     singular value is its length. LAPACK computes that length to a few
+//     units in the last place, so unless it lies within a billionth of
+//     rankTol (then the SVD decides) the comparison with rankTol gives the
+//     SVD's answer.
+func certainCount(f [][]float64, rows [][]float64) (n int, ok bool) {
+	switch {
+	case len(f) == 0:
+		return 0, true
+	case len(f) == len(f[0]):
+		return len(rows), true
+	case len(f) == 1:
+		var ss float64
+		for _, r := range rows {
+			x := dot(r, f[0]) // the same entries restrict would factorise
+			ss += x * x
+		}
+		switch l := math.Sqrt(ss); {
+		case l > rankTol*(1+1e-9):
+			return 1, true
+		case l < rankTol*(1-1e-9):
+			return 0, true
+		}
+	}
+	return 0, false
 }
 
 func to3(s space) [][3]float64 {
