@@ -296,6 +296,34 @@ func TestFastParserDeclinesErrors(t *testing.T) {
 	}
 }
 
+// sameScan fails when scanNext and scanOne read a different token at some
+// offset of s.
+func sameScan(t *testing.T, s string) {
+	t.Helper()
+	for i := range len(s) {
+		wt, we := scanOne(s, i)
+		gt, ge := scanNext(s, i)
+		if we <= i && ge <= i {
+			continue // neither matches
+		}
+		if wt != gt || we != ge {
+			t.Fatalf("%q at %d: scanOne reads type %d up to %d, scanNext type %d up to %d", s, i, wt, we, gt, ge)
+		}
+	}
+}
+
+func TestScanNextMatchesScanOne(t *testing.T) {
+	for _, s := range append(append([]string{}, lexerCases...), fastCases...) {
+		sameScan(t, s)
+	}
+	var all strings.Builder
+	for c := range 128 {
+		all.WriteByte(byte(c))
+		all.WriteString("S.1 Sx S⌀ 1 (M) +x -1 .5 .. ")
+	}
+	sameScan(t, all.String())
+}
+
 // FuzzFastParser: whenever the fast parser accepts a statement of any
 // text, participle accepts it too and builds an identical tree.
 func FuzzFastParser(f *testing.F) {
@@ -315,5 +343,6 @@ func FuzzFastParser(f *testing.F) {
 	}
 	f.Fuzz(func(t *testing.T, src string) {
 		sameTrees(t, "fuzz", []byte(src), false)
+		sameScan(t, src)
 	})
 }
