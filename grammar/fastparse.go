@@ -1,6 +1,8 @@
 package grammar
 
 import (
+	"strings"
+
 	"github.com/alecthomas/participle/v2/lexer"
 )
 
@@ -80,6 +82,8 @@ type fastParser struct {
 	tok    lexer.Token    // the next significant token, or EOF
 	end    lexer.Position // file position just after the last token taken
 	failed bool           // unexpected or unlexable input: not handled
+
+	vectors []vectorNodes // the statement's vectors not yet handed out
 }
 
 // scan reads the next significant token into tok, skipping whitespace. A
@@ -165,16 +169,20 @@ func (p *fastParser) close(n *node) { n.EndPos = p.end }
 func (p *fastParser) fail() { p.failed = true }
 
 // --- leaves ---------------------------------------------------------------
+//
+// Each leaf fills a node it is given, so that a statement's fixed nodes can
+// come in one allocation (the *Nodes types below) instead of one each:
+// after participle, allocation was the fast parser's next largest cost.
 
 func (p *fastParser) isName() bool { return p.is(tokIdent) || p.is(tokMember) }
 
 // name: @(Ident | Member)
-func (p *fastParser) name() *Name {
+func (p *fastParser) name(n *Name) *Name {
 	if !p.isName() {
 		p.fail()
 		return nil
 	}
-	n := &Name{node: p.open()}
+	n.node = p.open()
 	n.Value = p.take()
 	p.close(&n.node)
 	return n
@@ -189,42 +197,65 @@ func (p *fastParser) isWordTok() bool {
 }
 
 // word: @(Ident | Symbol | Dia | SDia)
-func (p *fastParser) word() *Word {
+func (p *fastParser) word(w *Word) *Word {
 	if !p.isWordTok() {
 		p.fail()
 		return nil
 	}
-	w := &Word{node: p.open()}
+	w.node = p.open()
 	w.Value = p.take()
 	p.close(&w.node)
 	return w
 }
 
 // number: @Number
-func (p *fastParser) number() *Number {
+func (p *fastParser) number(n *Number) *Number {
 	if !p.is(tokNumber) {
 		p.fail()
 		return nil
 	}
-	n := &Number{node: p.open()}
+	n.node = p.open()
 	n.Text = p.take()
 	p.close(&n.node)
 	return n
 }
 
+// vectorNodes is a vector with its three numbers.
+type vectorNodes struct {
+	v       Vector
+	x, y, z Number
+}
+
+// newVector hands out the next of a statement's vectors, allocated
+// together: a statement has no more vectors than opening parentheses.
+func (p *fastParser) newVector() *vectorNodes {
+	if len(p.vectors) == 0 {
+		p.vectors = make([]vectorNodes, max(1, p.countAhead('(')))
+	}
+	v := &p.vectors[0]
+	p.vectors = p.vectors[1:]
+	return v
+}
+
+// countAhead counts the byte c in the statement text not yet scanned, plus
+// one for the current token.
+func (p *fastParser) countAhead(c byte) int { return 1 + strings.Count(p.text[p.i:], string(c)) }
+
 // vector: '(' @@ ',' @@ ',' @@ ')'
 func (p *fastParser) vector() *Vector {
-	v := &Vector{node: p.open()}
+	b := p.newVector()
+	v := &b.v
+	v.node = p.open()
 	if !p.expect("(") {
 		return nil
 	}
-	if v.X = p.number(); v.X == nil || !p.expect(",") {
+	if v.X = p.number(&b.x); v.X == nil || !p.expect(",") {
 		return nil
 	}
-	if v.Y = p.number(); v.Y == nil || !p.expect(",") {
+	if v.Y = p.number(&b.y); v.Y == nil || !p.expect(",") {
 		return nil
 	}
-	if v.Z = p.number(); v.Z == nil || !p.expect(")") {
+	if v.Z = p.number(&b.z); v.Z == nil || !p.expect(")") {
 		return nil
 	}
 	p.close(&v.node)
@@ -234,8 +265,8 @@ func (p *fastParser) vector() *Vector {
 func (p *fastParser) isDirection() bool { return p.is(tokDir) || p.isWord("(") }
 
 // direction: @Dir | @@(Vector)
-func (p *fastParser) direction() *Direction {
-	d := &Direction{node: p.open()}
+func (p *fastParser) direction(d *Direction) *Direction {
+	d.node = p.open()
 	switch {
 	case p.is(tokDir):
 		d.Axis = p.take()
@@ -252,17 +283,26 @@ func (p *fastParser) direction() *Direction {
 }
 
 // refModifier: @Modifier
-func (p *fastParser) refModifier() *RefModifier {
-	m := &RefModifier{node: p.open()}
+func (p *fastParser) refModifier(m *RefModifier) *RefModifier {
+	m.node = p.open()
 	m.Symbol = p.take()
 	p.close(&m.node)
 	return m
 }
 
+// sizeNodes is a size with the numbers it can hold.
+type sizeNodes struct {
+	s        Size
+	nom, tol Number // the nominal; ± or the upper deviation or the limit
+	lower    Number
+	env      RefModifier
+}
+
 // size: Nominal 'deg'? ( PlusMinus @@ | @@ '/'? @@ | Range @@ )? Envelope?
-func (p *fastParser) size() *Size {
-	s := &Size{node: p.open()}
-	if s.Nominal = p.number(); s.Nominal == nil {
+func (p *fastParser) size(b *sizeNodes) *Size {
+	s := &b.s
+	s.node = p.open()
+	if s.Nominal = p.number(&b.nom); s.Nominal == nil {
 		return nil
 	}
 	if p.isWord("deg") {
@@ -272,26 +312,26 @@ func (p *fastParser) size() *Size {
 	switch {
 	case p.is(tokPlusMinus):
 		p.take()
-		if s.PlusMinus = p.number(); s.PlusMinus == nil {
+		if s.PlusMinus = p.number(&b.tol); s.PlusMinus == nil {
 			return nil
 		}
 	case p.is(tokNumber):
-		s.Upper = p.number()
+		s.Upper = p.number(&b.tol)
 		if p.isWord("/") {
 			p.take()
 			s.Slash = true
 		}
-		if s.Lower = p.number(); s.Lower == nil {
+		if s.Lower = p.number(&b.lower); s.Lower == nil {
 			return nil
 		}
 	case p.is(tokRange):
 		p.take()
-		if s.Limit = p.number(); s.Limit == nil {
+		if s.Limit = p.number(&b.tol); s.Limit == nil {
 			return nil
 		}
 	}
 	if p.is(tokModifier) {
-		s.Envelope = p.refModifier()
+		s.Envelope = p.refModifier(&b.env)
 	}
 	p.close(&s.node)
 	return s
@@ -311,47 +351,77 @@ func (p *fastParser) part() *PartStmt {
 	return s
 }
 
+type unitsNodes struct {
+	s UnitsStmt
+	w Word
+}
+
 // units: 'units' @@
 func (p *fastParser) units() *UnitsStmt {
-	s := &UnitsStmt{node: p.open()}
+	b := &unitsNodes{}
+	s := &b.s
+	s.node = p.open()
 	if !p.expect("units") {
 		return nil
 	}
-	if s.Unit = p.word(); s.Unit == nil {
+	if s.Unit = p.word(&b.w); s.Unit == nil {
 		return nil
 	}
 	p.close(&s.node)
 	return s
+}
+
+type standardNodes struct {
+	s StandardStmt
+	w Word
 }
 
 // standard: 'standard' @@
 func (p *fastParser) standard() *StandardStmt {
-	s := &StandardStmt{node: p.open()}
+	b := &standardNodes{}
+	s := &b.s
+	s.node = p.open()
 	if !p.expect("standard") {
 		return nil
 	}
-	if s.Standard = p.word(); s.Standard == nil {
+	if s.Standard = p.word(&b.w); s.Standard == nil {
 		return nil
 	}
 	p.close(&s.node)
 	return s
 }
 
+type featureNodes struct {
+	s     FeatureStmt
+	name  Name
+	kind  Word
+	count Count
+	n     Number
+	size  sizeNodes
+	geom  Geometry
+	gw    GeomWord
+	dir   Direction
+	at    AtWord
+}
+
 // feature: 'feature' Name Kind Count? ('size' Size)? Geometry?
 func (p *fastParser) feature() *FeatureStmt {
-	s := &FeatureStmt{node: p.open()}
+	b := &featureNodes{}
+	s := &b.s
+	s.node = p.open()
 	if !p.expect("feature") {
 		return nil
 	}
-	if s.Name = p.name(); s.Name == nil {
+	if s.Name = p.name(&b.name); s.Name == nil {
 		return nil
 	}
-	if s.Kind = p.word(); s.Kind == nil {
+	if s.Kind = p.word(&b.kind); s.Kind == nil {
 		return nil
 	}
 	if p.is(tokNumber) {
-		c := &Count{node: p.open()}
-		c.N = p.number()
+		c := &b.count
+		c.node = p.open()
+		c.N = p.number(&b.n)
 		if !p.isWord("x") && !p.isWord("X") {
 			p.fail()
 			return nil
@@ -362,12 +432,12 @@ func (p *fastParser) feature() *FeatureStmt {
 	}
 	if p.isWord("size") {
 		p.take()
-		if s.Size = p.size(); s.Size == nil {
+		if s.Size = p.size(&b.size); s.Size == nil {
 			return nil
 		}
 	}
 	if p.isGeomWord() {
-		if s.Geometry = p.geometry(); s.Geometry == nil {
+		if s.Geometry = p.geometry(b); s.Geometry == nil {
 			return nil
 		}
 	}
@@ -384,22 +454,28 @@ func (p *fastParser) isGeomWord() bool {
 }
 
 // geometry: GeomWord Direction? AtWord? Vector* Name*
-func (p *fastParser) geometry() *Geometry {
-	g := &Geometry{node: p.open()}
-	w := &GeomWord{node: p.open()}
+func (p *fastParser) geometry(b *featureNodes) *Geometry {
+	g := &b.geom
+	g.node = p.open()
+	w := &b.gw
+	w.node = p.open()
 	w.Value = p.take()
 	p.close(&w.node)
 	g.Word = w
 	if p.isDirection() {
-		if g.Dir = p.direction(); g.Dir == nil {
+		if g.Dir = p.direction(&b.dir); g.Dir == nil {
 			return nil
 		}
 	}
 	if p.isWord("at") {
-		a := &AtWord{node: p.open()}
+		a := &b.at
+		a.node = p.open()
 		a.Value = p.take()
 		p.close(&a.node)
 		g.At = a
+	}
+	if p.isWord("(") {
+		g.Points = make([]*Vector, 0, p.countAhead('('))
 	}
 	for p.isWord("(") {
 		if len(g.Points) == maxRepeat-1 {
@@ -417,27 +493,35 @@ func (p *fastParser) geometry() *Geometry {
 			p.fail()
 			return nil
 		}
-		g.Faces = append(g.Faces, p.name())
+		g.Faces = append(g.Faces, p.name(&Name{}))
 	}
 	p.close(&g.node)
 	return g
 }
 
+type datumNodes struct {
+	s              DatumStmt
+	letter, target Name
+	placement      Word
+}
+
 // datum: 'datum' Name 'on' Name ('placed' Word)?
 func (p *fastParser) datum() *DatumStmt {
-	s := &DatumStmt{node: p.open()}
+	b := &datumNodes{}
+	s := &b.s
+	s.node = p.open()
 	if !p.expect("datum") {
 		return nil
 	}
-	if s.Letter = p.name(); s.Letter == nil || !p.expect("on") {
+	if s.Letter = p.name(&b.letter); s.Letter == nil || !p.expect("on") {
 		return nil
 	}
-	if s.Target = p.name(); s.Target == nil {
+	if s.Target = p.name(&b.target); s.Target == nil {
 		return nil
 	}
 	if p.isWord("placed") {
 		p.take()
-		if s.Placement = p.word(); s.Placement == nil {
+		if s.Placement = p.word(&b.placement); s.Placement == nil {
 			return nil
 		}
 	}
@@ -445,19 +529,28 @@ func (p *fastParser) datum() *DatumStmt {
 	return s
 }
 
+type frameNodes struct {
+	s      FrameStmt
+	target Name
+	char   Word
+	tol    toleranceNodes
+}
+
 // frame: 'frame' Name ':' Word Tolerance Composite*
 func (p *fastParser) frame() *FrameStmt {
-	s := &FrameStmt{node: p.open()}
+	b := &frameNodes{}
+	s := &b.s
+	s.node = p.open()
 	if !p.expect("frame") {
 		return nil
 	}
-	if s.Target = p.name(); s.Target == nil || !p.expect(":") {
+	if s.Target = p.name(&b.target); s.Target == nil || !p.expect(":") {
 		return nil
 	}
-	if s.Characteristic = p.word(); s.Characteristic == nil {
+	if s.Characteristic = p.word(&b.char); s.Characteristic == nil {
 		return nil
 	}
-	if s.Tolerance = p.tolerance(); s.Tolerance == nil {
+	if s.Tolerance = p.tolerance(&b.tol); s.Tolerance == nil {
 		return nil
 	}
 	for p.isWord("composite") {
@@ -465,9 +558,11 @@ func (p *fastParser) frame() *FrameStmt {
 			p.fail()
 			return nil
 		}
-		c := &Composite{node: p.open()}
+		cb := &compositeNodes{}
+		c := &cb.c
+		c.node = p.open()
 		p.take()
-		if c.Tolerance = p.tolerance(); c.Tolerance == nil {
+		if c.Tolerance = p.tolerance(&cb.tol); c.Tolerance == nil {
 			return nil
 		}
 		p.close(&c.node)
@@ -477,13 +572,25 @@ func (p *fastParser) frame() *FrameStmt {
 	return s
 }
 
+type compositeNodes struct {
+	c   Composite
+	tol toleranceNodes
+}
+
+type toleranceNodes struct {
+	t     Tolerance
+	zone  Word
+	value Number
+}
+
 // tolerance: Word? Number Modifier* ('datums' DatumRef (',' DatumRef)*)?
-func (p *fastParser) tolerance() *Tolerance {
-	t := &Tolerance{node: p.open()}
+func (p *fastParser) tolerance(b *toleranceNodes) *Tolerance {
+	t := &b.t
+	t.node = p.open()
 	if p.isWordTok() {
-		t.Zone = p.word()
+		t.Zone = p.word(&b.zone)
 	}
-	if t.Value = p.number(); t.Value == nil {
+	if t.Value = p.number(&b.value); t.Value == nil {
 		return nil
 	}
 	for p.is(tokModifier) {
@@ -491,25 +598,34 @@ func (p *fastParser) tolerance() *Tolerance {
 			p.fail()
 			return nil
 		}
-		m := &Modifier{node: p.open()}
+		mb := &modifierNodes{}
+		m := &mb.m
+		m.node = p.open()
 		m.Symbol = p.take()
 		if p.is(tokNumber) {
-			m.Value = p.number()
+			m.Value = p.number(&mb.n)
 		}
 		p.close(&m.node)
 		t.Modifiers = append(t.Modifiers, m)
 	}
 	if p.isWord("datums") {
 		p.take()
+		// No more references than commas ahead, plus one.
+		refs := make([]DatumRef, p.countAhead(','))
+		t.Datums = make([]*DatumRef, 0, len(refs))
 		for {
 			if len(t.Datums) == maxRepeat {
 				p.fail()
 				return nil
 			}
-			r := p.datumRef()
+			if len(refs) == 0 {
+				refs = make([]DatumRef, 1)
+			}
+			r := p.datumRef(&refs[0])
 			if r == nil {
 				return nil
 			}
+			refs = refs[1:]
 			t.Datums = append(t.Datums, r)
 			if !p.isWord(",") {
 				break
@@ -521,42 +637,66 @@ func (p *fastParser) tolerance() *Tolerance {
 	return t
 }
 
+type modifierNodes struct {
+	m Modifier
+	n Number
+}
+
 // datumRef: @Ident RefModifier*
-func (p *fastParser) datumRef() *DatumRef {
+func (p *fastParser) datumRef(r *DatumRef) *DatumRef {
 	if !p.is(tokIdent) {
 		p.fail()
 		return nil
 	}
-	r := &DatumRef{node: p.open()}
+	r.node = p.open()
 	r.Name = p.take()
 	for p.is(tokModifier) {
 		if len(r.Modifiers) == maxRepeat-1 {
 			p.fail()
 			return nil
 		}
-		r.Modifiers = append(r.Modifiers, p.refModifier())
+		r.Modifiers = append(r.Modifiers, p.refModifier(&RefModifier{}))
 	}
 	p.close(&r.node)
 	return r
 }
 
+type basicNodes struct {
+	s        BasicStmt
+	value    Number
+	from, to Name
+	along    Direction
+	about    Name
+}
+
+type circleNodes struct {
+	c            BoltCircle
+	zone         Word
+	value        Number
+	pattern, axs Name
+}
+
 // basic: 'basic' ( BoltCircle | Number 'deg'? 'from' Name 'to' Name
 // ('along' Direction)? ('about' Name)? )
 func (p *fastParser) basic() *BasicStmt {
-	s := &BasicStmt{node: p.open()}
+	b := &basicNodes{}
+	s := &b.s
+	s.node = p.open()
 	if !p.expect("basic") {
 		return nil
 	}
 	if p.isWordTok() {
-		c := &BoltCircle{node: p.open()}
-		c.Zone = p.word()
-		if c.Value = p.number(); c.Value == nil || !p.expect("through") {
+		cb := &circleNodes{}
+		c := &cb.c
+		c.node = p.open()
+		c.Zone = p.word(&cb.zone)
+		if c.Value = p.number(&cb.value); c.Value == nil || !p.expect("through") {
 			return nil
 		}
-		if c.Pattern = p.name(); c.Pattern == nil || !p.expect("about") {
+		if c.Pattern = p.name(&cb.pattern); c.Pattern == nil || !p.expect("about") {
 			return nil
 		}
-		if c.About = p.name(); c.About == nil {
+		if c.About = p.name(&cb.axs); c.About == nil {
 			return nil
 		}
 		p.close(&c.node)
@@ -564,7 +704,7 @@ func (p *fastParser) basic() *BasicStmt {
 		p.close(&s.node)
 		return s
 	}
-	if s.Value = p.number(); s.Value == nil {
+	if s.Value = p.number(&b.value); s.Value == nil {
 		return nil
 	}
 	if p.isWord("deg") {
@@ -574,21 +714,21 @@ func (p *fastParser) basic() *BasicStmt {
 	if !p.expect("from") {
 		return nil
 	}
-	if s.From = p.name(); s.From == nil || !p.expect("to") {
+	if s.From = p.name(&b.from); s.From == nil || !p.expect("to") {
 		return nil
 	}
-	if s.To = p.name(); s.To == nil {
+	if s.To = p.name(&b.to); s.To == nil {
 		return nil
 	}
 	if p.isWord("along") {
 		p.take()
-		if s.Along = p.direction(); s.Along == nil {
+		if s.Along = p.direction(&b.along); s.Along == nil {
 			return nil
 		}
 	}
 	if p.isWord("about") {
 		p.take()
-		if s.About = p.name(); s.About == nil {
+		if s.About = p.name(&b.about); s.About == nil {
 			return nil
 		}
 	}
@@ -596,24 +736,33 @@ func (p *fastParser) basic() *BasicStmt {
 	return s
 }
 
+type dimNodes struct {
+	s        DimStmt
+	size     sizeNodes
+	from, to Name
+	along    Direction
+}
+
 // dim: 'dim' Size 'from' Name 'to' Name ('along' Direction)?
 func (p *fastParser) dim() *DimStmt {
-	s := &DimStmt{node: p.open()}
+	b := &dimNodes{}
+	s := &b.s
+	s.node = p.open()
 	if !p.expect("dim") {
 		return nil
 	}
-	if s.Size = p.size(); s.Size == nil || !p.expect("from") {
+	if s.Size = p.size(&b.size); s.Size == nil || !p.expect("from") {
 		return nil
 	}
-	if s.From = p.name(); s.From == nil || !p.expect("to") {
+	if s.From = p.name(&b.from); s.From == nil || !p.expect("to") {
 		return nil
 	}
-	if s.To = p.name(); s.To == nil {
+	if s.To = p.name(&b.to); s.To == nil {
 		return nil
 	}
 	if p.isWord("along") {
 		p.take()
-		if s.Along = p.direction(); s.Along == nil {
+		if s.Along = p.direction(&b.along); s.Along == nil {
 			return nil
 		}
 	}
