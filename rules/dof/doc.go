@@ -38,6 +38,19 @@
 // with six significant digits, gives the same counts. Results are mapped
 // back to the part's own coordinates before they are named.
 //
+// # Cost
+//
+// A check analyses every frame of every file, so the engine avoids work
+// that cannot change an answer: a zone's invariance is prepared once
+// (PreparedZone) and checked against any number of frames; each free space
+// is split into translations and rotations once; counts that are certain
+// without an SVD (no free motion, the whole space free, one free motion
+// clearly on one side of the rank tolerance) are taken directly; and the
+// SVDs run through LAPACK in pooled buffers (svd.go). reference_test.go
+// keeps the engine as it was before any of this, and the differential
+// tests and FuzzFastMatchesReference hold the engine to it: the same
+// counts and names, twists equal to rounding.
+//
 // # Names
 //
 // Motions are named as the command-line contract prints them (Frame.Name).
