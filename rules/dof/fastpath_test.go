@@ -39,6 +39,9 @@ func randomScenario(rng *rand.Rand) scenario {
 		return Vec{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}
 	}
 	point := func() Vec {
+		if rng.IntN(40) == 0 { // beyond turningRows' farPoint
+			return Vec{2e5 * rng.Float64(), 1e5, 0}
+		}
 		if rng.IntN(4) == 0 {
 			return Vec{200 * rng.Float64(), 200 * rng.Float64(), 50 * rng.Float64()}
 		}
@@ -175,12 +178,22 @@ func TestFastMatchesReferenceOnRandomFrames(t *testing.T) {
 	if testing.Short() {
 		n = 2000
 	}
+	closed := 0
 	for range n {
 		sc := randomScenario(rng)
 		sameAsReference(t, sc)
 		if t.Failed() {
 			return
 		}
+		if z := sc.zone; z.OrientationOnly && len(z.Surfaces) == 1 && len(z.Extra) == 0 {
+			if _, ok := turningRows(sc.frame.sanitized(), z.Surfaces[0]); ok {
+				closed++
+			}
+		}
+	}
+	t.Logf("%d of %d random zones took turningRows' closed form", closed, n)
+	if closed < n/200 {
+		t.Errorf("only %d of %d random zones took turningRows' closed form; the test no longer exercises it", closed, n)
 	}
 }
 

@@ -69,6 +69,11 @@ type PreparedZone struct {
 // The zone's slices are kept, not copied: do not change them afterwards.
 func (f Frame) PrepareZone(z Zone) *PreparedZone {
 	f = f.sanitized()
+	if z.OrientationOnly && len(z.Extra) == 0 && len(z.Surfaces) == 1 {
+		if rows, ok := turningRows(f, z.Surfaces[0]); ok {
+			return &PreparedZone{frame: f, zone: z, moving: rows}
+		}
+	}
 	var rows [][]float64
 	for _, s := range z.Surfaces {
 		rows = append(rows, s.conditions(f)...)
@@ -100,6 +105,48 @@ func (f Frame) PrepareZone(z Zone) *PreparedZone {
 		pz.moving = moving
 	}
 	return pz
+}
+
+// farPoint bounds how far (in part sizes, from the part's centre) a
+// surface may lie for turningRows to answer in closed form.
+const farPoint = 50
+
+// turningRows returns, in closed form, what PrepareZone computes by three
+// SVDs for the orientation zone of one surface: an orthonormal basis of
+// the rotation directions that turn it, the complement of ω(Z) in R^3. By
+// class (ISO 5459:2011 invariance classes, as in Surface.conditions):
+//
+//	plane (normal d)       Z ∋ rotation about d      ω(Z) = span d  →  t1, t2
+//	cylinder, cone (axis d) as for a plane
+//	sphere                 every rotation about the centre: ω(Z) = R^3  →  none
+//	prismatic, complex     no rotation: ω(Z) = 0  →  all of R^3
+//	invalid (no conditions) every motion: ω(Z) = R^3  →  none
+//
+// The SVDs decide the same dimensions with certainty while the normalised
+// point p is within farPoint: the conditions' rows then have singular
+// values of at least 1/(2(1 + √3·|p|)) > 0.005 (their matrix is block lower
+// triangular with orthonormal diagonal blocks), and the rotation parts of
+// Z's basis singular values 1 or 1/√(1 + |p×d|²) > 0.019 (or 0 exactly),
+// all far from rankTol. The subspaces are the same; the bases differ by
+// rounding and a rotation within them, which no count or name depends on.
+// ok is false beyond farPoint: the SVDs decide.
+func turningRows(f Frame, s Surface) (rows [][]float64, ok bool) {
+	if !s.Valid() {
+		return nil, true
+	}
+	if s.Class != Complex && norm(f.point(s.Point)) > farPoint {
+		return nil, false
+	}
+	switch s.Class {
+	case Plane, Cylinder, Cone:
+		t1, t2 := perpendiculars(unit(s.Dir))
+		return [][]float64{t1[:], t2[:]}, true
+	case Sphere:
+		return nil, true
+	case Prismatic, Complex:
+		return identity(3), true
+	}
+	return nil, false
 }
 
 // ZoneIn is Zone for a prepared zone. A zone prepared with another Frame
