@@ -54,9 +54,13 @@ func targetSurfaces(t *model.Target) []dof.Surface {
 		return nil
 	}
 	class := surfaceClass(t.Feature.Kind)
-	var out []dof.Surface
-	for _, p := range t.Points() {
-		out = append(out, dof.Surface{Class: class, Dir: dof.Vec(t.Feature.Dir), Point: dof.Vec(p)})
+	points := t.Points()
+	if len(points) == 0 {
+		return nil
+	}
+	out := make([]dof.Surface, len(points))
+	for i, p := range points {
+		out[i] = dof.Surface{Class: class, Dir: dof.Vec(t.Feature.Dir), Point: dof.Vec(p)}
 	}
 	return out
 }

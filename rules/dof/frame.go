@@ -113,13 +113,13 @@ func (f Frame) Analyze(refs []Datum) *DRF {
 	}
 	free, sp := identity(6), wholeSplit()
 	d.spaces[0], d.splits[0] = free, sp
-	var rows [][]float64
+	var rows []float64 // six numbers a row
 	for _, ref := range refs {
 		rows = rows[:0]
 		for _, s := range ref {
-			rows = append(rows, s.conditions(f)...)
+			rows = s.appendConditions(rows, f)
 		}
-		next := restrict(free, rows)
+		next := restrictFlat(free, rows)
 		// Each space is split once and the split reused for every name
 		// and zone that needs it (splitSpace is a pure function of the
 		// space, so this changes no answer).

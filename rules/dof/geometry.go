@@ -74,43 +74,73 @@ func (s Surface) Valid() bool {
 //
 // The identity a·(ω×p) = ω·(p×a) turns each into a row (p×a, a).
 func (s Surface) conditions(f Frame) [][]float64 {
-	if !s.Valid() {
+	flat := s.appendConditions(nil, f)
+	if len(flat) == 0 {
 		return nil
+	}
+	return rowsOf(flat)
+}
+
+// appendConditions appends the rows of conditions to dst, six numbers a
+// row, without a slice per row: the engine copies them straight into an
+// SVD's matrix, and a pattern's zone has four rows for each member.
+func (s Surface) appendConditions(dst []float64, f Frame) []float64 {
+	if !s.Valid() {
+		return dst
 	}
 	p := f.point(s.Point)
 	d := unit(s.Dir)
 	t1, t2 := perpendiculars(d)
-	// The rows share one allocation: a pattern's zone has four rows for
-	// each of its members.
-	back := make([]float64, 0, 6*condCount[s.Class])
-	row := func(w, v Vec) []float64 {
-		back = append(back, w[0], w[1], w[2], v[0], v[1], v[2])
-		return back[len(back)-6 : len(back) : len(back)]
-	}
-	rot := func(a Vec) []float64 { return row(a, Vec{}) }
-	trans := func(a Vec) []float64 { return row(Vec{}, a) }
-	at := func(a Vec) []float64 { return row(cross(p, a), a) } // a·(v + ω×p)
-	axes := []Vec{{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}
+	row := func(w, v Vec) { dst = append(dst, w[0], w[1], w[2], v[0], v[1], v[2]) }
+	rot := func(a Vec) { row(a, Vec{}) }
+	trans := func(a Vec) { row(Vec{}, a) }
+	at := func(a Vec) { row(cross(p, a), a) } // a·(v + ω×p)
+	x, y, z := Vec{1, 0, 0}, Vec{0, 1, 0}, Vec{0, 0, 1}
 	switch s.Class {
 	case Plane:
-		return [][]float64{rot(t1), rot(t2), at(d)}
+		rot(t1)
+		rot(t2)
+		at(d)
 	case Cylinder:
-		return [][]float64{rot(t1), rot(t2), at(t1), at(t2)}
+		rot(t1)
+		rot(t2)
+		at(t1)
+		at(t2)
 	case Sphere:
-		return [][]float64{at(axes[0]), at(axes[1]), at(axes[2])}
+		at(x)
+		at(y)
+		at(z)
 	case Cone:
-		return [][]float64{rot(t1), rot(t2), at(axes[0]), at(axes[1]), at(axes[2])}
+		rot(t1)
+		rot(t2)
+		at(x)
+		at(y)
+		at(z)
 	case Prismatic:
-		return [][]float64{rot(axes[0]), rot(axes[1]), rot(axes[2]), trans(t1), trans(t2)}
+		rot(x)
+		rot(y)
+		rot(z)
+		trans(t1)
+		trans(t2)
 	case Complex:
-		return identity(6)
+		rot(x)
+		rot(y)
+		rot(z)
+		trans(x)
+		trans(y)
+		trans(z)
 	}
-	return nil
+	return dst
 }
 
-// condCount is the number of condition rows of each class (complex: none
-// built by row).
-var condCount = [...]int{Plane: 3, Cylinder: 4, Sphere: 3, Cone: 5, Prismatic: 5, Complex: 0}
+// rowsOf cuts a flat list of six-number rows into rows (sharing it).
+func rowsOf(flat []float64) [][]float64 {
+	rows := make([][]float64, len(flat)/6)
+	for i := range rows {
+		rows[i] = flat[i*6 : (i+1)*6 : (i+1)*6]
+	}
+	return rows
+}
 
 // perpendiculars returns two unit vectors completing d to an orthonormal
 // frame. Which two does not matter: only the subspace they span enters the

@@ -75,6 +75,19 @@ func nullAndRowSpace(rows [][]float64, n int) (null, row space) {
 	return b.nullAndRow()
 }
 
+// nullAndRowSpaceFlat is nullAndRowSpace for rows given one after another
+// in flat, n numbers each.
+func nullAndRowSpaceFlat(flat []float64, n int) (null, row space) {
+	m := len(flat) / n
+	if m == 0 {
+		return identity(n), nil
+	}
+	b := getSVD(m, n)
+	defer putSVD(b)
+	copy(b.a, flat)
+	return b.nullAndRow()
+}
+
 // nullAndRow is nullAndRowSpace for the rows already in b.a. Only V is
 // read: asking for U as well made LAPACK build an m × m matrix, 48 × 48 for
 // the zone of a 12-hole pattern, for nothing.
@@ -82,6 +95,18 @@ func (b *svdBuf) nullAndRow() (null, row space) {
 	n := b.n
 	if !b.factorize(false, false, true) {
 		return identity(n), nil
+	}
+	rank := 0
+	for j := range n {
+		if j < len(b.s) && b.s[j] > rankTol {
+			rank++
+		}
+	}
+	if rank > 0 {
+		row = make(space, 0, rank)
+	}
+	if rank < n {
+		null = make(space, 0, n-rank)
 	}
 	vs := vectors(n, n)
 	for j, v := range vs {
@@ -99,15 +124,26 @@ func (b *svdBuf) nullAndRow() (null, row space) {
 // found as S times the null space of the conditions expressed in S's basis.
 // Because S is orthonormal the product is orthonormal too.
 func restrict(s space, rows [][]float64) space {
+	return restrictRows(s, len(rows), func(i int) []float64 { return rows[i] })
+}
+
+// restrictFlat is restrict for rows given one after another in flat, six
+// numbers each.
+func restrictFlat(s space, flat []float64) space {
+	return restrictRows(s, len(flat)/6, func(i int) []float64 { return flat[i*6 : (i+1)*6] })
+}
+
+func restrictRows(s space, m int, row func(int) []float64) space {
 	if len(s) == 0 {
 		return nil
 	}
-	if len(rows) == 0 {
+	if m == 0 {
 		return combine(s, identity(len(s)))
 	}
-	b := getSVD(len(rows), len(s))
+	b := getSVD(m, len(s))
 	defer putSVD(b)
-	for i, r := range rows {
+	for i := range m {
+		r := row(i)
 		for j, v := range s {
 			b.a[i*len(s)+j] = dot(r, v)
 		}

@@ -20,7 +20,11 @@ func (f Frame) readable(s, k space) []Motion {
 
 // readableSplit is readable for spaces already split by splitSpace.
 func (f Frame) readableSplit(ss, ks split) []Motion {
-	var out []Motion
+	n := max(len(ss.trans)-len(ks.trans), 0) + max(len(ss.rot)-len(ks.rot), 0)
+	if n == 0 {
+		return nil
+	}
+	out := make([]Motion, 0, n)
 	for _, t := range pick(ss.trans, ks.trans) {
 		out = append(out, f.motion(Twist{V: t}))
 	}
@@ -34,6 +38,9 @@ func (f Frame) readableSplit(ss, ks split) []Motion {
 			tw.V = sub(tw.V, scale(t, dot(tw.V[:], t[:])))
 		}
 		out = append(out, f.motion(tw))
+	}
+	if len(out) == 0 {
+		return nil // as before pre-sizing, when pick finds nothing
 	}
 	return out
 }

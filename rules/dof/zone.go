@@ -74,11 +74,11 @@ func (f Frame) PrepareZone(z Zone) *PreparedZone {
 			return &PreparedZone{frame: f, zone: z, moving: rows}
 		}
 	}
-	var rows [][]float64
+	rows := make([]float64, 0, 6*6*len(z.Surfaces)) // six numbers a row
 	for _, s := range z.Surfaces {
-		rows = append(rows, s.conditions(f)...)
+		rows = s.appendConditions(rows, f)
 	}
-	null, moving := nullAndRowSpace(rows, 6)
+	null, moving := nullAndRowSpaceFlat(rows, 6)
 	gens := [][]float64(null)
 	extra := false
 	for _, t := range z.Extra {
