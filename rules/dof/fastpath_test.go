@@ -237,3 +237,42 @@ func TestFormatNumMatchesPlainFormatting(t *testing.T) {
 		}
 	}
 }
+
+// TestNameShortcutsMatchFormatting holds Name's answers for motions along
+// and about an axis to the names formatting gives, over lengths from far
+// below to far above the part's size, both signs, -0 components, and
+// frames of any size and place.
+func TestNameShortcutsMatchFormatting(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1101, 8015))
+	n := 0
+	for range 100000 {
+		f := Frame{Center: Vec{1000 * rng.NormFloat64(), 0, 0}, Scale: math.Pow(10, 6*rng.Float64()-3)}.sanitized()
+		var w, v Vec
+		x := math.Copysign(math.Pow(10, 240*rng.Float64()-120), rng.NormFloat64())
+		switch rng.IntN(4) {
+		case 0:
+			v[rng.IntN(3)] = x
+		case 1:
+			w[rng.IntN(3)] = x
+		case 2:
+			w[rng.IntN(3)] = x
+			v[rng.IntN(3)] = math.Copysign(0, -1)
+		default: // near misses that must take the formatting path
+			v[rng.IntN(3)] = x
+			v[rng.IntN(3)] += 1e-7 * x
+			w[rng.IntN(3)] = 1e-12 * rng.Float64()
+		}
+		tw := Twist{W: w, V: v}
+		got := f.Name(tw)
+		want := f.formattedName(tw, norm(tw.W), norm(tw.V))
+		if got != want {
+			t.Fatalf("Name(%v) in %+v = %q, formatting gives %q", tw, f, got, want)
+		}
+		if soleAxis(w) >= 0 || soleAxis(v) >= 0 {
+			n++
+		}
+	}
+	if n < 50000 {
+		t.Fatalf("only %d of the twists were along or about an axis", n)
+	}
+}

@@ -156,6 +156,55 @@ func (f Frame) Name(t Twist) string {
 		return "no motion"
 	}
 	wn, vn := norm(t.W), norm(t.V)
+	// Motions along or about an axis are the commonest by far (the bases
+	// prefer the axes), and their names are known without formatting: a
+	// vector with one non-zero component, divided by its length, is that
+	// axis to a few units in the last place, which prints as 1; the
+	// zeros print as 0; and with no translation the axis passes through
+	// the origin. TestNameShortcutsMatchFormatting holds them to the
+	// formatted names.
+	if wn == 0 || wn*f.Scale <= 1e-9*vn {
+		if k := soleAxis(t.V); k >= 0 {
+			return translationAxis[k]
+		}
+	} else if t.V == (Vec{}) {
+		if k := soleAxis(t.W); k >= 0 {
+			return rotationAxis[k]
+		}
+	}
+	return f.formattedName(t, wn, vn)
+}
+
+var (
+	translationAxis = [3]string{"translation x", "translation y", "translation z"}
+	rotationAxis    = [3]string{"rotation x", "rotation y", "rotation z"}
+)
+
+// soleAxis returns the index of v's only non-zero component, when it has
+// exactly one and its size is far from overflow and underflow (so that
+// dividing by the vector's length gives ±1 to rounding); otherwise -1.
+func soleAxis(v Vec) int {
+	k := -1
+	for i, x := range v {
+		if x != 0 {
+			if k >= 0 {
+				return -1
+			}
+			k = i
+		}
+	}
+	if k < 0 {
+		return -1
+	}
+	if a := math.Abs(v[k]); !(a > 1e-100 && a < 1e100) {
+		return -1
+	}
+	return k
+}
+
+// formattedName is Name by formatting, for a sanitised frame and a finite
+// twist with the norms wn = |W| and vn = |V|.
+func (f Frame) formattedName(t Twist, wn, vn float64) string {
 	if wn == 0 || wn*f.Scale <= 1e-9*vn {
 		if vn == 0 {
 			return "no motion"
