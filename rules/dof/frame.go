@@ -114,16 +114,25 @@ func (f Frame) Analyze(refs []Datum) *DRF {
 	free, sp := identity(6), wholeSplit()
 	d.spaces[0], d.splits[0] = free, sp
 	var rows []float64 // six numbers a row
-	for _, ref := range refs {
-		rows = rows[:0]
-		for _, s := range ref {
-			rows = s.appendConditions(rows, f)
+	for k, ref := range refs {
+		var next space
+		var nsp split
+		ok := false
+		if k == 0 && len(ref) == 1 {
+			// A single plane first: its invariance in closed form.
+			next, _, nsp, ok = planeSpaces(f, ref[0])
 		}
-		next := restrictFlat(free, rows)
-		// Each space is split once and the split reused for every name
-		// and zone that needs it (splitSpace is a pure function of the
-		// space, so this changes no answer).
-		nsp := splitSpace(next)
+		if !ok {
+			rows = rows[:0]
+			for _, s := range ref {
+				rows = s.appendConditions(rows, f)
+			}
+			next = restrictFlat(free, rows)
+			// Each space is split once and the split reused for every
+			// name and zone that needs it (splitSpace is a pure function
+			// of the space, so this changes no answer).
+			nsp = splitSpace(next)
+		}
 		d.steps = append(d.steps, Step{
 			Constrains: len(free) - len(next),
 			Removed:    f.readableSplit(sp, nsp),

@@ -69,8 +69,12 @@ type PreparedZone struct {
 // The zone's slices are kept, not copied: do not change them afterwards.
 func (f Frame) PrepareZone(z Zone) *PreparedZone {
 	f = f.sanitized()
-	if z.OrientationOnly && len(z.Extra) == 0 && len(z.Surfaces) == 1 {
-		if rows, ok := turningRows(f, z.Surfaces[0]); ok {
+	if len(z.Extra) == 0 && len(z.Surfaces) == 1 {
+		if z.OrientationOnly {
+			if rows, ok := turningRows(f, z.Surfaces[0]); ok {
+				return &PreparedZone{frame: f, zone: z, moving: rows}
+			}
+		} else if _, rows, _, ok := planeSpaces(f, z.Surfaces[0]); ok {
 			return &PreparedZone{frame: f, zone: z, moving: rows}
 		}
 	}

@@ -1,0 +1,49 @@
+package dof
+
+// Closed forms for the commonest single surface, a plane, used where the
+// engine would otherwise run SVDs whose answer is certain: the invariance
+// of one datum plane before any other reference (Analyze's first step)
+// and the location zone of one plane (PrepareZone). The spaces are the
+// same as the SVDs', to rounding; the bases differ by a rotation within
+// them, which no count, name or twist depends on (the names and twists are
+// chosen from the subspaces: see readable and pick). The differential
+// tests hold both uses to the reference engine.
+
+// planeSpaces returns, for a valid plane (normal d, point p) within
+// farPoint part sizes of the part's centre, orthonormal bases of its
+// invariance Z and of Z's complement, in normalised twists, with the
+// split of Z into translations and rotations:
+//
+//	Z  = span{(d, 0), (0, t1), (0, t2)}   turn about the normal, slide in the plane
+//	Z⊥ = span{(t1, 0), (t2, 0), (0, d)}
+//
+// (d, 0) leaves the plane unchanged because d·(ω×p) = d·(d×p) = 0 for
+// ω = d; with t1, t2 as in Surface.conditions every vector of Z meets the
+// plane's three conditions and Z⊥ is spanned by them. The SVD of the
+// conditions finds rank 3 with certainty for such a plane: their matrix is
+// block lower triangular with orthonormal diagonal blocks and an
+// off-diagonal block of norm at most |p| ≤ farPoint, so its smallest
+// singular value is at least 1/(2(1 + farPoint)) ≈ 0.01, far above rankTol.
+// ok is false otherwise.
+func planeSpaces(f Frame, s Surface) (z, zPerp space, sp split, ok bool) {
+	if s.Class != Plane || !s.Valid() || norm(f.point(s.Point)) > farPoint {
+		return nil, nil, split{}, false
+	}
+	d := unit(s.Dir)
+	t1, t2 := perpendiculars(d)
+	six := func(w, v Vec) []float64 { return []float64{w[0], w[1], w[2], v[0], v[1], v[2]} }
+	z = space{six(d, Vec{}), six(Vec{}, t1), six(Vec{}, t2)}
+	zPerp = space{six(t1, Vec{}), six(t2, Vec{}), six(Vec{}, d)}
+	// The rotation parts of Z's basis are d, 0, 0: one rotation direction
+	// d (singular value 1, reached by the first basis vector), and the
+	// translations t1, t2 of the other two.
+	sp = split{
+		basis: z,
+		trans: [][3]float64{t1, t2},
+		rot:   [][3]float64{d},
+		u:     [][3]float64{d},
+		v:     [][]float64{{1, 0, 0}},
+		vals:  []float64{1},
+	}
+	return z, zPerp, sp, true
+}
