@@ -26,21 +26,21 @@ func participleStmt(keyword string, all []lexer.Token, eof lexer.Token) (Stmt, e
 	}
 	switch keyword {
 	case "part":
-		return run(partParser, p)
+		return run(partParser(), p)
 	case "units":
-		return run(unitsParser, p)
+		return run(unitsParser(), p)
 	case "standard":
-		return run(standardParser, p)
+		return run(standardParser(), p)
 	case "feature":
-		return run(featureParser, p)
+		return run(featureParser(), p)
 	case "datum":
-		return run(datumParser, p)
+		return run(datumParser(), p)
 	case "frame":
-		return run(frameParser, p)
+		return run(frameParser(), p)
 	case "basic":
-		return run(basicParser, p)
+		return run(basicParser(), p)
 	case "dim":
-		return run(dimParser, p)
+		return run(dimParser(), p)
 	}
 	return nil, fmt.Errorf("no statement starts with %q", keyword)
 }

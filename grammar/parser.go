@@ -5,18 +5,25 @@ import (
 	"errors"
 	"fmt"
 	"strings"
+	"sync"
 	"unicode/utf8"
 
 	"github.com/alecthomas/participle/v2"
 	"github.com/alecthomas/participle/v2/lexer"
 )
 
-func build[T any]() *participle.Parser[T] {
-	return participle.MustBuild[T](
-		participle.Lexer(lexerDef),
-		participle.Elide("Whitespace"),
-		participle.UseLookahead(2),
-	)
+// build returns a parser for one statement kind, built on first use: the
+// fast path (fastparse.go) handles every well-formed statement, so a run
+// over clean files never needs participle, and a one-file check in a
+// pre-commit hook should not pay for building it.
+func build[T any]() func() *participle.Parser[T] {
+	return sync.OnceValue(func() *participle.Parser[T] {
+		return participle.MustBuild[T](
+			participle.Lexer(lexerDef),
+			participle.Elide("Whitespace"),
+			participle.UseLookahead(2),
+		)
+	})
 }
 
 // One parser per statement kind: the first word chooses, which keeps
@@ -173,21 +180,21 @@ func parseStmt(name string, rs rawStmt) Stmt {
 	}
 	switch first.Value {
 	case "part":
-		st, err = run(partParser, pl())
+		st, err = run(partParser(), pl())
 	case "units":
-		st, err = run(unitsParser, pl())
+		st, err = run(unitsParser(), pl())
 	case "standard":
-		st, err = run(standardParser, pl())
+		st, err = run(standardParser(), pl())
 	case "feature":
-		st, err = run(featureParser, pl())
+		st, err = run(featureParser(), pl())
 	case "datum":
-		st, err = run(datumParser, pl())
+		st, err = run(datumParser(), pl())
 	case "frame":
-		st, err = run(frameParser, pl())
+		st, err = run(frameParser(), pl())
 	case "basic":
-		st, err = run(basicParser, pl())
+		st, err = run(basicParser(), pl())
 	case "dim":
-		st, err = run(dimParser, pl())
+		st, err = run(dimParser(), pl())
 	case "composite":
 		return bad(rs, sig, &SyntaxError{Span: first.span,
 			Msg: "a 'composite' line is the lower segment of a frame: put it directly under the 'frame' line it belongs to"})
