@@ -245,10 +245,11 @@ type zoneInKey struct {
 }
 
 // zoneKey encodes everything a zone's analysis depends on, bit for bit:
-// each surface's class, direction and point, the extra invariant twists
-// and the orientation flag. Equal keys give equal answers.
+// the orientation flag, the numbers of surfaces and extra twists, each
+// surface's class, direction and point, and the extra invariant twists.
+// Equal keys give equal answers.
 func zoneKey(z dof.Zone) string {
-	b := make([]byte, 0, 2+len(z.Surfaces)*7*8+len(z.Extra)*6*8)
+	b := make([]byte, 0, 17+len(z.Surfaces)*7*8+len(z.Extra)*6*8)
 	num := func(x float64) { b = binary.LittleEndian.AppendUint64(b, math.Float64bits(x)) }
 	vec := func(v dof.Vec) { num(v[0]); num(v[1]); num(v[2]) }
 	if z.OrientationOnly {
@@ -256,12 +257,13 @@ func zoneKey(z dof.Zone) string {
 	} else {
 		b = append(b, 'l')
 	}
+	b = binary.LittleEndian.AppendUint64(b, uint64(len(z.Surfaces)))
+	b = binary.LittleEndian.AppendUint64(b, uint64(len(z.Extra)))
 	for _, s := range z.Surfaces {
 		b = binary.LittleEndian.AppendUint64(b, uint64(s.Class))
 		vec(s.Dir)
 		vec(s.Point)
 	}
-	b = append(b, 'x')
 	for _, t := range z.Extra {
 		vec(t.W)
 		vec(t.V)
