@@ -45,8 +45,12 @@
 // (PreparedZone) and checked against any number of frames; each free space
 // is split into translations and rotations once; counts that are certain
 // without an SVD (no free motion, the whole space free, one free motion
-// clearly on one side of the rank tolerance) are taken directly; and the
-// SVDs run through LAPACK in pooled buffers (svd.go). reference_test.go
+// clearly on one side of the rank tolerance) are taken directly, and so
+// are, in closed form, the spaces of a single plane and the turning
+// directions of a one-surface orientation zone, where bounds written
+// beside the code make the SVDs' answer certain (closedform.go,
+// turningRows); and the remaining SVDs run through LAPACK in pooled
+// buffers (svd.go). reference_test.go
 // keeps the engine as it was before any of this, and the differential
 // tests and FuzzFastMatchesReference hold the engine to it: the same
 // counts and names, twists equal to rounding.

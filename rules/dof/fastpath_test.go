@@ -276,3 +276,47 @@ func TestNameShortcutsMatchFormatting(t *testing.T) {
 		t.Fatalf("only %d of the twists were along or about an axis", n)
 	}
 }
+
+// TestNamesIgnoreRoundingNoise: a rotation axis or a direction that is
+// nominally a short decimal names the same whichever side of it rounding
+// left the computed value, including a coordinate at a power of ten that
+// sets the number of decimals (FuzzFastMatchesReference found
+// 99999.99999999013 printing (62564.5, 100000, 0) where 100000.00000000001
+// printed (62564, 100000, 0)).
+func TestNamesIgnoreRoundingNoise(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5458, 1101))
+	nudge := func(x float64) float64 {
+		for range rng.IntN(40) {
+			if rng.IntN(2) == 0 {
+				x = math.Nextafter(x, math.Inf(1))
+			} else {
+				x = math.Nextafter(x, math.Inf(-1))
+			}
+		}
+		return x
+	}
+	nominal := func() float64 {
+		switch rng.IntN(4) {
+		case 0:
+			return math.Pow(10, float64(rng.IntN(9)-2)) // 0.01 … 1e6
+		case 1:
+			return float64(rng.IntN(2000000)-1000000) / 10000 // four decimals, ties for three
+		default:
+			return float64(rng.IntN(200000)-100000) / 10
+		}
+	}
+	for range 50000 {
+		f := Frame{Scale: math.Pow(10, 4*rng.Float64()-1)}
+		p := Vec{nominal(), nominal(), nominal()}
+		w := Vec{0, 0, 1}
+		tw := Twist{W: w, V: cross(p, w)} // rotation about z through p
+		noisy := Twist{W: w, V: Vec{nudge(tw.V[0]), nudge(tw.V[1]), nudge(tw.V[2])}}
+		if a, b := f.Name(tw), f.Name(noisy); a != b {
+			t.Fatalf("the axis through %v names as %q, and %q a few units in the last place away", p, a, b)
+		}
+		d := unit(Vec{nominal(), nominal(), 1})
+		if a, b := f.Name(Twist{V: d}), f.Name(Twist{V: Vec{nudge(d[0]), nudge(d[1]), nudge(d[2])}}); a != b {
+			t.Fatalf("the direction %v names as %q, and %q a few units in the last place away", d, a, b)
+		}
+	}
+}

@@ -237,9 +237,10 @@ func axisName(dir string) string {
 	return ""
 }
 
-func formatDir(v Vec) string { return formatVec(v, 6) }
+func formatDir(v Vec) string { return formatVec(steadyVec(v), 6) }
 
 func formatPoint(p Vec, size float64) string {
+	p = steadyVec(p)
 	ref := math.Max(math.Max(math.Abs(p[0]), math.Abs(p[1])), math.Max(math.Abs(p[2]), size))
 	dec := 5 - int(math.Floor(math.Log10(ref)))
 	return formatVec(p, min(max(dec, 0), 15))
@@ -247,6 +248,31 @@ func formatPoint(p Vec, size float64) string {
 
 // formatVec prints "(a, b, c)", building the text in one buffer: every
 // motion of every frame is named, so this is on the engine's hot path.
+// steady rounds x to 12 significant digits before it is printed to at
+// most about six. A computed direction or point carries rounding noise of
+// about 1e-16 of itself, which any change in how it was computed (another
+// but equivalent basis, say) moves; without this, a coordinate that is
+// nominally 100000 could come out as 99999.99999999 and print the other
+// coordinates with one more decimal, or one ending in 5 just past the
+// printed digits could round either way. Rounded first, nearby values
+// print alike; only values within 1e-12 of a boundary between 12-digit
+// values, which nominal drawing geometry is not, can still differ.
+func steady(x float64) float64 {
+	if x == 0 || math.IsNaN(x) || math.IsInf(x, 0) {
+		return x
+	}
+	s := math.Pow(10, 11-math.Floor(math.Log10(math.Abs(x))))
+	if s == 0 || math.IsInf(s, 0) {
+		return x
+	}
+	if r := math.Round(x*s) / s; !math.IsNaN(r) && !math.IsInf(r, 0) {
+		return r
+	}
+	return x
+}
+
+func steadyVec(v Vec) Vec { return Vec{steady(v[0]), steady(v[1]), steady(v[2])} }
+
 func formatVec(v Vec, dec int) string {
 	var buf [96]byte
 	b := append(buf[:0], '(')
