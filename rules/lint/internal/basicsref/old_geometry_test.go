@@ -1,0 +1,341 @@
+package basicsref
+
+import (
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/model"
+)
+
+// Vec is a point or a direction in the part's coordinates.
+type Vec = model.Vec
+
+// alignTol decides what counts as aligned: directions within this many
+// radians of each other, and coordinates within this fraction of the part's
+// size. It is the kinematic engine's reasoning (rules/dof, rankTol): values
+// exported with six significant digits disagree by about 1e-5 of the part's
+// size a couple of sizes from the origin, and no drawing means a difference
+// that small.
+const alignTol = 2e-5
+
+// rankTol is the residual below which a unit-length row counts as a
+// combination of others.
+const rankTol = 5e-5
+
+// shape is how a feature's nominal geometry can vary (see the package doc).
+type shape int
+
+const (
+	planeShape shape = iota + 1 // offset along the normal
+	axisShape                   // position across the axis
+	pointShape                  // a centre, an apex or a surface's point
+)
+
+// entity is one member of one feature with its variables.
+type entity struct {
+	m     *model.Member
+	shape shape
+	p, d  Vec   // nominal point; unit direction (zero for a centre)
+	tb    []Vec // orthonormal directions of its translation variables
+	rb    []Vec // orthonormal axes of its rotation variables
+	t0    int   // index of the first translation variable
+	r0    int   // index of the first rotation variable
+	// h and ah are how far the written geometry may be from what was meant
+	// by rounding alone: a length, and an angle in degrees (see written).
+	h, ah float64
+}
+
+// Name is how a member is written: "bore", or "bolts.3" in a pattern.
+func Name(m *model.Member) string {
+	if m == nil || m.Feature == nil {
+		return ""
+	}
+	if m.Feature.Pattern {
+		return m.Feature.Name + "." + strconv.Itoa(m.Index)
+	}
+	return m.Feature.Name
+}
+
+func (e *entity) name() string { return Name(e.m) }
+
+var axes = [3]Vec{{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}
+
+// snap returns the coordinate axis d is within alignTol of (keeping its
+// sign), or d normalised. Aligned geometry then gives exact rows.
+func snap(d Vec) Vec {
+	d = d.Unit()
+	for i, a := range axes {
+		if c := d.Dot(a); math.Abs(c) >= 1-alignTol*alignTol/2 {
+			if c < 0 {
+				return a.Scale(-1)
+			}
+			return axes[i]
+		}
+	}
+	return d
+}
+
+// canonical flips a direction so that its first non-zero component is
+// positive: a line and its opposite are one line.
+func canonical(d Vec) Vec {
+	for _, x := range d {
+		if math.Abs(x) > 1e-12 {
+			if x < 0 {
+				return d.Scale(-1)
+			}
+			return d
+		}
+	}
+	return d
+}
+
+// perp returns two orthonormal directions across d: the other two axes
+// when d is an axis, else a frame built on the axis least aligned with d.
+func perp(d Vec) []Vec {
+	for i, a := range axes {
+		if math.Abs(d.Dot(a)) == 1 {
+			return []Vec{axes[(i+1)%3], axes[(i+2)%3]}
+		}
+	}
+	k := 0
+	for i := 1; i < 3; i++ {
+		if math.Abs(d[i]) < math.Abs(d[k]) {
+			k = i
+		}
+	}
+	t1 := d.Cross(axes[k]).Unit()
+	return []Vec{t1, d.Cross(t1).Unit()}
+}
+
+func parallel(a, b Vec) bool      { return a.Cross(b).Norm() <= alignTol }
+func perpendicular(a, b Vec) bool { return math.Abs(a.Dot(b)) <= alignTol }
+
+// newEntity gives a member its variables' directions, or nil when its
+// geometry is unknown.
+func newEntity(m *model.Member) *entity {
+	f := m.Feature
+	if f == nil || f.Broken || !f.HasGeometry {
+		return nil
+	}
+	e := &entity{m: m, p: m.Point}
+	if f.Dir.Norm() > 0 {
+		e.d = snap(f.Dir)
+	}
+	hasDir := e.d.Norm() > 0
+	switch f.Kind {
+	case model.Plane, model.Slot, model.Tab:
+		if !hasDir {
+			return nil
+		}
+		e.shape, e.tb, e.rb = planeShape, []Vec{canonical(e.d)}, perp(e.d)
+	case model.Hole, model.Pin, model.Extrusion:
+		if !hasDir {
+			return nil
+		}
+		e.shape, e.tb, e.rb = axisShape, perp(e.d), perp(e.d)
+	case model.Cone:
+		if !hasDir {
+			return nil
+		}
+		e.shape, e.tb, e.rb = pointShape, axes[:], perp(e.d)
+	case model.Socket, model.Ball, model.Surface:
+		e.shape, e.tb = pointShape, axes[:]
+	default:
+		return nil
+	}
+	e.h, e.ah = written(m)
+	return e
+}
+
+// written returns how far a member's written point (h, a length) and
+// direction (ah, degrees) may be from the values meant, by rounding alone.
+// A coordinate written with three or more decimals (34.641, 0.866025) is
+// taken as a computed value rounded to that digit, so ±half a unit of it;
+// one with fewer (15, 12.5) as exact, as designers write design values
+// (from memory: drawing practice; a bolt circle's coordinates are computed,
+// its diameter is chosen). Without this, a bolt circle written with
+// three-decimal coordinates would disagree with its diameter at 1e-6 of the
+// part's size.
+func written(m *model.Member) (h, ah float64) {
+	st := m.Feature.Stmt
+	if st == nil || st.Geometry == nil {
+		return 0, 0
+	}
+	g := st.Geometry
+	if i := m.Index - 1; i >= 0 && i < len(g.Points) {
+		if v := g.Points[i]; v != nil {
+			h = math.Sqrt(3) * math.Max(halfUnit(v.X), math.Max(halfUnit(v.Y), halfUnit(v.Z)))
+		}
+	}
+	if g.Dir != nil && g.Dir.Vector != nil {
+		v := g.Dir.Vector
+		d := math.Max(halfUnit(v.X), math.Max(halfUnit(v.Y), halfUnit(v.Z)))
+		if n := m.Feature.Dir.Norm(); n > 0 {
+			// Each component off by d turns a unit vector by at most about
+			// √2·d radians.
+			ah = math.Sqrt2 * d * 180 / math.Pi
+		}
+	}
+	return h, ah
+}
+
+// halfUnit is half a unit of the last written decimal of a number with
+// three or more decimals, else 0.
+func halfUnit(n *grammar.Number) float64 {
+	if n == nil || strings.ContainsAny(n.Text, "eE") {
+		return 0
+	}
+	i := strings.IndexByte(n.Text, '.')
+	if i < 0 {
+		return 0
+	}
+	d := len(n.Text) - i - 1
+	if d < 3 {
+		return 0
+	}
+	return 0.5 * math.Pow(10, -float64(d))
+}
+
+// offset is the vector from a to b that a distance between them measures:
+// across an axis, along the common normal of two skew axes, straight
+// between centres.
+func offset(a, b *entity) Vec {
+	w := b.p.Sub(a.p)
+	switch {
+	case a.shape == axisShape && b.shape == axisShape && !parallel(a.d, b.d):
+		m := a.d.Cross(b.d).Unit()
+		return m.Scale(m.Dot(w))
+	case a.shape == axisShape:
+		return w.Sub(a.d.Scale(a.d.Dot(w)))
+	case b.shape == axisShape:
+		return w.Sub(b.d.Scale(b.d.Dot(w)))
+	}
+	return w
+}
+
+// measureDir is the direction a linear dimension from a to b measures
+// along when it has no 'along': a plane's normal, else the offset. ok is
+// false where the contract gives the dimension no meaning (two planes that
+// are not parallel, a plane and an axis normal to it).
+func measureDir(a, b *entity, tol float64) (u Vec, zero, ok bool) {
+	switch {
+	case a.shape == planeShape && b.shape == planeShape:
+		return a.d, false, parallel(a.d, b.d)
+	case a.shape == planeShape:
+		return a.d, false, b.shape != axisShape || perpendicular(a.d, b.d)
+	case b.shape == planeShape:
+		return b.d, false, a.shape != axisShape || perpendicular(a.d, b.d)
+	}
+	w := offset(a, b)
+	if w.Norm() <= tol {
+		return Vec{}, true, true
+	}
+	return w.Unit(), false, true
+}
+
+// distance measures a linear dimension from a to b in the nominal
+// geometry, along u when along is set (the contract's `along DIR`).
+func distance(a, b *entity, along *Vec, tol float64) (float64, bool) {
+	if along != nil {
+		u := along.Unit()
+		switch {
+		case a.shape == planeShape:
+			nu := a.d.Dot(u)
+			if math.Abs(nu) <= alignTol {
+				return 0, false
+			}
+			return math.Abs(a.d.Dot(b.p.Sub(a.p)) / nu), true
+		case b.shape == planeShape:
+			nu := b.d.Dot(u)
+			if math.Abs(nu) <= alignTol {
+				return 0, false
+			}
+			return math.Abs(b.d.Dot(a.p.Sub(b.p)) / nu), true
+		}
+		return math.Abs(u.Dot(offset(a, b))), true
+	}
+	u, zero, ok := measureDir(a, b, tol)
+	switch {
+	case !ok:
+		return 0, false
+	case zero:
+		return 0, true
+	case a.shape == planeShape:
+		return math.Abs(u.Dot(b.p.Sub(a.p))), true
+	case b.shape == planeShape:
+		return math.Abs(u.Dot(a.p.Sub(b.p))), true
+	}
+	return offset(a, b).Norm(), true
+}
+
+// radial is the part of p − hub's point across the hub's axis.
+func radial(hub *entity, p Vec) Vec {
+	w := p.Sub(hub.p)
+	return w.Sub(hub.d.Scale(hub.d.Dot(w)))
+}
+
+// lineAngle is the angle in degrees, in [0, 90], between two undirected lines.
+func lineAngle(a, b Vec) float64 { return model.AngleBetweenLines(a, b) }
+
+// sameAngle reports whether a written angle v (degrees) names the nominal
+// angle between two undirected lines, nominal in [0, 90]: v or its
+// supplement (the contract: 30deg and 150deg are the same dimension),
+// within angleTol and the slack that the geometry's rounding allows.
+func sameAngle(v, nominal, slack float64) bool {
+	v = math.Mod(math.Abs(v), 180)
+	t := angleTol + slack
+	return math.Abs(v-nominal) <= t || math.Abs(180-v-nominal) <= t
+}
+
+// angleTol, in degrees, is how far a written angle may be from the model's.
+// Directions exported as vectors with four or more significant digits
+// reproduce the intended angle to within a few ten-thousandths of a degree;
+// a wrong angle on a drawing is wrong by far more (from memory, common
+// practice in model-based definition exports).
+const angleTol = 1e-3
+
+// Num formats a nominal value as a drawing would: up to six decimals,
+// without trailing zeros.
+func Num(x float64) string {
+	r := math.Round(x*1e6) / 1e6
+	if r == 0 {
+		r = 0 // no "-0"
+	}
+	return strconv.FormatFloat(r, 'f', -1, 64)
+}
+
+// NumAngle formats a nominal angle in degrees to the 1e-4 degree that
+// directions written with six significant digits carry.
+func NumAngle(x float64) string {
+	return Num(math.Round(x*1e4) / 1e4)
+}
+
+// DirName names a direction "x", "y", "z" when it is one of the part's
+// axes (either sense), else as a vector.
+func DirName(d Vec) string {
+	d = snap(d)
+	for i, a := range axes {
+		if math.Abs(d.Dot(a)) == 1 {
+			return [...]string{"x", "y", "z"}[i]
+		}
+	}
+	d = canonical(d)
+	return "(" + Num(d[0]) + ", " + Num(d[1]) + ", " + Num(d[2]) + ")"
+}
+
+// AlongName names a direction with its sense, as `along` takes it.
+func AlongName(d Vec) string {
+	d = snap(d)
+	for i, a := range axes {
+		if c := d.Dot(a); math.Abs(c) == 1 {
+			s := "+"
+			if c < 0 {
+				s = "-"
+			}
+			return s + [...]string{"x", "y", "z"}[i]
+		}
+	}
+	return "(" + Num(d[0]) + ", " + Num(d[1]) + ", " + Num(d[2]) + ")"
+}
