@@ -61,11 +61,36 @@ type Missing struct {
 // finding per independent missing quantity. It returns nil when the
 // target's or a datum's geometry is unknown.
 func (e *Engine) Missing(q Query) []Missing {
-	s := e.newSolve(q)
+	sc := e.getScratch()
+	defer e.scratch.Put(sc)
+	s := e.newSolve(q, sc)
 	if s == nil {
 		return nil
 	}
 	return s.run()
+}
+
+// scratch is what one query indexes by variable, class or general row,
+// kept between queries (an Engine's pool; queries may run at once).
+type scratch struct {
+	index  []int  // variable → position in params, −1 for none
+	col    []int  // class → column of the dense rows, −1 for none
+	ground []bool // class → held by the datums
+	seen   []bool // general row → reached by fixed
+}
+
+func (e *Engine) getScratch() *scratch {
+	sc, _ := e.scratch.Get().(*scratch)
+	if sc == nil || len(sc.index) != e.nvars {
+		sc = &scratch{index: make([]int, e.nvars), col: make([]int, e.nvars),
+			ground: make([]bool, e.nvars), seen: make([]bool, len(e.general))}
+	}
+	for i := range sc.index {
+		sc.index[i], sc.col[i] = -1, -1
+	}
+	clear(sc.ground)
+	clear(sc.seen)
+	return sc
 }
 
 // param is one variable of the target.
@@ -82,18 +107,20 @@ type solve struct {
 	q       Query
 	members []*entity
 	params  []param
-	index   map[int]int // variable → position in params
-	first   []int       // first[i]…first[i+1] are member i's params
+	index   []int // variable → position in params, −1 for none
+	first   []int // first[i]…first[i+1] are member i's params
 	free    [][][]float64
 	moves   [][]float64 // orthonormal basis of how free motions change the params
-	ground  map[int]bool
-	col     map[int]int // class → column of the dense rows below
+	ground  []bool      // class → held at zero by the datums
+	col     []int       // class → column of the dense rows below, −1 for none
+	ncol    int         // columns given so far
+	seen    []bool      // general row → reached by fixed
 	basis   [][]float64 // orthonormal rows (over columns) fixed so far; shorter ones end in zeros
 	hubs    []*entity   // axis datum features, for circles and clocking
 }
 
-func (e *Engine) newSolve(q Query) *solve {
-	s := &solve{e: e, q: q, index: map[int]int{}, ground: map[int]bool{}}
+func (e *Engine) newSolve(q Query, sc *scratch) *solve {
+	s := &solve{e: e, q: q, index: sc.index, ground: sc.ground, col: sc.col, seen: sc.seen}
 	if !q.Target.Resolved() || len(q.Free) != len(q.Refs) {
 		return nil
 	}
@@ -101,6 +128,9 @@ func (e *Engine) newSolve(q Query) *solve {
 	if q.Target.Member != nil {
 		ms = []*model.Member{q.Target.Member}
 	}
+	s.first = make([]int, 0, len(ms)+1)
+	s.members = make([]*entity, 0, len(ms))
+	s.params = make([]param, 0, 5*len(ms))
 	for i, m := range ms {
 		x := e.byMem[m]
 		if x == nil {
@@ -137,8 +167,9 @@ func (e *Engine) newSolve(q Query) *solve {
 			}
 		}
 	}
+	s.free = make([][][]float64, 0, len(q.Free))
 	for _, fk := range q.Free {
-		var rows [][]float64
+		rows := make([][]float64, 0, len(fk))
 		for _, t := range fk {
 			rows = append(rows, s.motion(t))
 		}
@@ -201,10 +232,11 @@ func (s *solve) reduce(r row) []float64 {
 		if s.ground[c] {
 			continue
 		}
-		k, ok := s.col[c]
-		if !ok {
-			k = len(s.col)
+		k := s.col[c]
+		if k < 0 {
+			k = s.ncol
 			s.col[c] = k
+			s.ncol++
 		}
 		for len(out) <= k {
 			out = append(out, 0)
@@ -217,13 +249,12 @@ func (s *solve) reduce(r row) []float64 {
 // fixed builds an orthonormal basis of the relations that bear on the
 // target: the general rows reachable from its classes.
 func (s *solve) fixed() {
-	s.col = map[int]int{}
-	seenRow := map[int]bool{}
 	var queue []int
 	for _, p := range s.params {
 		c := s.e.class[p.v]
-		if _, seen := s.col[c]; !s.ground[c] && !seen {
-			s.col[c] = len(s.col)
+		if !s.ground[c] && s.col[c] < 0 {
+			s.col[c] = s.ncol
+			s.ncol++
 			queue = append(queue, c)
 		}
 	}
@@ -232,11 +263,11 @@ func (s *solve) fixed() {
 		c := queue[0]
 		queue = queue[1:]
 		for _, ri := range s.e.rowsOf[c] {
-			if seenRow[ri] {
+			if s.seen[ri] {
 				continue
 			}
-			seenRow[ri] = true
-			before := len(s.col)
+			s.seen[ri] = true
+			before := s.ncol
 			rows = append(rows, s.reduce(s.e.general[ri]))
 			for _, cl := range s.e.general[ri] {
 				if c2 := s.e.class[cl.v]; !s.ground[c2] && s.col[c2] >= before {
@@ -245,7 +276,7 @@ func (s *solve) fixed() {
 			}
 		}
 	}
-	s.basis = orthDense(rows, len(s.col))
+	s.basis = orthDense(rows, s.ncol)
 }
 
 // undetermined returns the part of a row that the relations found so far
@@ -355,7 +386,7 @@ func (s *solve) toRow(c sv) row {
 func (s *solve) fromRow(r row) (sv, bool) {
 	var c sv
 	for _, t := range r {
-		if i, ok := s.index[t.v]; ok {
+		if i := s.index[t.v]; i >= 0 {
 			c = append(c, term{i, t.c})
 		} else if !s.ground[s.e.class[t.v]] {
 			return nil, false
@@ -485,9 +516,10 @@ func (s *solve) spacings() []Missing {
 	for mi := 1; mi < len(s.members); mi++ {
 		x := s.members[mi]
 		nearIdx := 0
+		nearDist := s.members[0].p.Sub(x.p).Norm()
 		for j := max(0, mi-nearWindow); j < mi; j++ {
-			if s.members[j].p.Sub(x.p).Norm() < s.members[nearIdx].p.Sub(x.p).Norm()-s.e.tol {
-				nearIdx = j
+			if d := s.members[j].p.Sub(x.p).Norm(); d < nearDist-s.e.tol {
+				nearIdx, nearDist = j, d
 			}
 		}
 		near := s.members[nearIdx]

@@ -3,6 +3,7 @@ package basics
 import (
 	"math"
 	"sort"
+	"sync"
 
 	"github.com/datumlint/datumlint/grammar/model"
 )
@@ -32,10 +33,13 @@ type Engine struct {
 	// over classes; rowsOf indexes them by class.
 	class   []int
 	general []row
-	rowsOf  map[int][]int
+	rowsOf  [][]int
 
 	// circles are the bolt circles written for each pattern.
 	circles map[*model.Feature][]*model.Dimension
+
+	// scratch keeps queries' index slices for the next query.
+	scratch sync.Pool
 }
 
 // Build collects the part's variables and relations: every basic
@@ -449,6 +453,12 @@ func (e *Engine) impliedAngles() []row {
 // eliminate merges the variables that rows of the form x − y = 0 make
 // equal (exact Gaussian elimination of those rows) and keeps the other rows,
 // rewritten over the classes, for the rank decisions.
+//
+// The rows are rewritten pass after pass until a pass merges nothing, as
+// they always were; but a row already rewritten whose variables are all
+// still their classes' own is left as it is (rewriting it again gives the
+// same terms, bit for bit), and a rewrite sums a row's few terms in place
+// of a map, in the order they come, so the sums are the ones the map made.
 func (e *Engine) eliminate(rows []row) {
 	parent := make([]int, e.nvars)
 	for i := range parent {
@@ -462,36 +472,61 @@ func (e *Engine) eliminate(rows []row) {
 		}
 		return i
 	}
+	// rewrite appends r over the classes to buf's end and returns it.
+	var buf []term
 	rewrite := func(r row) row {
-		acc := map[int]float64{}
-		var order []int
+		if cap(buf)-len(buf) < len(r) {
+			buf = make([]term, 0, max(256, 2*len(r)))
+		}
+		start := len(buf)
+		out := buf[start : start : start+len(r)]
 		for _, t := range r {
 			c := find(t.v)
-			if _, ok := acc[c]; !ok {
-				order = append(order, c)
+			k := 0
+			for k < len(out) && out[k].v != c {
+				k++
 			}
-			acc[c] += t.c
+			if k == len(out) {
+				out = append(out, term{c, 0})
+			}
+			out[k].c += t.c
 		}
 		big := 0.0
-		for _, c := range acc {
-			big = math.Max(big, math.Abs(c))
+		for _, t := range out {
+			big = math.Max(big, math.Abs(t.c))
 		}
-		var out row
-		for _, c := range order {
-			if math.Abs(acc[c]) > 1e-12*big {
-				out = append(out, term{c, acc[c]})
+		n := 0
+		for _, t := range out {
+			if math.Abs(t.c) > 1e-12*big {
+				out[n] = t
+				n++
 			}
 		}
+		out = out[:n:n]
+		buf = buf[:start+n]
 		return out
+	}
+	settled := func(r row) bool {
+		for _, t := range r {
+			if parent[t.v] != t.v {
+				return false
+			}
+		}
+		return true
 	}
 	equality := func(r row) bool {
 		return len(r) == 2 && math.Abs(r[0].c+r[1].c) <= 1e-12*math.Max(math.Abs(r[0].c), math.Abs(r[1].c))
 	}
 	pending := rows
-	for {
-		var rest []row
+	rest := make([]row, 0, len(rows))
+	for pass := 0; ; pass++ {
+		rest = rest[:0]
 		merged := false
 		for _, r := range pending {
+			if pass > 0 && settled(r) {
+				rest = append(rest, r)
+				continue
+			}
 			r = rewrite(r)
 			switch {
 			case len(r) == 0:
@@ -502,7 +537,7 @@ func (e *Engine) eliminate(rows []row) {
 				rest = append(rest, r)
 			}
 		}
-		pending = rest
+		pending, rest = rest, pending
 		if !merged {
 			break
 		}
@@ -511,15 +546,13 @@ func (e *Engine) eliminate(rows []row) {
 	for i := range e.class {
 		e.class[i] = find(i)
 	}
-	e.rowsOf = map[int][]int{}
-	for _, r := range pending {
-		r = rewrite(r)
-		if len(r) == 0 {
-			continue
-		}
-		e.general = append(e.general, r)
+	// The last pass merged nothing, so every row left is over classes
+	// already and rewriting it once more would change nothing.
+	e.rowsOf = make([][]int, e.nvars)
+	e.general = pending
+	for i, r := range pending {
 		for _, t := range r {
-			e.rowsOf[t.v] = append(e.rowsOf[t.v], len(e.general)-1)
+			e.rowsOf[t.v] = append(e.rowsOf[t.v], i)
 		}
 	}
 }
