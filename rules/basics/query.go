@@ -115,6 +115,7 @@ type solve struct {
 	col     []int       // class → column of the dense rows below, −1 for none
 	ncol    int         // columns given so far
 	seen    []bool      // general row → reached by fixed
+	cand    sv          // candidate buffer (unit)
 	basis   [][]float64 // orthonormal rows (over columns) fixed so far; shorter ones end in zeros
 	hubs    []*entity   // axis datum features, for circles and clocking
 }
@@ -167,14 +168,10 @@ func (e *Engine) newSolve(q Query, sc *scratch) *solve {
 			}
 		}
 	}
-	s.free = make([][][]float64, 0, len(q.Free))
-	for _, fk := range q.Free {
-		rows := make([][]float64, 0, len(fk))
-		for _, t := range fk {
-			rows = append(rows, s.motion(t))
-		}
-		s.free = append(s.free, rows)
-	}
+	// Only the last reference's motions are needed for every query; the
+	// others only to say which reference fixes a missing quantity
+	// (fixedBy), so they are worked out when it is first asked.
+	s.free = make([][][]float64, len(q.Free))
 	last := [][]float64(nil)
 	if len(s.free) == 0 {
 		for i := 0; i < 6; i++ {
@@ -187,7 +184,7 @@ func (e *Engine) newSolve(q Query, sc *scratch) *solve {
 			last = append(last, s.motion(t))
 		}
 	} else {
-		last = s.free[len(s.free)-1]
+		last = s.freeRows(len(s.free) - 1)
 	}
 	// What the frame needs is everything no free motion changes: the
 	// orthogonal complement of the motions' rows.
@@ -351,10 +348,24 @@ func (s *solve) needed(c sv) bool {
 	return math.Sqrt(moved) <= rankTol*n
 }
 
+// freeRows returns how the motions left free after reference k change the
+// target's variables, worked out on first use.
+func (s *solve) freeRows(k int) [][]float64 {
+	if s.free[k] == nil {
+		rows := make([][]float64, 0, len(s.q.Free[k]))
+		for _, t := range s.q.Free[k] {
+			rows = append(rows, s.motion(t))
+		}
+		s.free[k] = rows
+	}
+	return s.free[k]
+}
+
 // fixedBy returns the first reference after which no free motion changes c.
 func (s *solve) fixedBy(c sv) int {
 	n := c.norm()
-	for k, rows := range s.free {
+	for k := range s.free {
+		rows := s.freeRows(k)
 		ok := true
 		for _, r := range rows {
 			rn := math.Sqrt(dot(r, r))
@@ -411,6 +422,13 @@ func (s *solve) try(c sv) bool {
 
 func unit(p int) sv { return sv{{p, 1}} }
 
+// unit is unit(p) in the solve's candidate buffer, for a candidate that
+// is read and dropped (try and fixedBy keep nothing of it).
+func (s *solve) unit(p int) sv {
+	s.cand = append(s.cand[:0], term{p, 1})
+	return s.cand
+}
+
 func (s *solve) run() []Missing {
 	var out []Missing
 	pattern := len(s.members) > 1
@@ -430,7 +448,7 @@ func (s *solve) run() []Missing {
 		}
 		for i := s.first[mi]; i < s.first[mi+1]; i++ {
 			p := s.params[i]
-			c := unit(i)
+			c := s.unit(i)
 			if !s.try(c) {
 				continue
 			}
@@ -454,16 +472,10 @@ func (s *solve) rest() []Missing {
 	if len(s.moves) == 0 {
 		return nil // everything is needed: the single variables said it all
 	}
-	images := make([][]float64, len(s.moves))
-	for k, m := range s.moves {
-		var c sv
-		for i, v := range m {
-			if v != 0 {
-				c = append(c, term{i, v})
-			}
-		}
-		images[k] = s.reduce(s.toRow(c))
-	}
+	// The moves' images are worked out when a variable first needs them
+	// (on a clean part, none does); nothing between here and there gives a
+	// class a column, so they get the columns they always got.
+	var images [][]float64
 	var out []Missing
 	for i, p := range s.params {
 		moved := 0.0
@@ -472,6 +484,18 @@ func (s *solve) rest() []Missing {
 		}
 		if moved <= rankTol*rankTol || moved >= 1-rankTol {
 			continue // needed whole (tried above), or not needed at all
+		}
+		if images == nil {
+			images = make([][]float64, len(s.moves))
+			for k, m := range s.moves {
+				var c sv
+				for i, v := range m {
+					if v != 0 {
+						c = append(c, term{i, v})
+					}
+				}
+				images[k] = s.reduce(s.toRow(c))
+			}
 		}
 		w := s.reduce(row{{p.v, 1}})
 		for k, m := range s.moves {
@@ -526,7 +550,7 @@ func (s *solve) spacings() []Missing {
 		out = append(out, s.relativeClocking(x, near)...)
 		for i := s.first[mi]; i < s.first[mi+1]; i++ {
 			p := s.params[i]
-			c := unit(i)
+			c := s.unit(i)
 			// the same variable of the nearer member, in its own basis
 			for j := s.first[nearIdx]; j < s.first[nearIdx+1]; j++ {
 				if o := s.params[j]; o.rot == p.rot {
@@ -535,6 +559,7 @@ func (s *solve) spacings() []Missing {
 					}
 				}
 			}
+			s.cand = c
 			if !s.try(c) {
 				continue
 			}
@@ -555,9 +580,12 @@ func (s *solve) spacings() []Missing {
 func (s *solve) relativeClocking(x, near *entity) []Missing {
 	var out []Missing
 	for _, hub := range s.hubs {
+		if x.shape != axisShape || !parallel(x.d, hub.d) {
+			continue
+		}
 		rx, okx := s.e.clock(x, hub)
 		rn, okn := s.e.clock(near, hub)
-		if !okx || !okn || x.shape != axisShape || !parallel(x.d, hub.d) {
+		if !okx || !okn {
 			continue
 		}
 		c, fine := s.fromRow(diff(rx, rn))

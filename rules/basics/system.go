@@ -2,6 +2,7 @@ package basics
 
 import (
 	"math"
+	"slices"
 	"sort"
 	"sync"
 
@@ -109,7 +110,7 @@ func (e *Engine) entityOf(t *model.Target) *entity {
 // plane's own direction, an axis's own direction).
 func (e *Engine) shift(x *entity, u Vec) (row, bool) {
 	u = u.Unit()
-	var out row
+	out := make(row, 0, len(x.tb))
 	switch x.shape {
 	case planeShape:
 		nu := x.d.Dot(u)
@@ -136,7 +137,7 @@ func (e *Engine) shift(x *entity, u Vec) (row, bool) {
 
 // turn is the variation of an entity's direction as a rotation about r.
 func turn(x *entity, r Vec) row {
-	var out row
+	out := make(row, 0, len(x.rb))
 	for k, b := range x.rb {
 		out = append(out, term{x.r0 + k, r.Dot(b)})
 	}
@@ -154,7 +155,7 @@ func (e *Engine) clock(x, hub *entity) (row, bool) {
 	}
 	t := hub.d.Cross(w).Unit()
 	k := e.L / r
-	var out row
+	out := make(row, 0, len(x.tb)+len(hub.tb))
 	for i, b := range x.tb {
 		out = append(out, term{x.t0 + i, k * t.Dot(b)})
 	}
@@ -174,7 +175,8 @@ func planeClock(x, hub *entity) (row, bool) {
 }
 
 func diff(a, b row) row {
-	out := append(row(nil), a...)
+	out := make(row, len(a), len(a)+len(b))
+	copy(out, a)
 	for _, t := range b {
 		out = append(out, term{t.v, -t.c})
 	}
@@ -384,7 +386,14 @@ func (e *Engine) impliedZeros() []row {
 				list = append(list, at{u.Dot(x.p), x})
 			}
 		}
-		sort.SliceStable(list, func(i, j int) bool { return list[i].s < list[j].s })
+		// The same stable merge sort as sort.SliceStable, asked the same
+		// question (a before b exactly when a.s < b.s), so the same order.
+		slices.SortStableFunc(list, func(a, b at) int {
+			if a.s < b.s {
+				return -1
+			}
+			return 0
+		})
 		// Faces line up with faces (coplanar surfaces); axes, centres and
 		// mid-planes with each other. A face through a hole's axis is no
 		// centre line, so the two kinds are chained apart.
