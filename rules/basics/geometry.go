@@ -62,6 +62,10 @@ func (e *entity) name() string { return Name(e.m) }
 
 var axes = [3]Vec{{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}
 
+// axisPerp[i] is perp(axes[i]), shared: nothing writes to the directions
+// of an entity's variables.
+var axisPerp = [3][2]Vec{{axes[1], axes[2]}, {axes[2], axes[0]}, {axes[0], axes[1]}}
+
 // snap returns the coordinate axis d is within alignTol of (keeping its
 // sign), or d normalised. Aligned geometry then gives exact rows.
 func snap(d Vec) Vec {
@@ -96,7 +100,7 @@ func canonical(d Vec) Vec {
 func perp(d Vec) []Vec {
 	for i, a := range axes {
 		if math.Abs(d.Dot(a)) == 1 {
-			return []Vec{axes[(i+1)%3], axes[(i+2)%3]}
+			return axisPerp[i][:]
 		}
 	}
 	k := 0
@@ -109,7 +113,20 @@ func perp(d Vec) []Vec {
 	return []Vec{t1, d.Cross(t1).Unit()}
 }
 
-func parallel(a, b Vec) bool      { return a.Cross(b).Norm() <= alignTol }
+// parallel is |a × b| ≤ alignTol. The square root is taken only near the
+// bound, where comparing squares could round the other way.
+func parallel(a, b Vec) bool {
+	c := a.Cross(b)
+	n2 := c.Dot(c)
+	switch {
+	case n2 <= alignTol*alignTol*(1-1e-9):
+		return true
+	case n2 > alignTol*alignTol*(1+1e-9):
+		return false
+	}
+	return c.Norm() <= alignTol
+}
+
 func perpendicular(a, b Vec) bool { return math.Abs(a.Dot(b)) <= alignTol }
 
 // newEntity gives a member its variables' directions, or nil when its

@@ -39,6 +39,10 @@ type Engine struct {
 	// circles are the bolt circles written for each pattern.
 	circles map[*model.Feature][]*model.Dimension
 
+	// built and arena hold the relations while the engine is built.
+	built []row
+	arena []term
+
 	// scratch keeps queries' index slices for the next query.
 	scratch sync.Pool
 }
@@ -66,26 +70,71 @@ func Build(p *model.Part, counted []*model.Dimension) *Engine {
 			e.byMem[m] = en
 		}
 	}
-	var rows []row
 	for _, d := range p.Dims {
 		if d.Circle != nil && d.Circle.Pattern.Resolved() {
 			e.circles[d.Circle.Pattern.Feature] = append(e.circles[d.Circle.Pattern.Feature], d)
 		}
 	}
+	e.built = make([]row, 0, 2*len(p.Dims)+4*len(e.ents))
 	for _, d := range p.Dims {
 		if d.Basic {
-			rows = append(rows, e.dimRows(d)...)
+			e.dimRows(d)
 		}
 	}
 	for _, d := range counted {
 		if !d.Basic {
-			rows = append(rows, e.dimRows(d)...)
+			e.dimRows(d)
 		}
 	}
-	rows = append(rows, e.impliedZeros()...)
-	rows = append(rows, e.impliedAngles()...)
-	e.eliminate(rows)
+	e.impliedZeros()
+	e.impliedAngles()
+	e.eliminate(e.built)
+	e.built, e.arena = nil, nil
 	return e
+}
+
+// While the engine is built, its relations go to built, in the order they
+// are found, and most of their terms to arena, a few rows to an allocation.
+
+// open returns an empty row with room for n terms at the arena's end.
+func (e *Engine) open(n int) row {
+	if cap(e.arena)-len(e.arena) < n {
+		e.arena = make([]term, 0, max(512, n))
+	}
+	l := len(e.arena)
+	return e.arena[l : l : l+n]
+}
+
+// keep adds r, filled within the room open gave it, to the relations.
+func (e *Engine) keep(r row) {
+	e.arena = e.arena[:len(e.arena)+len(r)]
+	e.built = append(e.built, r[:len(r):len(r)])
+}
+
+// keepShiftDiff adds diff(shift(b, u), shift(a, u)) when both are defined.
+func (e *Engine) keepShiftDiff(a, b *entity, u Vec) {
+	var tmp [3]term
+	ra, oka := e.shiftTo(tmp[:0], a, u)
+	if !oka {
+		return
+	}
+	r, okb := e.shiftTo(e.open(len(b.tb)+len(ra)), b, u)
+	if !okb {
+		return
+	}
+	for _, t := range ra {
+		r = append(r, term{t.v, -t.c})
+	}
+	e.keep(r)
+}
+
+// keepTurnDiff adds diff(turn(b, r), turn(a, r)).
+func (e *Engine) keepTurnDiff(a, b *entity, rot Vec) {
+	r := turnTo(e.open(len(a.rb)+len(b.rb)), b, rot)
+	for k, v := range a.rb {
+		r = append(r, term{a.r0 + k, -rot.Dot(v)})
+	}
+	e.keep(r)
 }
 
 // entityOf returns the entity a dimension's name stands for: a member, or
@@ -109,8 +158,12 @@ func (e *Engine) entityOf(t *model.Target) *entity {
 // component along u. ok is false where u does not meet the geometry (a
 // plane's own direction, an axis's own direction).
 func (e *Engine) shift(x *entity, u Vec) (row, bool) {
+	return e.shiftTo(make(row, 0, len(x.tb)), x, u)
+}
+
+// shiftTo appends shift(x, u) to out.
+func (e *Engine) shiftTo(out row, x *entity, u Vec) (row, bool) {
 	u = u.Unit()
-	out := make(row, 0, len(x.tb))
 	switch x.shape {
 	case planeShape:
 		nu := x.d.Dot(u)
@@ -137,7 +190,11 @@ func (e *Engine) shift(x *entity, u Vec) (row, bool) {
 
 // turn is the variation of an entity's direction as a rotation about r.
 func turn(x *entity, r Vec) row {
-	out := make(row, 0, len(x.rb))
+	return turnTo(make(row, 0, len(x.rb)), x, r)
+}
+
+// turnTo appends turn(x, r) to out.
+func turnTo(out row, x *entity, r Vec) row {
 	for k, b := range x.rb {
 		out = append(out, term{x.r0 + k, r.Dot(b)})
 	}
@@ -183,31 +240,34 @@ func diff(a, b row) row {
 	return out
 }
 
-// dimRows turns a written dimension into relations.
-func (e *Engine) dimRows(d *model.Dimension) []row {
+// dimRows turns a written dimension into relations (added to built).
+func (e *Engine) dimRows(d *model.Dimension) {
 	if d.Circle != nil {
-		return e.circleRows(d.Circle)
+		e.built = append(e.built, e.circleRows(d.Circle)...)
+		return
 	}
 	a, b := e.entityOf(&d.From), e.entityOf(&d.To)
 	if a == nil || b == nil || a == b {
-		return nil
+		return
 	}
 	if d.Angle {
 		if d.About != nil {
 			hub := e.entityOf(d.About)
 			if hub == nil || len(hub.rb) == 0 || hub.shape == planeShape {
-				return nil
+				return
 			}
 			ta, oka := e.aboutTerm(a, hub)
 			tb, okb := e.aboutTerm(b, hub)
 			if !oka || !okb {
-				return nil
+				return
 			}
-			return []row{diff(tb, ta)}
+			e.built = append(e.built, diff(tb, ta))
+			return
 		}
-		return angleRows(a, b)
+		e.angleRows(a, b)
+		return
 	}
-	return e.linearRows(a, b, d.Along)
+	e.linearRows(a, b, d.Along)
 }
 
 func (e *Engine) aboutTerm(x, hub *entity) (row, bool) {
@@ -223,49 +283,45 @@ func (e *Engine) aboutTerm(x, hub *entity) (row, bool) {
 // angleRows relates two directions: parallel ones in both rotations across
 // them, others in the rotation about their common normal (the only one
 // that changes the angle between them to first order).
-func angleRows(a, b *entity) []row {
+func (e *Engine) angleRows(a, b *entity) {
 	if len(a.rb) == 0 || len(b.rb) == 0 {
-		return nil
+		return
 	}
 	if parallel(a.d, b.d) {
-		var out []row
 		for _, r := range a.rb {
-			out = append(out, diff(turn(b, r), turn(a, r)))
+			e.keepTurnDiff(a, b, r)
 		}
-		return out
+		return
 	}
 	m := a.d.Cross(b.d).Unit()
-	return []row{diff(turn(b, m), turn(a, m))}
+	e.keepTurnDiff(a, b, m)
 }
 
 // linearRows relates two places along the dimension's direction; a zero
 // distance fixes every direction the two share.
-func (e *Engine) linearRows(a, b *entity, along *Vec) []row {
+func (e *Engine) linearRows(a, b *entity, along *Vec) {
+	var one [1]Vec
 	var dirs []Vec
 	if along != nil {
-		dirs = []Vec{*along}
+		one[0] = *along
+		dirs = one[:]
 	} else {
 		u, zero, ok := measureDir(a, b, e.tol)
 		switch {
 		case !ok:
-			return nil
+			return
 		case !zero:
-			dirs = []Vec{u}
+			one[0] = u
+			dirs = one[:]
 		case a.shape == pointShape:
 			dirs = b.tb
 		default:
 			dirs = a.tb
 		}
 	}
-	var out []row
 	for _, u := range dirs {
-		ra, oka := e.shift(a, u)
-		rb, okb := e.shift(b, u)
-		if oka && okb {
-			out = append(out, diff(rb, ra))
-		}
+		e.keepShiftDiff(a, b, u)
 	}
-	return out
 }
 
 // circleRows: the basic diameter fixes each member's distance from the
@@ -346,7 +402,7 @@ func equallySpaced(angles []float64) bool {
 // every direction that occurs in the part, the entities that can move along
 // it are sorted by their coordinate, and neighbours within tolerance are
 // related.
-func (e *Engine) impliedZeros() []row {
+func (e *Engine) impliedZeros() {
 	var dirs []Vec
 	add := func(d Vec) {
 		if d.Norm() == 0 {
@@ -374,7 +430,6 @@ func (e *Engine) impliedZeros() []row {
 		s float64
 		x *entity
 	}
-	var out []row
 	list := make([]at, 0, len(e.ents))
 	for _, u := range dirs {
 		list = list[:0]
@@ -404,17 +459,12 @@ func (e *Engine) impliedZeros() []row {
 					continue
 				}
 				if prev != nil && list[i].s-prev.s <= e.tol {
-					ra, oka := e.shift(prev.x, u)
-					rb, okb := e.shift(list[i].x, u)
-					if oka && okb {
-						out = append(out, diff(rb, ra))
-					}
+					e.keepShiftDiff(prev.x, list[i].x, u)
 				}
 				prev = &list[i]
 			}
 		}
 	}
-	return out
 }
 
 // isFace reports whether an entity is a planar surface rather than a
@@ -425,13 +475,12 @@ func isFace(x *entity) bool { return x.m.Feature.Kind == model.Plane }
 // Y14.5-2018, implied 90 degree and 0 degree basic angles). Directions are
 // grouped by line; members of a group are related to their neighbour, and
 // groups at right angles through one representative each.
-func (e *Engine) impliedAngles() []row {
+func (e *Engine) impliedAngles() {
 	type group struct {
 		d   Vec
 		rep *entity
 	}
 	var groups []*group
-	var out []row
 	for _, x := range e.ents {
 		if len(x.rb) == 0 {
 			continue
@@ -447,16 +496,15 @@ func (e *Engine) impliedAngles() []row {
 			groups = append(groups, &group{d: x.d, rep: x})
 			continue
 		}
-		out = append(out, angleRows(g.rep, x)...)
+		e.angleRows(g.rep, x)
 	}
 	for i, g := range groups {
 		for _, h := range groups[i+1:] {
 			if perpendicular(g.d, h.d) {
-				out = append(out, angleRows(g.rep, h.rep)...)
+				e.angleRows(g.rep, h.rep)
 			}
 		}
 	}
-	return out
 }
 
 // eliminate merges the variables that rows of the form x − y = 0 make
