@@ -131,14 +131,21 @@ func (e *Engine) newSolve(q Query, sc *scratch) *solve {
 	}
 	s.first = make([]int, 0, len(ms)+1)
 	s.members = make([]*entity, 0, len(ms))
-	s.params = make([]param, 0, 5*len(ms))
-	for i, m := range ms {
+	n := 0
+	for _, m := range ms {
 		x := e.byMem[m]
 		if x == nil {
 			return nil
 		}
-		s.first = append(s.first, len(s.params))
 		s.members = append(s.members, x)
+		if !q.Orientation {
+			n += len(x.tb)
+		}
+		n += len(x.rb)
+	}
+	s.params = make([]param, 0, n)
+	for i, x := range s.members {
+		s.first = append(s.first, len(s.params))
 		if !q.Orientation {
 			for k, b := range x.tb {
 				s.index[x.t0+k] = len(s.params)
@@ -259,7 +266,7 @@ func (s *solve) fixed() {
 	for len(queue) > 0 {
 		c := queue[0]
 		queue = queue[1:]
-		for _, ri := range s.e.rowsOf[c] {
+		for _, ri := range s.e.rowsOf(c) {
 			if s.seen[ri] {
 				continue
 			}

@@ -31,10 +31,12 @@ type Engine struct {
 
 	// class maps a variable to its class: variables that written or implied
 	// dimensions make equal share one. general holds the remaining rows,
-	// over classes; rowsOf indexes them by class.
-	class   []int
-	general []row
-	rowsOf  [][]int
+	// over classes; rowsOf indexes them by class (rowList[rowStart[c]:
+	// rowStart[c+1]] are class c's, in order).
+	class    []int
+	general  []row
+	rowStart []int32
+	rowList  []int32
 
 	// circles are the bolt circles written for each pattern.
 	circles map[*model.Feature][]*model.Dimension
@@ -114,11 +116,12 @@ func (e *Engine) keep(r row) {
 // keepShiftDiff adds diff(shift(b, u), shift(a, u)) when both are defined.
 func (e *Engine) keepShiftDiff(a, b *entity, u Vec) {
 	var tmp [3]term
-	ra, oka := e.shiftTo(tmp[:0], a, u)
+	u = u.Unit()
+	ra, oka := e.shiftUnitTo(tmp[:0], a, u)
 	if !oka {
 		return
 	}
-	r, okb := e.shiftTo(e.open(len(b.tb)+len(ra)), b, u)
+	r, okb := e.shiftUnitTo(e.open(len(b.tb)+len(ra)), b, u)
 	if !okb {
 		return
 	}
@@ -136,6 +139,9 @@ func (e *Engine) keepTurnDiff(a, b *entity, rot Vec) {
 	}
 	e.keep(r)
 }
+
+// rowsOf returns the general rows a class appears in, in order.
+func (e *Engine) rowsOf(c int) []int32 { return e.rowList[e.rowStart[c]:e.rowStart[c+1]] }
 
 // entityOf returns the entity a dimension's name stands for: a member, or
 // a single feature. A whole pattern stands for no one place.
@@ -163,7 +169,11 @@ func (e *Engine) shift(x *entity, u Vec) (row, bool) {
 
 // shiftTo appends shift(x, u) to out.
 func (e *Engine) shiftTo(out row, x *entity, u Vec) (row, bool) {
-	u = u.Unit()
+	return e.shiftUnitTo(out, x, u.Unit())
+}
+
+// shiftUnitTo is shiftTo for u already made a unit vector by Unit.
+func (e *Engine) shiftUnitTo(out row, x *entity, u Vec) (row, bool) {
 	switch x.shape {
 	case planeShape:
 		nu := x.d.Dot(u)
@@ -408,12 +418,21 @@ func (e *Engine) impliedZeros() {
 		if d.Norm() == 0 {
 			return
 		}
+		// A direction already there as it is, or reversed, is parallel
+		// to it (their cross product is exactly zero): the usual case,
+		// found without the products.
+		cd := canonical(d)
+		for _, x := range dirs {
+			if x == cd {
+				return
+			}
+		}
 		for _, x := range dirs {
 			if parallel(x, d) {
 				return
 			}
 		}
-		dirs = append(dirs, canonical(d))
+		dirs = append(dirs, cd)
 	}
 	for _, a := range axes {
 		add(a)
@@ -452,6 +471,11 @@ func (e *Engine) impliedZeros() {
 		// Faces line up with faces (coplanar surfaces); axes, centres and
 		// mid-planes with each other. A face through a hole's axis is no
 		// centre line, so the two kinds are chained apart.
+		uu := u.Unit()
+		var pbuf [3]term
+		var prow row
+		var pok bool
+		var pfor *entity // the entity prow is the shift of
 		for _, faces := range []bool{false, true} {
 			var prev *at
 			for i := range list {
@@ -459,7 +483,25 @@ func (e *Engine) impliedZeros() {
 					continue
 				}
 				if prev != nil && list[i].s-prev.s <= e.tol {
-					e.keepShiftDiff(prev.x, list[i].x, u)
+					// diff(shift(x, u), shift(prev, u)), with prev's shift
+					// kept from when it was the x of the link before.
+					if pfor != prev.x {
+						prow, pok = e.shiftUnitTo(pbuf[:0], prev.x, uu)
+						pfor = prev.x
+					}
+					if pok {
+						var cbuf [3]term
+						crow, cok := e.shiftUnitTo(cbuf[:0], list[i].x, uu)
+						if cok {
+							r := append(e.open(len(crow)+len(prow)), crow...)
+							for _, t := range prow {
+								r = append(r, term{t.v, -t.c})
+							}
+							e.keep(r)
+						}
+						pbuf, pok, pfor = cbuf, cok, list[i].x
+						prow = pbuf[:len(crow)]
+					}
 				}
 				prev = &list[i]
 			}
@@ -574,14 +616,15 @@ func (e *Engine) eliminate(rows []row) {
 	equality := func(r row) bool {
 		return len(r) == 2 && math.Abs(r[0].c+r[1].c) <= 1e-12*math.Max(math.Abs(r[0].c), math.Abs(r[1].c))
 	}
+	// The rows kept by a pass are written over the ones it has read.
 	pending := rows
-	rest := make([]row, 0, len(rows))
 	for pass := 0; ; pass++ {
-		rest = rest[:0]
+		n := 0
 		merged := false
 		for _, r := range pending {
 			if pass > 0 && settled(r) {
-				rest = append(rest, r)
+				pending[n] = r
+				n++
 				continue
 			}
 			r = rewrite(r)
@@ -591,10 +634,11 @@ func (e *Engine) eliminate(rows []row) {
 				parent[find(r[0].v)] = find(r[1].v)
 				merged = true
 			default:
-				rest = append(rest, r)
+				pending[n] = r
+				n++
 			}
 		}
-		pending, rest = rest, pending
+		pending = pending[:n]
 		if !merged {
 			break
 		}
@@ -605,11 +649,22 @@ func (e *Engine) eliminate(rows []row) {
 	}
 	// The last pass merged nothing, so every row left is over classes
 	// already and rewriting it once more would change nothing.
-	e.rowsOf = make([][]int, e.nvars)
 	e.general = pending
+	e.rowStart = make([]int32, e.nvars+1)
+	for _, r := range pending {
+		for _, t := range r {
+			e.rowStart[t.v+1]++
+		}
+	}
+	for i := 1; i <= e.nvars; i++ {
+		e.rowStart[i] += e.rowStart[i-1]
+	}
+	e.rowList = make([]int32, e.rowStart[e.nvars])
+	fill := append([]int32(nil), e.rowStart[:e.nvars]...)
 	for i, r := range pending {
 		for _, t := range r {
-			e.rowsOf[t.v] = append(e.rowsOf[t.v], i)
+			e.rowList[fill[t.v]] = int32(i)
+			fill[t.v]++
 		}
 	}
 }
