@@ -151,7 +151,8 @@ func newEntity(m *model.Member) *entity {
 		if !hasDir {
 			return nil
 		}
-		e.shape, e.tb, e.rb = axisShape, perp(e.d), perp(e.d)
+		across := perp(e.d) // read only, so one slice serves both
+		e.shape, e.tb, e.rb = axisShape, across, across
 	case model.Cone:
 		if !hasDir {
 			return nil

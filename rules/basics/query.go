@@ -544,15 +544,10 @@ const nearWindow = 32
 // spacings asks for each member relative to its nearest earlier member.
 func (s *solve) spacings() []Missing {
 	var out []Missing
+	nears := s.e.nearest(s.members)
 	for mi := 1; mi < len(s.members); mi++ {
 		x := s.members[mi]
-		nearIdx := 0
-		nearDist := s.members[0].p.Sub(x.p).Norm()
-		for j := max(0, mi-nearWindow); j < mi; j++ {
-			if d := s.members[j].p.Sub(x.p).Norm(); d < nearDist-s.e.tol {
-				nearIdx, nearDist = j, d
-			}
-		}
+		nearIdx := nears[mi]
 		near := s.members[nearIdx]
 		out = append(out, s.relativeClocking(x, near)...)
 		for i := s.first[mi]; i < s.first[mi+1]; i++ {
@@ -578,6 +573,37 @@ func (s *solve) spacings() []Missing {
 			out = append(out, m)
 		}
 	}
+	return out
+}
+
+// nearest returns, for each member of a pattern after the first, the
+// index of its nearest earlier member within nearWindow (the first of
+// those within the tolerance of the nearest). It depends only on the
+// pattern, so each engine works it out once per pattern, however many
+// frames and segments ask.
+func (e *Engine) nearest(members []*entity) []int {
+	f := members[0].m.Feature
+	e.nearMu.Lock()
+	defer e.nearMu.Unlock()
+	if n, ok := e.near[f]; ok && len(n) == len(members) {
+		return n
+	}
+	out := make([]int, len(members))
+	for mi := 1; mi < len(members); mi++ {
+		x := members[mi]
+		nearIdx := 0
+		nearDist := members[0].p.Sub(x.p).Norm()
+		for j := max(0, mi-nearWindow); j < mi; j++ {
+			if d := members[j].p.Sub(x.p).Norm(); d < nearDist-e.tol {
+				nearIdx, nearDist = j, d
+			}
+		}
+		out[mi] = nearIdx
+	}
+	if e.near == nil {
+		e.near = map[*model.Feature][]int{}
+	}
+	e.near[f] = out
 	return out
 }
 

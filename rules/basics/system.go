@@ -45,6 +45,10 @@ type Engine struct {
 	built []row
 	arena []term
 
+	// near memoises nearest (a pattern's members' nearest earlier ones).
+	nearMu sync.Mutex
+	near   map[*model.Feature][]int
+
 	// scratch keeps queries' index slices for the next query.
 	scratch sync.Pool
 }
