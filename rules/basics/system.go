@@ -48,9 +48,6 @@ type Engine struct {
 	// near memoises nearest (a pattern's members' nearest earlier ones).
 	nearMu sync.Mutex
 	near   map[*model.Feature][]int
-
-	// scratch keeps queries' index slices for the next query.
-	scratch sync.Pool
 }
 
 // Build collects the part's variables and relations: every basic
