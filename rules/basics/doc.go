@@ -52,4 +52,16 @@
 // segment whose datums leave translations free, only the members relative to
 // each other and their orientation to those datums (ASME Y14.5-2018,
 // composite position tolerancing). Angularity needs only orientation.
+//
+// # Cost
+//
+// A check builds one engine per file and asks it once per frame segment,
+// so both are kept lean without changing a single floating-point
+// operation that reaches an answer: relations are built in one arena and
+// rewritten over the classes without maps, rows already over classes are
+// not rewritten again, queries index by pooled slices, and what only a
+// missing quantity needs (earlier references' motions, the moves' images)
+// is worked out when one is found. The engine as it was before these
+// changes is kept in rules/lint/internal/basicsref, which holds this one
+// to it bit for bit on the repository's test data and on generated plates.
 package basics
