@@ -144,37 +144,13 @@ func (e *Engine) newSolve(q Query, sc *scratch) *solve {
 	if q.Target.Member != nil {
 		ms = []*model.Member{q.Target.Member}
 	}
-	s.first = make([]int, 0, len(ms)+1)
-	s.members = make([]*entity, 0, len(ms))
-	n := 0
-	for _, m := range ms {
-		x := e.byMem[m]
-		if x == nil {
-			return nil
-		}
-		s.members = append(s.members, x)
-		if !q.Orientation {
-			n += len(x.tb)
-		}
-		n += len(x.rb)
-	}
-	s.params = make([]param, 0, n)
-	for i, x := range s.members {
-		s.first = append(s.first, len(s.params))
-		if !q.Orientation {
-			for k, b := range x.tb {
-				s.index[x.t0+k] = len(s.params)
-				s.params = append(s.params, param{x: x, mi: i, v: x.t0 + k, dir: b})
-			}
-		}
-		for k, b := range x.rb {
-			s.index[x.r0+k] = len(s.params)
-			s.params = append(s.params, param{x: x, mi: i, v: x.r0 + k, rot: true, dir: b})
-		}
-	}
-	s.first = append(s.first, len(s.params))
-	if len(s.params) == 0 {
+	tv := e.targetVars(q.Target.Feature, q.Target.Member, ms, q.Orientation)
+	if tv == nil {
 		return nil
+	}
+	s.members, s.params, s.first = tv.members, tv.params, tv.first
+	for i, p := range s.params {
+		s.index[p.v] = i
 	}
 	for _, ref := range q.Refs {
 		for _, m := range ref {
@@ -216,6 +192,72 @@ func (e *Engine) newSolve(q Query, sc *scratch) *solve {
 	}
 	s.fixed()
 	return s
+}
+
+// targetVars are a target's members and variables, which depend only on
+// the target and on whether only orientation is asked; each engine works
+// them out once per target, and queries only read them.
+type targetVars struct {
+	members []*entity
+	params  []param
+	first   []int // first[i]…first[i+1] are member i's params
+}
+
+type targetKey struct {
+	f           *model.Feature
+	m           *model.Member
+	orientation bool
+}
+
+// targetVars returns the members and variables of the target whose
+// members are ms, or nil when one has unknown geometry or there are no
+// variables.
+func (e *Engine) targetVars(f *model.Feature, m *model.Member, ms []*model.Member, orientation bool) *targetVars {
+	key := targetKey{f, m, orientation}
+	e.memoMu.Lock()
+	defer e.memoMu.Unlock()
+	if tv, ok := e.targets[key]; ok {
+		return tv
+	}
+	tv := e.newTargetVars(ms, orientation)
+	if e.targets == nil {
+		e.targets = map[targetKey]*targetVars{}
+	}
+	e.targets[key] = tv
+	return tv
+}
+
+func (e *Engine) newTargetVars(ms []*model.Member, orientation bool) *targetVars {
+	tv := &targetVars{first: make([]int, 0, len(ms)+1), members: make([]*entity, 0, len(ms))}
+	n := 0
+	for _, m := range ms {
+		x := e.byMem[m]
+		if x == nil {
+			return nil
+		}
+		tv.members = append(tv.members, x)
+		if !orientation {
+			n += len(x.tb)
+		}
+		n += len(x.rb)
+	}
+	if n == 0 {
+		return nil
+	}
+	tv.params = make([]param, 0, n)
+	for i, x := range tv.members {
+		tv.first = append(tv.first, len(tv.params))
+		if !orientation {
+			for k, b := range x.tb {
+				tv.params = append(tv.params, param{x: x, mi: i, v: x.t0 + k, dir: b})
+			}
+		}
+		for k, b := range x.rb {
+			tv.params = append(tv.params, param{x: x, mi: i, v: x.r0 + k, rot: true, dir: b})
+		}
+	}
+	tv.first = append(tv.first, len(tv.params))
+	return tv
 }
 
 func containsEnt(xs []*entity, x *entity) bool {
@@ -510,7 +552,7 @@ func (s *solve) rest() []Missing {
 		if images == nil {
 			images = make([][]float64, len(s.moves))
 			for k, m := range s.moves {
-				var c sv
+				c := make(sv, 0, len(m))
 				for i, v := range m {
 					if v != 0 {
 						c = append(c, term{i, v})
@@ -598,8 +640,8 @@ func (s *solve) spacings() []Missing {
 // frames and segments ask.
 func (e *Engine) nearest(members []*entity) []int {
 	f := members[0].m.Feature
-	e.nearMu.Lock()
-	defer e.nearMu.Unlock()
+	e.memoMu.Lock()
+	defer e.memoMu.Unlock()
 	if n, ok := e.near[f]; ok && len(n) == len(members) {
 		return n
 	}

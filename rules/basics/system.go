@@ -45,9 +45,11 @@ type Engine struct {
 	built []row
 	arena []term
 
-	// near memoises nearest (a pattern's members' nearest earlier ones).
-	nearMu sync.Mutex
-	near   map[*model.Feature][]int
+	// near memoises nearest (a pattern's members' nearest earlier ones)
+	// and targets targetVars, both under memoMu.
+	memoMu  sync.Mutex
+	near    map[*model.Feature][]int
+	targets map[targetKey]*targetVars
 }
 
 // Build collects the part's variables and relations: every basic
