@@ -170,3 +170,70 @@ func TestMatchesReferenceOnPlates(t *testing.T) {
 	}
 	t.Logf("compared %+v", c)
 }
+
+// TestConcurrentQueriesMatchReference asks one engine every segment's
+// question from several goroutines at once (an Engine may be shared: its
+// memos are locked and its scratch pooled) and compares each answer with
+// the reference's; run it with -race.
+func TestConcurrentQueriesMatchReference(t *testing.T) {
+	found := 0
+	for i := range 4 {
+		src := gen.Plate(i)
+		var cut [][]byte
+		for k, l := range bytes.SplitAfter(src, []byte("\n")) {
+			if bytes.HasPrefix(bytes.TrimSpace(l), []byte("basic ")) && k%3 == 0 {
+				continue
+			}
+			cut = append(cut, l)
+		}
+		part := model.Resolve(grammar.Parse("plate.callouts", bytes.Join(cut, nil)))
+		facts := rules.NewFacts(part)
+		ne, oe := basics.Build(part, nil), Build(part, nil)
+		var nqs []basics.Query
+		var want []string
+		for _, fr := range part.Frames {
+			for k, seg := range fr.Segments {
+				a := facts.DOF(fr, k)
+				if !a.Resolved || a.DRF == nil {
+					continue
+				}
+				nq, nok := basics.FrameQuery(fr, seg, a.DRF)
+				oq, ook := FrameQuery(fr, seg, a.DRF)
+				if !nok || !ook {
+					continue
+				}
+				nqs = append(nqs, nq)
+				ms := oe.Missing(oq)
+				found += len(ms)
+				want = append(want, fmtOldMissing(ms))
+			}
+		}
+		const workers = 4
+		got := make([][]string, workers)
+		done := make(chan int)
+		for w := range workers {
+			go func() {
+				got[w] = make([]string, len(nqs))
+				for k := range nqs {
+					// each worker starts at a different query
+					j := (k + w*len(nqs)/workers) % len(nqs)
+					got[w][j] = fmtMissing(ne.Missing(nqs[j]))
+				}
+				done <- w
+			}()
+		}
+		for range workers {
+			<-done
+		}
+		for w := range workers {
+			for k := range nqs {
+				if got[w][k] != want[k] {
+					t.Fatalf("plate %d, worker %d, query %d:\n got %s\nwant %s", i, w, k, got[w][k], want[k])
+				}
+			}
+		}
+	}
+	if found < 10 {
+		t.Fatalf("the cut plates miss %d quantities; they should miss more", found)
+	}
+}
