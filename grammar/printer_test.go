@@ -8,37 +8,15 @@ import (
 	"testing"
 )
 
-// contractExample is the complete example of the notation's contract
-// (docs: /work/shared/design/notation.md); it is canonical as written.
-const contractExample = `part "Mounting plate MP-40"
-units mm
-standard asme-2018
-
-feature base  plane normal -z at (0, 0, 0)
-feature rear  plane normal -y at (0, 0, 0)
-feature left  plane normal -x at (0, 0, 0)
-feature bore  hole size 25 +0.05 -0 axis +z at (60, 40, 0)
-feature bolts hole 4x size 8.4 +-0.1 axis +z at (15, 15, 0) (105, 15, 0) (15, 65, 0) (105, 65, 0)
-
-datum A on base
-datum B on rear
-datum C on left
-
-frame base: flatness 0.02
-frame rear: perpendicularity 0.05 datums A
-frame left: perpendicularity 0.05 datums A, B
-frame bore: position dia 0.1 (M) datums A, B, C
-frame bolts: position dia 0.4 (M) datums A, B, C
-    composite dia 0.1 (M) datums A
-
-basic 60 from left to bore
-basic 40 from rear to bore
-basic 15 from left to bolts.1
-basic 15 from rear to bolts.1
-basic 90 from bolts.1 to bolts.2
-basic 50 from bolts.1 to bolts.3
-basic 90 from bolts.3 to bolts.4
-`
+// contractExample is the notation contract's complete example, as shipped
+// in testdata/examples; it is canonical as written.
+var contractExample = func() string {
+	b, err := os.ReadFile(filepath.Join("..", "testdata", "examples", "mounting-plate.callouts"))
+	if err != nil {
+		panic(err)
+	}
+	return string(b)
+}()
 
 func format(t testing.TB, src string) string {
 	t.Helper()
