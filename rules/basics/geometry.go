@@ -357,3 +357,59 @@ func AlongName(d Vec) string {
 	}
 	return "(" + Num(d[0]) + ", " + Num(d[1]) + ", " + Num(d[2]) + ")"
 }
+
+// meetPoint is where a linear relation between a and b is measured: the
+// written point of the one with the fewest dimensions (a centre, then an
+// axis, then a plane; a on a tie). Its feet on a and b then differ only
+// along the measuring direction, so the relation is the same wherever the
+// features' points were written and a rigid motion of the whole part leaves
+// it unchanged (a plane 25 from a hub's axis is 25 from it at the foot of
+// the axis, whichever point of the plane the file names).
+func meetPoint(a, b *entity) Vec {
+	if shapeRank(b.shape) < shapeRank(a.shape) {
+		return b.p
+	}
+	return a.p
+}
+
+func shapeRank(s shape) int {
+	switch s {
+	case pointShape:
+		return 0
+	case axisShape:
+		return 1
+	}
+	return 2
+}
+
+// foot returns the point of x nearest to c: for a plane, c projected onto
+// it; for an axis, c projected onto the line; for a centre, the centre.
+func foot(x *entity, c Vec) Vec {
+	switch x.shape {
+	case planeShape:
+		return c.Sub(x.d.Scale(x.d.Dot(c.Sub(x.p))))
+	case axisShape:
+		return x.p.Add(x.d.Scale(x.d.Dot(c.Sub(x.p))))
+	}
+	return x.p
+}
+
+// tilt is the rotation about which x's turn variables move the point
+// x.p + w of x along u, in the units shift uses: a plane or an axis that
+// turns about its written point moves its other points (δθ × w), and a
+// relation measured elsewhere than at the written point must count that.
+// ok is false where nothing couples (a centre, or w zero).
+func tilt(x *entity, u, w Vec, L float64) (Vec, bool) {
+	if len(x.rb) == 0 || w == (Vec{}) {
+		return Vec{}, false
+	}
+	switch x.shape {
+	case planeShape:
+		nu := x.d.Dot(u)
+		return w.Cross(x.d).Scale(1 / (L * nu)), true
+	case axisShape:
+		up := u.Sub(x.d.Scale(x.d.Dot(u)))
+		return w.Cross(up).Scale(1 / (L * up.Dot(up))), true
+	}
+	return Vec{}, false
+}

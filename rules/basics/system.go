@@ -116,17 +116,26 @@ func (e *Engine) keep(r row) {
 	e.built = append(e.built, r[:len(r):len(r)])
 }
 
-// keepShiftDiff adds diff(shift(b, u), shift(a, u)) when both are defined.
+// keepShiftDiff adds diff(shift(b, u), shift(a, u)) when both are defined,
+// each measured at its foot of the pair's meeting point (meetPoint), so
+// that a turn of a plane or an axis about its written point is counted.
 func (e *Engine) keepShiftDiff(a, b *entity, u Vec) {
-	var tmp [3]term
+	var tmp [6]term
 	u = u.Unit()
+	c := meetPoint(a, b)
 	ra, oka := e.shiftUnitTo(tmp[:0], a, u)
 	if !oka {
 		return
 	}
-	r, okb := e.shiftUnitTo(e.open(len(b.tb)+len(ra)), b, u)
+	if r, ok := tilt(a, u, foot(a, c).Sub(a.p), e.L); ok {
+		ra = turnTo(ra, a, r)
+	}
+	r, okb := e.shiftUnitTo(e.open(len(b.tb)+len(b.rb)+len(ra)), b, u)
 	if !okb {
 		return
+	}
+	if t, ok := tilt(b, u, foot(b, c).Sub(b.p), e.L); ok {
+		r = turnTo(r, b, t)
 	}
 	for _, t := range ra {
 		r = append(r, term{t.v, -t.c})
@@ -474,39 +483,30 @@ func (e *Engine) impliedZeros() {
 		// Faces line up with faces (coplanar surfaces); axes, centres and
 		// mid-planes with each other. A face through a hole's axis is no
 		// centre line, so the two kinds are chained apart.
+		// Each member of a run that lines up is linked to the one before
+		// it and to the run's anchor (its first centre, else axis, else
+		// plane): a mid-plane through two axes is then tied to each, so the
+		// relation does not depend on which of them the sort put first.
 		uu := u.Unit()
-		var pbuf [3]term
-		var prow row
-		var pok bool
-		var pfor *entity // the entity prow is the shift of
 		for _, faces := range []bool{false, true} {
-			var prev *at
+			var prev, anchor *at
 			for i := range list {
 				if isFace(list[i].x) != faces {
 					continue
 				}
-				if prev != nil && list[i].s-prev.s <= e.tol {
-					// diff(shift(x, u), shift(prev, u)), with prev's shift
-					// kept from when it was the x of the link before.
-					if pfor != prev.x {
-						prow, pok = e.shiftUnitTo(pbuf[:0], prev.x, uu)
-						pfor = prev.x
-					}
-					if pok {
-						var cbuf [3]term
-						crow, cok := e.shiftUnitTo(cbuf[:0], list[i].x, uu)
-						if cok {
-							r := append(e.open(len(crow)+len(prow)), crow...)
-							for _, t := range prow {
-								r = append(r, term{t.v, -t.c})
-							}
-							e.keep(r)
-						}
-						pbuf, pok, pfor = cbuf, cok, list[i].x
-						prow = pbuf[:len(crow)]
-					}
+				cur := &list[i]
+				if prev == nil || cur.s-prev.s > e.tol {
+					prev, anchor = cur, cur
+					continue
 				}
-				prev = &list[i]
+				e.keepShiftDiff(prev.x, cur.x, uu)
+				if anchor != prev {
+					e.keepShiftDiff(anchor.x, cur.x, uu)
+				}
+				if shapeRank(cur.x.shape) < shapeRank(anchor.x.shape) {
+					anchor = cur
+				}
+				prev = cur
 			}
 		}
 	}

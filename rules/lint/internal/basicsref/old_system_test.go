@@ -253,13 +253,27 @@ func (e *Engine) linearRows(a, b *entity, along *Vec) []row {
 	}
 	var out []row
 	for _, u := range dirs {
-		ra, oka := e.shift(a, u)
-		rb, okb := e.shift(b, u)
+		ra, oka := e.shiftAt(a, u, meetPoint(a, b))
+		rb, okb := e.shiftAt(b, u, meetPoint(a, b))
 		if oka && okb {
 			out = append(out, diff(rb, ra))
 		}
 	}
 	return out
+}
+
+// shiftAt is shift measured at x's foot of the meeting point c, counting
+// x's turn about its written point (the current engine's keepShiftDiff;
+// added to the reference with it, so the reference still pins the rest).
+func (e *Engine) shiftAt(x *entity, u, c Vec) (row, bool) {
+	r, ok := e.shift(x, u)
+	if !ok {
+		return nil, false
+	}
+	if t, ok := tilt(x, u.Unit(), foot(x, c).Sub(x.p), e.L); ok {
+		r = append(r, turn(x, t)...)
+	}
+	return r, true
 }
 
 // circleRows: the basic diameter fixes each member's distance from the
@@ -384,20 +398,32 @@ func (e *Engine) impliedZeros() []row {
 		// Faces line up with faces (coplanar surfaces); axes, centres and
 		// mid-planes with each other. A face through a hole's axis is no
 		// centre line, so the two kinds are chained apart.
+		link := func(a, b *entity) {
+			ra, oka := e.shiftAt(a, u, meetPoint(a, b))
+			rb, okb := e.shiftAt(b, u, meetPoint(a, b))
+			if oka && okb {
+				out = append(out, diff(rb, ra))
+			}
+		}
 		for _, faces := range []bool{false, true} {
-			var prev *at
+			var prev, anchor *at
 			for i := range list {
 				if isFace(list[i].x) != faces {
 					continue
 				}
-				if prev != nil && list[i].s-prev.s <= e.tol {
-					ra, oka := e.shift(prev.x, u)
-					rb, okb := e.shift(list[i].x, u)
-					if oka && okb {
-						out = append(out, diff(rb, ra))
-					}
+				cur := &list[i]
+				if prev == nil || cur.s-prev.s > e.tol {
+					prev, anchor = cur, cur
+					continue
 				}
-				prev = &list[i]
+				link(prev.x, cur.x)
+				if anchor != prev {
+					link(anchor.x, cur.x)
+				}
+				if shapeRank(cur.x.shape) < shapeRank(anchor.x.shape) {
+					anchor = cur
+				}
+				prev = cur
 			}
 		}
 	}
