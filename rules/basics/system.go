@@ -484,9 +484,11 @@ func (e *Engine) impliedZeros() {
 		// mid-planes with each other. A face through a hole's axis is no
 		// centre line, so the two kinds are chained apart.
 		// Each member of a run that lines up is linked to the one before
-		// it and to the run's anchor (its first centre, else axis, else
-		// plane): a mid-plane through two axes is then tied to each, so the
-		// relation does not depend on which of them the sort put first.
+		// it, and a mid-plane also to the run's anchor (its first centre,
+		// else axis): a mid-plane through two axes is then tied to each, so
+		// the relation does not depend on which of them the sort put first.
+		// (Between centres and axes at one height the links are plain
+		// differences, so the chain already implies every pair.)
 		uu := u.Unit()
 		for _, faces := range []bool{false, true} {
 			var prev, anchor *at
@@ -500,7 +502,7 @@ func (e *Engine) impliedZeros() {
 					continue
 				}
 				e.keepShiftDiff(prev.x, cur.x, uu)
-				if anchor != prev {
+				if anchor != prev && (cur.x.shape == planeShape || anchor.x.shape == planeShape) {
 					e.keepShiftDiff(anchor.x, cur.x, uu)
 				}
 				if shapeRank(cur.x.shape) < shapeRank(anchor.x.shape) {

@@ -417,7 +417,7 @@ func (e *Engine) impliedZeros() []row {
 					continue
 				}
 				link(prev.x, cur.x)
-				if anchor != prev {
+				if anchor != prev && (cur.x.shape == planeShape || anchor.x.shape == planeShape) {
 					link(anchor.x, cur.x)
 				}
 				if shapeRank(cur.x.shape) < shapeRank(anchor.x.shape) {
