@@ -172,6 +172,13 @@ frame bore: perpendicularity dia 0.05 datums A`,
 					continue
 				}
 				r := a.Segment.Refs[k]
+				if fr.Characteristic.Category() == model.Runout && establishesAxis(r) {
+					// Runout is read while the part turns about the datum
+					// axis (ASME Y14.5-2018, runout), so the reference that
+					// gives the axis is needed even where the zone of a face
+					// would not move without it.
+					continue
+				}
 				what := "moves"
 				if fr.Characteristic.Category() == model.Orientation {
 					what = "turns"
@@ -362,4 +369,19 @@ func joinAnd(s []string) string {
 		return s[0]
 	}
 	return strings.Join(s[:len(s)-1], ", ") + " and " + s[len(s)-1]
+}
+
+// establishesAxis reports whether a reference's features give an axis: a
+// cylinder, a cone, or spheres (a common datum of two spheres is an axis).
+func establishesAxis(r *model.DatumRef) bool {
+	for _, d := range r.Datums {
+		if d == nil || !d.Target.Resolved() {
+			continue
+		}
+		switch k := d.Target.Feature.Kind; {
+		case k.IsCylinder(), k == model.Cone, k.IsSphere():
+			return true
+		}
+	}
+	return false
 }

@@ -121,3 +121,19 @@ feature b plane normal +z at (30,40,0)
 		t.Errorf("scale %g centre %v", p.Scale, p.Center)
 	}
 }
+
+func TestZoneWords(t *testing.T) {
+	for src, want := range map[string]string{
+		"feature a plane normal +z at (0,0,0)\nframe a: flatness banana 0.02":                                                                       "unknown zone 'banana'",
+		"feature a hole 2x size 1 +-0.1 axis +z at (0,0,0) (5,0,0)\nframe a: position dia 0.2 datums A\n    composite surface-profile 0.1 datums A": "repeats its frame's characteristic",
+	} {
+		p := Resolve(grammar.Parse("t", []byte(src)))
+		if len(p.Errors) != 1 || !strings.Contains(p.Errors[0].Msg, want) {
+			t.Errorf("%q: errors %v, want one containing %q", src, p.Errors, want)
+		}
+	}
+	p := Resolve(grammar.Parse("t", []byte("feature a hole size 1 +-0.1 axis +z at (0,0,0)\nframe a: position ⌀0.2\nframe a: position sdia 0.2")))
+	if len(p.Errors) != 0 {
+		t.Errorf("dia and sdia rejected: %v", p.Errors)
+	}
+}

@@ -436,6 +436,15 @@ func (r *resolver) segment(t *grammar.Tolerance, composite bool) *Segment {
 	seg := &Segment{Composite: composite, Span: t.Span(), Tree: t, ValueSpan: t.Value.Span(), Value: r.num(t.Value)}
 	if t.Zone != nil {
 		seg.Zone, seg.ZoneSpan = grammar.CanonicalWord(t.Zone.Value), t.Zone.Span()
+		switch {
+		case seg.Zone == "dia" || seg.Zone == "sdia":
+		case composite && Characteristic(seg.Zone).Category() != CategoryUnknown:
+			r.errorf(seg.ZoneSpan, "a composite line repeats its frame's characteristic and does not name one: write only the zone and value, e.g. composite dia 0.1 datums A")
+			seg.Zone = ""
+		default:
+			r.errorf(seg.ZoneSpan, "unknown zone '%s' before the tolerance value: write dia (cylindrical), sdia (spherical) or nothing (two parallel planes or lines)", t.Zone.Value)
+			seg.Zone = ""
+		}
 	}
 	for _, m := range t.Modifiers {
 		mod := Modifier{Letter: grammar.ModifierLetter(m.Symbol), Span: m.Span()}
