@@ -56,6 +56,9 @@ func runCompositeInvalid(p *Pass) {
 				break
 			}
 			var problems []string
+			if lower.Named != "" && lower.Named != c {
+				problems = append(problems, fmt.Sprintf("it names %s, but a composite frame has one characteristic, the frame's %s: remove the word, or write a separate %s frame", lower.Named, c, lower.Named))
+			}
 			if lower.Value >= upper.Value {
 				problems = append(problems, fmt.Sprintf("its tolerance %g is not smaller than the %g above it, so it refines nothing: give the lower segment the smaller zone", lower.Value, upper.Value))
 			}

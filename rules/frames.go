@@ -139,6 +139,9 @@ two parallel planes, in one direction only.`,
 			}
 			k := fr.Target.Feature.Kind
 			for _, seg := range fr.Segments {
+				if seg.Tree != nil && seg.Tree.Zone != nil && seg.Zone == "" {
+					continue // the word in the zone's place is reported already
+				}
 				if msg := zoneProblem(fr.Characteristic, k, seg.Zone); msg != "" {
 					sp := seg.ZoneSpan
 					if sp.IsZero() {

@@ -173,6 +173,10 @@ type Segment struct {
 	Refs      []*DatumRef
 	Span      Span
 	Tree      *grammar.Tolerance
+	// Named is a characteristic written on a composite line in place of a
+	// zone ("composite surface-profile 0.1"); "" where none was.
+	Named     Characteristic
+	NamedSpan Span
 }
 
 // Modifier returns the modifier with the letter, if present.

@@ -439,8 +439,11 @@ func (r *resolver) segment(t *grammar.Tolerance, composite bool) *Segment {
 		switch {
 		case seg.Zone == "dia" || seg.Zone == "sdia":
 		case composite && Characteristic(seg.Zone).Category() != CategoryUnknown:
-			r.errorf(seg.ZoneSpan, "a composite line repeats its frame's characteristic and does not name one: write only the zone and value, e.g. composite dia 0.1 datums A")
-			seg.Zone = ""
+			// A characteristic named on a composite line (the notation has
+			// none there): kept so that composite-invalid can compare it
+			// with the frame's.
+			seg.Named, seg.NamedSpan = Characteristic(seg.Zone), seg.ZoneSpan
+			seg.Zone, seg.ZoneSpan = "", Span{}
 		default:
 			r.errorf(seg.ZoneSpan, "unknown zone '%s' before the tolerance value: write dia (cylindrical), sdia (spherical) or nothing (two parallel planes or lines)", t.Zone.Value)
 			seg.Zone = ""

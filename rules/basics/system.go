@@ -457,6 +457,16 @@ func (e *Engine) impliedZeros() {
 			}
 		}
 	}
+	// Directions across two of the part's directions too: on a part drawn
+	// turned in its coordinates, the line through two holes' centres may lie
+	// along a face's normal, and the holes line up across it.
+	for i, n := 0, len(dirs); i < n; i++ {
+		for j := i + 1; j < n; j++ {
+			if c := dirs[i].Cross(dirs[j]); c.Norm() > alignTol {
+				add(snap(c))
+			}
+		}
+	}
 	type at struct {
 		s float64
 		x *entity
