@@ -146,8 +146,11 @@ frame bore: position dia 0.1 (M) datums A, B, C
 basic 60 from left to bore
 basic 40 from rear to bore`,
 	Run: func(p *Pass) {
+		// One finding per frame, naming every missing quantity: the frame
+		// is one annotation to fix, and one line of the drawing.
 		for _, fr := range p.Part.Frames {
 			seen := map[string]bool{}
+			var msgs []string
 			for i, seg := range fr.Segments {
 				ms, ok := frameMissing(p, fr, i)
 				if !ok {
@@ -157,9 +160,16 @@ basic 40 from rear to bore`,
 					msg := missingMessage(seg, m)
 					if !seen[msg] {
 						seen[msg] = true
-						p.Report(fr.CharSpan, "%s", msg)
+						msgs = append(msgs, msg)
 					}
 				}
+			}
+			switch len(msgs) {
+			case 0:
+			case 1:
+				p.Report(fr.CharSpan, "%s", msgs[0])
+			default:
+				p.Report(fr.CharSpan, "%s; and %s", msgs[0], strings.Join(msgs[1:], "; and "))
 			}
 		}
 	},
