@@ -15,7 +15,7 @@ import (
 var RunoutAxisMissing = Register(&Rule{
 	ID:       "runout-axis-missing",
 	Summary:  "a runout tolerance whose datums do not establish an axis for the part to turn about",
-	Severity: Error,
+	Severity: Info,
 	Rationale: `Runout is read by an indicator while the part is turned a full revolution about a datum
 axis. The datum reference frame must therefore leave exactly one rotation free, about a line
 that stays put: a cylinder or cone (alone or after a face), a common datum of two coaxial
@@ -23,7 +23,9 @@ diameters (A-B), or a sphere pair. A plane alone lets the part slide as it turns
 a width stop it turning at all, a single sphere lets it turn about any line, and a common datum
 of two diameters that are not coaxial locks it. The check uses the degrees-of-freedom engine:
 it takes the motions the datums leave free and asks for one rotation and no translation across
-its axis.`,
+its axis. It is not one of the notation's core rules, so it reports at info by default and does
+not fail a check; a project that wants it to block a release raises it in .datumlint.toml
+([rules] runout-axis-missing = "error").`,
 	Source: "ASME Y14.5-2018, runout (datum axis established by the datum features); ISO 1101:2017, run-out tolerances",
 	Bad: `feature base plane normal -z at (0, 0, 0)
 feature face plane normal +z at (0, 0, 20)
@@ -101,12 +103,12 @@ func turningAxis(free []dof.Motion) (model.Vec, bool) {
 var PositionOnSurface = Register(&Rule{
 	ID:       "position-on-surface",
 	Summary:  "under ASME, a position tolerance on a feature that is not a feature of size (use profile)",
-	Severity: Warning,
+	Severity: Info,
 	Rationale: `In ASME Y14.5 position locates features of size: the axis of a hole or pin, the
 mid-plane of a slot or tab, the centre of a sphere. A plane, cone, extruded shape or
 free-form surface has no size and no derived axis or mid-plane for position to locate; ASME
 locates such a surface with profile of a surface to the same datums. ISO 1101 does allow the
-position of a plane, so the rule is silent under iso.`,
+position of a plane, so the rule is silent under iso. It is a suggestion, reported at info.`,
 	Source: "ASME Y14.5-2018, position (applies to features of size) and profile (locating surfaces); ISO 1101:2017, position of a flat surface",
 	Bad: `feature top plane normal +z at (0, 0, 10)
 frame top: position 0.1 datums A`,
