@@ -108,7 +108,7 @@ departs from that condition.`,
 					p.Report(seg.ValueSpan, "a zero tolerance leaves no zone: give a tolerance, or write zero at a material condition, e.g. 0 (M)")
 				}
 				for _, mod := range seg.Modifiers {
-					if (mod.Letter == "P" && mod.Value <= 0) || (mod.Letter == "U" && mod.Value < 0) {
+					if mod.HasValue && ((mod.Letter == "P" && mod.Value <= 0) || (mod.Letter == "U" && mod.Value < 0)) {
 						p.Report(mod.Span, "(%s) takes a positive value, found %g", mod.Letter, mod.Value)
 					}
 				}
@@ -208,6 +208,16 @@ func runModifierIllegal(p *Pass) {
 		tgt := fr.Target.Feature
 		known := fr.Target.Resolved() && !tgt.Broken && tgt.Kind != model.KindUnknown
 		for _, seg := range fr.Segments {
+			seen := map[string]bool{}
+			for _, m := range seg.Modifiers {
+				switch {
+				case seen[m.Letter]:
+					p.Report(m.Span, "(%s) is written twice in this segment; write it once", m.Letter)
+				case (m.Letter == "M" && seen["L"]) || (m.Letter == "L" && seen["M"]):
+					p.Report(m.Span, "a tolerance applies at MMC or at LMC, not both: keep (M) or (L)")
+				}
+				seen[m.Letter] = true
+			}
 			for _, m := range seg.Modifiers {
 				switch m.Letter {
 				case "M", "L":

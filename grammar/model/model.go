@@ -159,7 +159,10 @@ func (r *DatumRef) Resolved() bool {
 type Modifier struct {
 	Letter string
 	Value  float64
-	Span   Span
+	// HasValue is false where (P) or (U) was written without its value
+	// (a syntax finding), so that no rule judges a value never written.
+	HasValue bool
+	Span     Span
 }
 
 // Segment is one segment of a frame: the upper one, or a composite lower one.

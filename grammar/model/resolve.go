@@ -452,7 +452,7 @@ func (r *resolver) segment(t *grammar.Tolerance, composite bool) *Segment {
 	for _, m := range t.Modifiers {
 		mod := Modifier{Letter: grammar.ModifierLetter(m.Symbol), Span: m.Span()}
 		if m.Value != nil {
-			mod.Value = r.num(m.Value)
+			mod.Value, mod.HasValue = r.num(m.Value), true
 			mod.Span = mod.Span.Join(m.Value.Span())
 		}
 		seg.Modifiers = append(seg.Modifiers, mod)
@@ -468,7 +468,11 @@ func (r *resolver) segment(t *grammar.Tolerance, composite bool) *Segment {
 			ref.Datums = append(ref.Datums, r.p.byLetter[l])
 		}
 		for _, m := range d.Modifiers {
-			ref.Material, ref.MatSpan = grammar.ModifierLetter(m.Symbol), m.Span()
+			// Only (M) and (L) are material boundaries; any other letter is
+			// a syntax finding already (grammar/check.go).
+			if l := grammar.ModifierLetter(m.Symbol); l == "M" || l == "L" {
+				ref.Material, ref.MatSpan = l, m.Span()
+			}
 		}
 		// The ref's own span ends at the letters; the modifier is separate.
 		ref.Span = Span{Start: d.Span().Start, End: grammar.Pos{Line: d.Span().Start.Line, Col: d.Span().Start.Col + len([]rune(d.Name))}}
