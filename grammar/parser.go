@@ -39,6 +39,10 @@ var (
 	dimParser      = build[DimStmt]()
 )
 
+// MaxStmtBytes is the longest statement that the error path (participle)
+// reads; a well-formed statement of any length takes the fast path.
+const MaxStmtBytes = 256 << 10
+
 // Keywords lists the words a statement may start with.
 var Keywords = []string{"part", "units", "standard", "feature", "datum", "frame", "basic", "dim"}
 
@@ -161,6 +165,12 @@ func parseStmt(name string, rs rawStmt) Stmt {
 	// anything it does not handle, errors included, goes to participle.
 	if st := fastParse(name, rs); st != nil {
 		return st
+	}
+	if len(rs.text) > MaxStmtBytes {
+		// The fallback parser's memory grows with the statement; no real
+		// statement comes near this, so say so instead of trying.
+		return bad(rs, nil, &SyntaxError{Span: Span{Pos{rs.first, 1}, Pos{rs.first, 2}},
+			Msg: fmt.Sprintf("this statement is %d bytes long and does not parse; statements over %d bytes are not read further: check the line for text that does not belong to it", len(rs.text), MaxStmtBytes)})
 	}
 	all, sig, eof, lerr := lexStmt(name, rs)
 	if lerr != nil {

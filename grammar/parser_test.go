@@ -194,3 +194,16 @@ func TestHostileInputNeverPanics(t *testing.T) {
 		}
 	}
 }
+
+// TestOverlongStatement: a statement too long for the error path is one
+// positioned finding, not a parse that takes seconds and gigabytes.
+func TestOverlongStatement(t *testing.T) {
+	src := "units mm\nfeature base plane normal -z at (0,0,0) " + strings.Repeat("a @ ", MaxStmtBytes/4+1) + "\nunits in\n"
+	f := Parse("t", []byte(src))
+	if len(f.Errors) != 1 || f.Errors[0].Span.Start != (Pos{2, 1}) || !strings.Contains(f.Errors[0].Msg, "bytes long") {
+		t.Fatalf("errors %v", f.Errors)
+	}
+	if len(f.Stmts) != 3 {
+		t.Errorf("the statements around it were not kept: %d", len(f.Stmts))
+	}
+}
