@@ -61,8 +61,9 @@ func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError)
 	var errs []*PathError
 	seen := map[string]bool{}
 	add := func(p string) {
-		if !seen[p] {
-			seen[p] = true
+		// x.callouts and ./x.callouts are one file, checked once.
+		if c := filepath.Clean(p); !seen[c] {
+			seen[c] = true
 			files = append(files, p)
 		}
 	}
@@ -71,6 +72,11 @@ func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError)
 		if err != nil {
 			errs = append(errs, &PathError{root, friendlyErr(err)})
 			continue
+		}
+		if info.IsDir() && strings.HasSuffix(filepath.Clean(root), Ext) {
+			// Named like a file but a folder: report it (exit 2), and
+			// still check what is inside.
+			errs = append(errs, &PathError{root, errors.New("a folder named like a callouts file; the .callouts files inside it are checked")})
 		}
 		if !info.IsDir() {
 			if !info.Mode().IsRegular() {

@@ -1,0 +1,32 @@
+package lint
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// TestCollectNamedPaths: a folder named like a file, given by name, is
+// reported (exit 2) and still walked; one file named twice is checked once.
+func TestCollectNamedPaths(t *testing.T) {
+	dir := t.TempDir()
+	folder := filepath.Join(dir, "x.callouts")
+	if err := os.Mkdir(folder, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	inner := filepath.Join(folder, "in.callouts")
+	file := filepath.Join(dir, "a.callouts")
+	for _, p := range []string{inner, file} {
+		if err := os.WriteFile(p, []byte("units mm\nstandard iso\n"), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	files, errs := Collect([]string{folder, file, dir + "/./a.callouts"}, nil)
+	if len(errs) != 1 || !strings.Contains(errs[0].Error(), "folder named like a callouts file") {
+		t.Errorf("errors %v, want one about the folder", errs)
+	}
+	if len(files) != 2 || files[0] != inner || files[1] != file {
+		t.Errorf("files %v, want %s and %s once each", files, inner, file)
+	}
+}
