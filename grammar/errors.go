@@ -77,6 +77,12 @@ func expectation(sig []token, i int) string {
 		}
 	}
 	if depth > 0 && kw != "frame" {
+		if i < len(sig) && sig[i].Value == ")" {
+			return "a point or vector has three coordinates, (x, y, z)"
+		}
+		if i < len(sig) && sig[i].Value == "," && sig[i-1].Type == tokNumber {
+			return "a point or vector has three coordinates, (x, y, z): close it with ')' after the third"
+		}
 		if sig[i-1].Type == tokNumber {
 			return "expected ',' or ')' after the number: points and vectors are written (x, y, z)"
 		}

@@ -111,10 +111,11 @@ func lexStmt(name string, rs rawStmt) (all []lexer.Token, sig []token, eof lexer
 			p := pe.Position()
 			pos, at = Pos{rs.first + p.Line - 1, p.Column}, p.Offset
 		}
-		r, _ := utf8.DecodeRuneInString(rs.text[min(len(rs.text), max(0, at)):])
+		rest := rs.text[min(len(rs.text), max(0, at)):]
+		r, _ := utf8.DecodeRuneInString(rest)
 		return nil, nil, eof, &SyntaxError{
 			Span: Span{pos, Pos{pos.Line, pos.Col + 1}},
-			Msg:  fmt.Sprintf("unexpected character %q: it has no meaning in the callout notation", r),
+			Msg:  unexpectedChar(r, rest),
 		}
 	}
 	sig = make([]token, 0, len(all)/2+1)
@@ -263,4 +264,23 @@ func describe(t lexer.Token) string {
 		return "the end of the statement"
 	}
 	return "'" + t.Value + "'"
+}
+
+// unexpectedChar says what a character that starts no token probably meant.
+func unexpectedChar(r rune, rest string) string {
+	word := rest
+	if i := strings.IndexAny(word, " \t\n,)"); i >= 0 {
+		word = word[:i]
+	}
+	switch {
+	case r == '"':
+		return "a string is not closed: end the part's name with a double quote"
+	case r == '°':
+		return "write angles with deg, e.g. 30deg, not with the degree sign"
+	case (r == '+' || r == '-') && len(word) > 1 && word[1] >= 'a' && word[1] <= 'z':
+		return fmt.Sprintf("unknown direction '%s': use +x, -x, +y, -y, +z, -z or a vector such as (0, 0, 1)", word)
+	case r == '-':
+		return "a lone '-' has no meaning: write a common datum without spaces, e.g. A-B, and a negative number as -3.5"
+	}
+	return fmt.Sprintf("unexpected character %q: it has no meaning in the callout notation", r)
 }

@@ -98,6 +98,11 @@ func TestSyntaxErrors(t *testing.T) {
 		{"units", "1:6", "expected mm or in"},
 		{"composite dia 0.1", "1:1", "lower segment of a frame"},
 		{"feature x plane normal +z at (0,0,0) (1,1,1) extra", "1:46", "unexpected 'extra'"},
+		{"feature a plane normal +w at (0,0,0)", "1:24", "unknown direction '+w'"},
+		{"feature b plane normal +z at (0, 0)", "1:35", "three coordinates"},
+		{`part "unterminated`, "1:6", "string is not closed"},
+		{"basic 30° from a to b", "1:9", "30deg"},
+		{"frame a: flatness 0.1 datums A - B", "1:32", "without spaces"},
 		{"feature x hole size 10 +-0.1 at (0,0,0)", "", ""},
 	} {
 		f := Parse("t.callouts", []byte(c.src))
