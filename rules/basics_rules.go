@@ -255,6 +255,9 @@ func mismatchMessage(m basics.Mismatch) string {
 		if d.About != nil {
 			about = " about the axis of " + d.About.Name
 		}
+		if basics.NumAngle(m.Nominal) == basics.NumAngle(180-m.Nominal) {
+			return fmt.Sprintf("the nominal angle%s between %s and %s is %sdeg, not %sdeg", about, d.From.Name, d.To.Name, basics.NumAngle(m.Nominal), basics.Num(d.Value))
+		}
 		return fmt.Sprintf("the nominal angle%s between %s and %s is %sdeg (or %sdeg), not %sdeg", about, d.From.Name, d.To.Name, basics.NumAngle(m.Nominal), basics.NumAngle(180-m.Nominal), basics.Num(d.Value))
 	}
 	along := ""

@@ -2,6 +2,7 @@ package rules
 
 import (
 	"regexp"
+	"slices"
 	"strings"
 
 	"github.com/datumlint/datumlint/grammar"
@@ -24,7 +25,11 @@ cannot know which feature to set the part up on.`,
 			for _, seg := range fr.Segments {
 				for _, r := range seg.Refs {
 					for i, l := range r.Letters {
-						if r.Datums[i] == nil {
+						switch {
+						case r.Datums[i] != nil:
+						case !letterRE.MatchString(l) || strings.ContainsAny(l, "IOQ"):
+							p.Report(r.Span, "datum %s is not declared, and %s is not a letter the standard uses: declare the datum feature with another letter (e.g. `datum A on FEATURE`) and reference that", l, l)
+						default:
 							p.Report(r.Span, "datum %s is not declared: add a datum feature symbol, e.g. `datum %s on FEATURE`", l, l)
 						}
 					}
@@ -124,7 +129,7 @@ read as the digits 1 and 0. When the single letters are used up, double letters 
 func badLetters(s string) string {
 	var out []string
 	for _, c := range s {
-		if strings.ContainsRune("IOQ", c) {
+		if strings.ContainsRune("IOQ", c) && !slices.Contains(out, string(c)) {
 			out = append(out, string(c))
 		}
 	}
