@@ -149,6 +149,9 @@ basic 40 from rear to bore`,
 		// One finding per frame, naming every missing quantity: the frame
 		// is one annotation to fix, and one line of the drawing.
 		for _, fr := range p.Part.Frames {
+			if fr.Target.Feature != nil && p.Facts.BrokenMentions()[fr.Target.Feature.Name] {
+				continue // a dimension to it may be in a line that did not parse
+			}
 			seen := map[string]bool{}
 			var msgs []string
 			for i, seg := range fr.Segments {

@@ -11,9 +11,10 @@ import (
 // file on first use (files are checked in parallel, the rules of one file
 // in turn, so no locking is needed).
 type Facts struct {
-	part  *model.Part
-	used  map[string]bool
-	cache map[string]any
+	part   *model.Part
+	used   map[string]bool
+	broken map[string]bool
+	cache  map[string]any
 }
 
 func newFacts(p *model.Part) *Facts { return &Facts{part: p, cache: map[string]any{}} }
@@ -56,4 +57,35 @@ func (f *Facts) UsedLetters() map[string]bool {
 		}
 	}
 	return f.used
+}
+
+// BrokenMentions returns the names written in statements that did not
+// parse, and the targets of frames whose characteristic is unknown. Rules
+// that judge what is missing for a feature (a form control, a basic
+// dimension) stay silent on these: what the drafter wrote there may be the
+// very thing, and the syntax finding already asks for a fix.
+func (f *Facts) BrokenMentions() map[string]bool {
+	if f.broken != nil {
+		return f.broken
+	}
+	f.broken = map[string]bool{}
+	for _, st := range f.part.File.Stmts {
+		if bs, ok := st.(*grammar.BadStmt); ok {
+			for _, w := range bs.Words {
+				f.broken[w] = true
+				if i := strings.LastIndexByte(w, '.'); i > 0 {
+					f.broken[w[:i]] = true
+				}
+			}
+		}
+	}
+	for _, fr := range f.part.Frames {
+		if fr.Characteristic.Category() == model.CategoryUnknown {
+			f.broken[fr.Target.Name] = true
+			if fr.Target.Feature != nil {
+				f.broken[fr.Target.Feature.Name] = true
+			}
+		}
+	}
+	return f.broken
 }

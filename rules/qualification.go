@@ -82,7 +82,7 @@ func runDatumUnqualified(p *Pass) {
 	}
 	for _, d := range p.Part.Datums {
 		f := d.Target.Feature
-		if d.Broken || !d.Target.Resolved() || f.Broken || f.Kind == model.KindUnknown || len(uses[d]) == 0 {
+		if d.Broken || !d.Target.Resolved() || f.Broken || f.Kind == model.KindUnknown || len(uses[d]) == 0 || p.Facts.BrokenMentions()[f.Name] {
 			continue
 		}
 		var problems []string
