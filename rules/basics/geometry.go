@@ -242,9 +242,9 @@ func measureDir(a, b *entity, tol float64) (u Vec, zero, ok bool) {
 	case a.shape == planeShape && b.shape == planeShape:
 		return a.d, false, parallel(a.d, b.d)
 	case a.shape == planeShape:
-		return a.d, false, b.shape != axisShape || perpendicular(a.d, b.d)
+		return a.d, false, b.shape != axisShape || !parallel(a.d, b.d)
 	case b.shape == planeShape:
-		return b.d, false, a.shape != axisShape || perpendicular(a.d, b.d)
+		return b.d, false, a.shape != axisShape || !parallel(a.d, b.d)
 	}
 	w := offset(a, b)
 	if w.Norm() <= tol {
