@@ -94,16 +94,17 @@ basic 1 from bolt to bores
 
 func TestValueErrors(t *testing.T) {
 	for src, want := range map[string]string{
-		"feature a hol size 1 +-0.1 axis +z at (0,0,0)":                "did you mean 'hole'",
-		"feature a plane size 1 +-0.1 normal +z at (0,0,0)":            "not a feature of size",
-		"feature a hole 3x size 1 +-0.1 axis +z at (0,0,0) (1,0,0)":    "says 3 but 2 points",
-		"feature a hole size 1 +-0.1 axis +z at (0,0,0) (1,0,0)":       "declare it with 2x",
-		"feature a hole size 1 +-0.1 normal +z at (0,0,0)":             "not given with 'normal'",
-		"feature a plane normal (0,0,0) at (0,0,0)":                    "must not be zero",
-		"feature a plane normal +z at (1e309,0,0)":                     "out of range",
-		"feature a plane normal +z at (0,0,0)\nframe a: flatnes 0.1":   "did you mean 'flatness'",
-		"feature a plane normal +z at (0,0,0)\ndatum A on a placed up": "unknown placement",
-		"feature a hole size 2 +0.1 +0.2 axis +z at (0,0,0)":           "below the lower deviation",
+		"feature a hol size 1 +-0.1 axis +z at (0,0,0)":                                         "did you mean 'hole'",
+		"feature a plane size 1 +-0.1 normal +z at (0,0,0)":                                     "not a feature of size",
+		"feature a hole 3x size 1 +-0.1 axis +z at (0,0,0) (1,0,0)":                             "says 3 but 2 points",
+		"feature a hole size 1 +-0.1 axis +z at (0,0,0) (1,0,0)":                                "declare it with 2x",
+		"feature a hole size 1 +-0.1 normal +z at (0,0,0)":                                      "not given with 'normal'",
+		"feature a plane normal (0,0,0) at (0,0,0)":                                             "must not be zero",
+		"feature a plane normal +z at (1e309,0,0)":                                              "out of range",
+		"feature a plane normal +z at (0,0,0)\nframe a: flatnes 0.1":                            "did you mean 'flatness'",
+		"feature a plane normal +z at (0,0,0)\ndatum A on a placed up":                          "unknown placement",
+		"feature a hole size 2 +0.1 +0.2 axis +z at (0,0,0)":                                    "below the lower deviation",
+		"feature a plane normal +z at (0,0,0)\nframe a: perpendicularity 0.1 datums A, B, C, D": "at most three datums",
 	} {
 		f := grammar.Parse("t", []byte(src))
 		p := Resolve(f)

@@ -457,6 +457,12 @@ func (r *resolver) segment(t *grammar.Tolerance, composite bool) *Segment {
 		}
 		seg.Modifiers = append(seg.Modifiers, mod)
 	}
+	if len(t.Datums) > 3 {
+		// A datum reference frame has a primary, a secondary and a
+		// tertiary at most (ASME Y14.5-2018, datum reference frame; the
+		// notation: "at most three").
+		r.errorf(t.Datums[3].Span(), "a frame references at most three datums (primary, secondary, tertiary); '%s' is a fourth", t.Datums[3].Name)
+	}
 	for _, d := range t.Datums {
 		ref := &DatumRef{Name: d.Name, Span: d.Span()}
 		for _, l := range strings.Split(d.Name, "-") {
