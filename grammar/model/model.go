@@ -42,6 +42,9 @@ type Feature struct {
 	Pattern bool
 	// Faces are the two planes of a width given with 'between'.
 	Faces [2]*Target
+	// FaceOf is the width a plane bounds, where a width names it in its
+	// 'between'; nil otherwise.
+	FaceOf *Feature
 	// Broken marks a name recovered from a statement that did not parse,
 	// so that references to it do not cascade into more findings.
 	Broken bool

@@ -348,6 +348,7 @@ func (r *resolver) between(ft *Feature) {
 	ft.Dir = a.Dir
 	ft.Members[0].Point = a.Point().Add(b.Point()).Scale(0.5)
 	ft.HasGeometry = true
+	a.FaceOf, b.FaceOf = ft, ft
 }
 
 // target resolves a name: a feature, or a member written NAME.N.

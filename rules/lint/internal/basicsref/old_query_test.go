@@ -828,6 +828,9 @@ func FrameQuery(fr *model.Frame, seg *model.Segment, drf *dof.DRF) (q Query, ok 
 				ms = append(ms, d.Target.Feature.Members...)
 			}
 		}
+		if w := medianOf(r); w != nil {
+			ms = append(ms, w.Members...)
+		}
 		q.Refs = append(q.Refs, ms)
 	}
 	steps := drf.Steps()
@@ -842,4 +845,23 @@ func FrameQuery(fr *model.Frame, seg *model.Segment, drf *dof.DRF) (q Query, ok 
 		q.Free = append(q.Free, ts)
 	}
 	return q, true
+}
+
+// medianOf returns the width whose two faces a common datum's two
+// references are: two opposed parallel planes used as one datum establish
+// their median plane (ISO 5459:2011, common datum of two parallel planes),
+// which is that width's mid-plane; nil otherwise.
+func medianOf(r *model.DatumRef) *model.Feature {
+	if len(r.Datums) != 2 {
+		return nil
+	}
+	a, b := r.Datums[0], r.Datums[1]
+	if a == nil || b == nil || a.Target.Feature == nil || b.Target.Feature == nil {
+		return nil
+	}
+	w := a.Target.Feature.FaceOf
+	if w == nil || w != b.Target.Feature.FaceOf || a.Target.Feature == b.Target.Feature || w.Broken || !w.HasGeometry {
+		return nil
+	}
+	return w
 }
