@@ -74,7 +74,3 @@ func ModifierLetter(sym string) string {
 	s := strings.Trim(sym, "() \t")
 	return strings.ToUpper(s)
 }
-
-// CanonicalTolerance returns the ASCII spelling of a tolerance symbol such
-// as ± (+-).
-func CanonicalPlusMinus(string) string { return "+-" }

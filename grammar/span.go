@@ -54,8 +54,8 @@ type Node interface {
 }
 
 // node is embedded in every tree node; participle fills Pos and EndPos.
-// Line numbers are relative to the statement while parsing and made
-// absolute by the parser before the tree is handed out.
+// Tokens are moved to file positions before parsing, so the lines are
+// absolute.
 type node struct {
 	Pos    lexer.Position
 	EndPos lexer.Position
@@ -67,13 +67,4 @@ func (n *node) Span() Span {
 		return Span{}
 	}
 	return Span{Start: Pos{n.Pos.Line, n.Pos.Column}, End: Pos{n.EndPos.Line, n.EndPos.Column}}
-}
-
-func (n *node) shift(lines int) {
-	if n.Pos.Line > 0 {
-		n.Pos.Line += lines
-	}
-	if n.EndPos.Line > 0 {
-		n.EndPos.Line += lines
-	}
 }

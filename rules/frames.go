@@ -238,7 +238,7 @@ func runModifierIllegal(p *Pass) {
 					}
 				case "P":
 					if cat == model.Form || cat == model.Runout || cat == model.Profile || (known && !tgt.Kind.IsFOS()) {
-						p.Report(m.Span, "a projected tolerance zone (P) applies to the orientation or position of a hole or pin, not to %s of a %s", c, kindOr(tgt))
+						p.Report(m.Span, "a projected tolerance zone (P) applies to the orientation or position of a hole or pin, not to %s of a %s", c, kindWord(tgt))
 					}
 				}
 			}
@@ -259,13 +259,6 @@ func runModifierIllegal(p *Pass) {
 			}
 		}
 	}
-}
-
-func kindOr(f *model.Feature) string {
-	if f == nil {
-		return "feature"
-	}
-	return f.Kind.String()
 }
 
 // boundaryAllowed decides whether a surface datum feature may be referenced

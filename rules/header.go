@@ -1,7 +1,6 @@
 package rules
 
 import (
-	"fmt"
 	"strings"
 
 	"github.com/datumlint/datumlint/grammar"
@@ -125,10 +124,3 @@ two features that are not parallel planes describes nothing a gauge could establ
 		}
 	},
 })
-
-func plural(n int, one, many string) string {
-	if n == 1 {
-		return fmt.Sprintf("%d %s", n, one)
-	}
-	return fmt.Sprintf("%d %s", n, many)
-}

@@ -45,8 +45,10 @@ one name make every reference to it ambiguous; datumlint uses the first and repo
 	},
 })
 
+// kindWord names a feature's kind for a message, or "feature" where the
+// feature or its kind is unknown.
 func kindWord(f *model.Feature) string {
-	if f.Kind == model.KindUnknown {
+	if f == nil || f.Kind == model.KindUnknown {
 		return "feature"
 	}
 	return f.Kind.String()

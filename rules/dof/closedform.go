@@ -6,7 +6,7 @@ package dof
 // and the location zone of one plane (PrepareZone). The spaces are the
 // same as the SVDs', to rounding; the bases differ by a rotation within
 // them, which no count, name or twist depends on (the names and twists are
-// chosen from the subspaces: see readable and pick). The differential
+// chosen from the subspaces: see readableSplit and pick). The differential
 // tests hold both uses to the reference engine.
 
 // planeSpaces returns, for a valid plane (normal d, point p) within

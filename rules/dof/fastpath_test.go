@@ -142,17 +142,12 @@ func sameZoneResult(f Frame, a, b ZoneResult) bool {
 	return true
 }
 
-// sameMotions requires the same names, in the same order, and twists
-// that agree to rounding: within 1e-9 in normalised coordinates, where a
-// twist's components are of the order of 1. (The zone's invariance is no
+// SameMotions requires the same names, in the same order, and twists that
+// agree to rounding: within 1e-9 in normalised coordinates of frame f, where
+// a twist's components are of the order of 1. (The zone's invariance is no
 // longer orthonormalised twice, which changes the last bits of a zone's
 // twists, never their span, their count or the names printed from them.)
-func sameMotions(a, b []Motion) bool {
-	return SameMotions(plate, a, b)
-}
-
-// SameMotions is sameMotions for frame f, exported to the external test
-// package.
+// It is exported to the external test package.
 func SameMotions(f Frame, a, b []Motion) bool {
 	if len(a) != len(b) {
 		return false

@@ -6,19 +6,14 @@ import (
 	"strconv"
 )
 
-// readable returns motions that, together with k, span s (k ⊂ s, both
-// normalised): a basis of a complement of k in s chosen to read well rather
+// readableSplit returns motions that, together with k, span s (k ⊂ s, both
+// normalised, and already split by splitSpace): a basis of a complement of k in s chosen to read well rather
 // than an orthogonal one, which would mix rotations and translations in ways
 // that depend on the normalisation. Pure translations come first (they are
 // the part of s with ω = 0), snapped to the coordinate axes when an axis lies
 // in s; then one rotation per remaining direction of ω(s), again preferring
 // the axes, each with as little translation as s allows so that it names as
 // a rotation about an axis through a point.
-func (f Frame) readable(s, k space) []Motion {
-	return f.readableSplit(splitSpace(s), splitSpace(k))
-}
-
-// readableSplit is readable for spaces already split by splitSpace.
 func (f Frame) readableSplit(ss, ks split) []Motion {
 	n := max(len(ss.trans)-len(ks.trans), 0) + max(len(ss.rot)-len(ks.rot), 0)
 	if n == 0 {
