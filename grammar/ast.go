@@ -1,5 +1,7 @@
 package grammar
 
+import "github.com/datumlint/datumlint/grammar/source"
+
 // This file is the tree. The tags are the grammar (participle builds the
 // parser from them); each statement kind has its own root so that the parser
 // can be chosen from the statement's first word.
@@ -241,7 +243,7 @@ func (*BadStmt) stmt()      {}
 
 // Comment is a # comment, kept for the formatter and for suppressions.
 type Comment struct {
-	Span Span
+	Span source.Span
 	Text string // including the leading #
 	// Trailing is true when the comment ends a line that also holds code.
 	Trailing bool
@@ -265,7 +267,7 @@ type Extent struct {
 
 // SyntaxError is a positioned error in what was written.
 type SyntaxError struct {
-	Span Span
+	Span source.Span
 	Msg  string
 }
 

@@ -1,5 +1,6 @@
 package grammar
 
+import "github.com/datumlint/datumlint/grammar/source"
 import "fmt"
 
 // checkStmt makes the structural checks that the loose parts of the grammar
@@ -7,7 +8,7 @@ import "fmt"
 // Values (kinds, units, numbers) are the model's to judge.
 func checkStmt(st Stmt) []*SyntaxError {
 	var errs []*SyntaxError
-	add := func(n Span, format string, args ...any) {
+	add := func(n source.Span, format string, args ...any) {
 		errs = append(errs, &SyntaxError{Span: n, Msg: fmt.Sprintf(format, args...)})
 	}
 	switch s := st.(type) {
@@ -33,10 +34,10 @@ func checkStmt(st Stmt) []*SyntaxError {
 	return errs
 }
 
-func checkGeometry(g *Geometry, add func(Span, string, ...any)) {
+func checkGeometry(g *Geometry, add func(source.Span, string, ...any)) {
 	w := g.Word.Value
 	// where the next thing after the word stands, for "expected" messages
-	after := func() Span {
+	after := func() source.Span {
 		switch {
 		case g.Dir != nil:
 			return g.Dir.Span()
@@ -48,7 +49,7 @@ func checkGeometry(g *Geometry, add func(Span, string, ...any)) {
 			return g.Faces[0].Span()
 		}
 		e := g.Word.Span().End
-		return Span{e, Pos{e.Line, e.Col + 1}}
+		return source.Span{Start: e, End: source.Pos{Line: e.Line, Col: e.Col + 1}}
 	}
 	switch w {
 	case "normal", "axis", "along":
@@ -66,7 +67,7 @@ func checkGeometry(g *Geometry, add func(Span, string, ...any)) {
 			if len(g.Faces) > 0 {
 				sp = g.Faces[0].Span()
 			} else {
-				sp = Span{sp.End, Pos{sp.End.Line, sp.End.Col + 1}}
+				sp = source.Span{Start: sp.End, End: source.Pos{Line: sp.End.Line, Col: sp.End.Col + 1}}
 			}
 			add(sp, wantPoint)
 		}
@@ -114,7 +115,7 @@ var knownModifiers = map[string]string{
 	"U": "unequally disposed profile",
 }
 
-func checkTolerance(t *Tolerance, add func(Span, string, ...any)) {
+func checkTolerance(t *Tolerance, add func(source.Span, string, ...any)) {
 	for _, m := range t.Modifiers {
 		l := ModifierLetter(m.Symbol)
 		if _, ok := knownModifiers[l]; !ok {

@@ -3,6 +3,7 @@ package grammar
 import (
 	"errors"
 	"fmt"
+	"github.com/datumlint/datumlint/grammar/source"
 	"strings"
 
 	"github.com/alecthomas/participle/v2"
@@ -24,13 +25,13 @@ func friendly(err error, sig []token, eof lexer.Token) *SyntaxError {
 			break
 		}
 	}
-	var span Span
+	var span source.Span
 	var got string
 	if i < len(sig) {
 		span, got = sig[i].span, describe(sig[i].Token)
 	} else {
 		last := sig[len(sig)-1].span.End
-		span, got = Span{last, Pos{last.Line, last.Col + 1}}, "the end of the line"
+		span, got = source.Span{Start: last, End: source.Pos{Line: last.Line, Col: last.Col + 1}}, "the end of the line"
 	}
 	want := expectation(sig, i)
 	if want == "" {

@@ -14,7 +14,7 @@ import (
 //
 // The participle grammar (the tags in ast.go) stays the reference: this
 // parser must produce exactly the tree participle produces (same nodes, same
-// values, same Pos and EndPos) or nothing at all. It commits to an optional
+// values, same source.Pos and EndPos) or nothing at all. It commits to an optional
 // part of the grammar as soon as that part's first token is there and gives
 // up ("not handled", nil) at the first token it does not expect, so it
 // accepts only input that participle's greedy, ordered matching accepts the
@@ -24,7 +24,7 @@ import (
 //
 // Tokens come from scanOne, the scanner lexStmt uses (through scanNext), with positions moved
 // to the file as lexStmt moves them. Positions follow participle: a node's
-// Pos is its first significant token, its EndPos the raw token (whitespace
+// source.Pos is its first significant token, its EndPos the raw token (whitespace
 // included) after its last token, which always starts where that last token
 // ends, or the end of the statement.
 func fastParse(name string, rs rawStmt) Stmt {

@@ -3,6 +3,7 @@ package grammar
 import (
 	"bytes"
 	"fmt"
+	"github.com/datumlint/datumlint/grammar/source"
 	"os"
 	"strings"
 	"testing"
@@ -17,8 +18,8 @@ func fileLines(src []byte) []string {
 // spanIn reports why sp is not a valid span of a file's lines: 1-based
 // lines within the file, 1-based columns (characters) within their line or
 // just past its end, and an end that does not come before the start.
-func spanIn(lines []string, sp Span) error {
-	valid := func(p Pos) bool {
+func spanIn(lines []string, sp source.Span) error {
+	valid := func(p source.Pos) bool {
 		if p.Line < 1 || p.Line > len(lines) || p.Col < 1 {
 			return false
 		}
@@ -27,7 +28,7 @@ func spanIn(lines []string, sp Span) error {
 	// Something missing at the end of a line is shown as a one-character
 	// span just past the line's last character (a caret after it), so an
 	// end one further than the last column is valid there.
-	atEnd := valid(sp.Start) && sp.End == Pos{sp.Start.Line, sp.Start.Col + 1} &&
+	atEnd := valid(sp.Start) && sp.End == source.Pos{Line: sp.Start.Line, Col: sp.Start.Col + 1} &&
 		sp.Start.Col == utf8.RuneCountInString(strings.TrimSuffix(lines[sp.Start.Line-1], "\r"))+1
 	switch {
 	case !valid(sp.Start):

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
+	"github.com/datumlint/datumlint/grammar/source"
 	"strings"
 	"sync"
 	"unicode/utf8"
@@ -54,7 +55,7 @@ func Parse(name string, src []byte) *File {
 	body := bytes.TrimPrefix(src, []byte("\xef\xbb\xbf")) // a byte-order mark is not content
 	if looksBinary(body) {
 		f.Errors = append(f.Errors, &SyntaxError{
-			Span: Span{Pos{1, 1}, Pos{1, 2}},
+			Span: source.Span{Start: source.Pos{Line: 1, Col: 1}, End: source.Pos{Line: 1, Col: 2}},
 			Msg:  "this file holds binary data (a NUL byte), not callout text; check that the right file was named",
 		})
 		return f
@@ -63,7 +64,7 @@ func Parse(name string, src []byte) *File {
 	for _, ln := range lines {
 		if ln.comment != "" {
 			f.Comments = append(f.Comments, &Comment{
-				Span:     Span{Pos{ln.num, ln.cmtCol}, Pos{ln.num, ln.cmtCol + utf8.RuneCountInString(ln.comment)}},
+				Span:     source.Span{Start: source.Pos{Line: ln.num, Col: ln.cmtCol}, End: source.Pos{Line: ln.num, Col: ln.cmtCol + utf8.RuneCountInString(ln.comment)}},
 				Text:     ln.comment,
 				Trailing: strings.TrimSpace(ln.code) != "",
 			})
@@ -93,7 +94,7 @@ func looksBinary(b []byte) bool {
 // token is a significant token with its absolute span.
 type token struct {
 	lexer.Token
-	span Span
+	span source.Span
 }
 
 // lexStmt lexes one statement and moves its tokens to file positions.
@@ -106,15 +107,15 @@ func lexStmt(name string, rs rawStmt) (all []lexer.Token, sig []token, eof lexer
 	all, eof, e := scanTokens(name, rs.text)
 	if e != nil {
 		var pe interface{ Position() lexer.Position }
-		pos, at := Pos{rs.first, 1}, 0
+		pos, at := source.Pos{Line: rs.first, Col: 1}, 0
 		if errors.As(e, &pe) {
 			p := pe.Position()
-			pos, at = Pos{rs.first + p.Line - 1, p.Column}, p.Offset
+			pos, at = source.Pos{Line: rs.first + p.Line - 1, Col: p.Column}, p.Offset
 		}
 		rest := rs.text[min(len(rs.text), max(0, at)):]
 		r, _ := utf8.DecodeRuneInString(rest)
 		return nil, nil, eof, &SyntaxError{
-			Span: Span{pos, Pos{pos.Line, pos.Col + 1}},
+			Span: source.Span{Start: pos, End: source.Pos{Line: pos.Line, Col: pos.Col + 1}},
 			Msg:  unexpectedChar(r, rest),
 		}
 	}
@@ -131,7 +132,7 @@ func lexStmt(name string, rs rawStmt) (all []lexer.Token, sig []token, eof lexer
 		if t.Type != tokWhitespace {
 			end := t.Pos
 			end.Advance(t.Value)
-			sig = append(sig, token{*t, Span{Pos{t.Pos.Line, t.Pos.Column}, Pos{end.Line, end.Column}}})
+			sig = append(sig, token{*t, source.Span{Start: source.Pos{Line: t.Pos.Line, Col: t.Pos.Column}, End: source.Pos{Line: end.Line, Col: end.Column}}})
 		}
 	}
 	return all, sig, eof, nil
@@ -149,10 +150,10 @@ func badText(rs rawStmt) *SyntaxError {
 			i += w
 			continue
 		case r == utf8.RuneError && w == 1:
-			return &SyntaxError{Span: Span{Pos{line, col}, Pos{line, col + 1}},
+			return &SyntaxError{Span: source.Span{Start: source.Pos{Line: line, Col: col}, End: source.Pos{Line: line, Col: col + 1}},
 				Msg: fmt.Sprintf("invalid UTF-8 byte 0x%02x: save the file as UTF-8 (ASCII is always enough)", rs.text[i])}
 		case r < 0x20 && r != '\t' && r != '\r' && r != '\f' && r != '\v':
-			return &SyntaxError{Span: Span{Pos{line, col}, Pos{line, col + 1}},
+			return &SyntaxError{Span: source.Span{Start: source.Pos{Line: line, Col: col}, End: source.Pos{Line: line, Col: col + 1}},
 				Msg: fmt.Sprintf("control character U+%04X in the text: remove it", r)}
 		}
 		i += w
@@ -170,7 +171,7 @@ func parseStmt(name string, rs rawStmt) Stmt {
 	if len(rs.text) > MaxStmtBytes {
 		// The fallback parser's memory grows with the statement; no real
 		// statement comes near this, so say so instead of trying.
-		return bad(rs, nil, &SyntaxError{Span: Span{Pos{rs.first, 1}, Pos{rs.first, 2}},
+		return bad(rs, nil, &SyntaxError{Span: source.Span{Start: source.Pos{Line: rs.first, Col: 1}, End: source.Pos{Line: rs.first, Col: 2}},
 			Msg: fmt.Sprintf("this statement is %d bytes long and does not parse; statements over %d bytes are not read further: check the line for text that does not belong to it", len(rs.text), MaxStmtBytes)})
 	}
 	all, sig, eof, lerr := lexStmt(name, rs)
@@ -178,7 +179,7 @@ func parseStmt(name string, rs rawStmt) Stmt {
 		return bad(rs, sig, lerr)
 	}
 	if len(sig) == 0 { // cannot happen: blank lines are not statements
-		return bad(rs, sig, &SyntaxError{Span: Span{Pos{rs.first, 1}, Pos{rs.first, 1}}, Msg: "empty statement"})
+		return bad(rs, sig, &SyntaxError{Span: source.Span{Start: source.Pos{Line: rs.first, Col: 1}, End: source.Pos{Line: rs.first, Col: 1}}, Msg: "empty statement"})
 	}
 	first := sig[0]
 	var (

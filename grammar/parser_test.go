@@ -1,6 +1,7 @@
 package grammar
 
 import (
+	"github.com/datumlint/datumlint/grammar/source"
 	"strings"
 	"testing"
 )
@@ -205,7 +206,7 @@ func TestHostileInputNeverPanics(t *testing.T) {
 func TestOverlongStatement(t *testing.T) {
 	src := "units mm\nfeature base plane normal -z at (0,0,0) " + strings.Repeat("a @ ", MaxStmtBytes/4+1) + "\nunits in\n"
 	f := Parse("t", []byte(src))
-	if len(f.Errors) != 1 || f.Errors[0].Span.Start != (Pos{2, 1}) || !strings.Contains(f.Errors[0].Msg, "bytes long") {
+	if len(f.Errors) != 1 || f.Errors[0].Span.Start != (source.Pos{Line: 2, Col: 1}) || !strings.Contains(f.Errors[0].Msg, "bytes long") {
 		t.Fatalf("errors %v", f.Errors)
 	}
 	if len(f.Stmts) != 3 {

@@ -2,6 +2,7 @@ package rules
 
 import (
 	"fmt"
+	"github.com/datumlint/datumlint/grammar/source"
 	"regexp"
 	"runtime/debug"
 	"sort"
@@ -49,7 +50,7 @@ func CheckFile(f *grammar.File, part *model.Part, s *Settings) []Diagnostic {
 		var found []Diagnostic
 		pass := &Pass{Rule: r, Part: part, File: f, Facts: facts, out: &found}
 		if err := runSafely(r, pass); err != "" {
-			out = append(out, Diagnostic{File: f.Name, Span: grammar.Span{Start: grammar.Pos{Line: 1, Col: 1}, End: grammar.Pos{Line: 1, Col: 2}},
+			out = append(out, Diagnostic{File: f.Name, Span: source.Span{Start: source.Pos{Line: 1, Col: 1}, End: source.Pos{Line: 1, Col: 2}},
 				Rule: InternalRule, Severity: Error,
 				Message: fmt.Sprintf("internal error in rule %s while checking this file (please report it): %s", r.ID, err)})
 		}

@@ -1,11 +1,11 @@
 package rules
 
 import (
+	"github.com/datumlint/datumlint/grammar/source"
 	"regexp"
 	"slices"
 	"strings"
 
-	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/grammar/model"
 )
 
@@ -137,8 +137,8 @@ func badLetters(s string) string {
 }
 
 // refsSpan covers a segment's datum references.
-func refsSpan(refs []*model.DatumRef) grammar.Span {
-	var sp grammar.Span
+func refsSpan(refs []*model.DatumRef) source.Span {
+	var sp source.Span
 	for _, r := range refs {
 		sp = sp.Join(r.Span)
 	}

@@ -3,6 +3,7 @@ package rules
 import (
 	"bytes"
 	"fmt"
+	"github.com/datumlint/datumlint/grammar/source"
 	"io/fs"
 	"os"
 	"path/filepath"
@@ -10,7 +11,6 @@ import (
 	"testing"
 	"unicode/utf8"
 
-	"github.com/datumlint/datumlint/grammar"
 )
 
 // checkSeeds are hostile and odd inputs, besides the repository's test data.
@@ -84,15 +84,15 @@ func checkFindings(t *testing.T, src []byte) {
 // 1-based, within the file, columns (characters) within their line or just
 // past its end, the end not before the start. Something missing at the end
 // of a line is shown as a one-character span just past its last character.
-func spanWithin(lines []string, sp grammar.Span) error {
+func spanWithin(lines []string, sp source.Span) error {
 	width := func(l int) int { return utf8.RuneCountInString(strings.TrimSuffix(lines[l-1], "\r")) }
-	valid := func(p grammar.Pos) bool {
+	valid := func(p source.Pos) bool {
 		return p.Line >= 1 && p.Line <= len(lines) && p.Col >= 1 && p.Col <= width(p.Line)+1
 	}
 	switch {
 	case !valid(sp.Start):
 		return fmt.Errorf("start %v outside the file (%d lines)", sp.Start, len(lines))
-	case sp.Start.Col == width(sp.Start.Line)+1 && sp.End == grammar.Pos{Line: sp.Start.Line, Col: sp.Start.Col + 1}:
+	case sp.Start.Col == width(sp.Start.Line)+1 && sp.End == source.Pos{Line: sp.Start.Line, Col: sp.Start.Col + 1}:
 		return nil
 	case !valid(sp.End):
 		return fmt.Errorf("end %v outside the file", sp.End)

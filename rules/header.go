@@ -1,9 +1,8 @@
 package rules
 
 import (
+	"github.com/datumlint/datumlint/grammar/source"
 	"strings"
-
-	"github.com/datumlint/datumlint/grammar"
 )
 
 // Syntax reports what does not parse, and values the notation does not
@@ -58,7 +57,7 @@ Y14.5-2018. A drawing states both in its title block; the callout file must too.
 		}
 		sp := p.Part.FirstStmt
 		if sp.IsZero() {
-			sp = grammar.Span{Start: grammar.Pos{Line: 1, Col: 1}, End: grammar.Pos{Line: 1, Col: 2}}
+			sp = source.Span{Start: source.Pos{Line: 1, Col: 1}, End: source.Pos{Line: 1, Col: 2}}
 		}
 		what := "units"
 		switch {

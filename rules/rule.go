@@ -5,6 +5,7 @@ package rules
 
 import (
 	"fmt"
+	"github.com/datumlint/datumlint/grammar/source"
 	"sort"
 	"strings"
 
@@ -63,7 +64,7 @@ type Rule struct {
 // Diagnostic is one finding.
 type Diagnostic struct {
 	File     string
-	Span     grammar.Span
+	Span     source.Span
 	Rule     string
 	Severity Severity
 	Message  string
@@ -83,9 +84,9 @@ type Pass struct {
 }
 
 // Report records a finding at a span.
-func (p *Pass) Report(sp grammar.Span, format string, args ...any) {
+func (p *Pass) Report(sp source.Span, format string, args ...any) {
 	if sp.End.Line == 0 || sp.End.Before(sp.Start) {
-		sp.End = grammar.Pos{Line: sp.Start.Line, Col: sp.Start.Col + 1}
+		sp.End = source.Pos{Line: sp.Start.Line, Col: sp.Start.Col + 1}
 	}
 	*p.out = append(*p.out, Diagnostic{
 		File:     p.File.Name,

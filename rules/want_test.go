@@ -2,13 +2,13 @@ package rules_test
 
 import (
 	"fmt"
+	"github.com/datumlint/datumlint/grammar/source"
 	"os"
 	"path/filepath"
 	"regexp"
 	"strings"
 	"testing"
 
-	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/rules"
 )
 
@@ -166,5 +166,5 @@ func TestNoPanicOnEveryPrefix(t *testing.T) {
 			}
 		}
 	}
-	_ = grammar.Pos{}
+	_ = source.Pos{}
 }

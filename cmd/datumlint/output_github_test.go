@@ -2,16 +2,16 @@ package main
 
 import (
 	"bytes"
+	"github.com/datumlint/datumlint/grammar/source"
 	"testing"
 
-	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/lint"
 )
 
 func TestGitHubEscaping(t *testing.T) {
-	at := func(l1, c1, l2, c2 int) grammar.Span {
-		return grammar.Span{Start: grammar.Pos{Line: l1, Col: c1}, End: grammar.Pos{Line: l2, Col: c2}}
+	at := func(l1, c1, l2, c2 int) source.Span {
+		return source.Span{Start: source.Pos{Line: l1, Col: c1}, End: source.Pos{Line: l2, Col: c2}}
 	}
 	res := lint.Result{Diagnostics: []rules.Diagnostic{
 		{File: "a,b:c%d.callouts", Span: at(3, 5, 3, 9), Rule: "zone-shape", Severity: rules.Warning,

@@ -5,6 +5,7 @@ import (
 	"encoding/hex"
 	"encoding/json"
 	"fmt"
+	"github.com/datumlint/datumlint/grammar/source"
 	"io"
 	"net/url"
 	"os"
@@ -289,7 +290,7 @@ func fileURI(abs string, dir bool) string {
 	return (&url.URL{Scheme: "file", Path: p}).String()
 }
 
-func regionOf(sp grammar.Span) *sarifRegion {
+func regionOf(sp source.Span) *sarifRegion {
 	if sp.Start.Line < 1 {
 		return nil
 	}

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"github.com/datumlint/datumlint/grammar/source"
 	"os"
 	"path/filepath"
 	"sort"
@@ -12,7 +13,6 @@ import (
 
 	"github.com/santhosh-tekuri/jsonschema/v6"
 
-	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/lint"
 )
@@ -252,7 +252,7 @@ func TestSARIFInternalErrorAndOutsideFile(t *testing.T) {
 	sch := compileSARIFSchema(t)
 	outside := filepath.Join(t.TempDir(), "elsewhere", "p q.callouts")
 	t.Chdir(t.TempDir())
-	sp := grammar.Span{Start: grammar.Pos{Line: 1, Col: 1}, End: grammar.Pos{Line: 1, Col: 2}}
+	sp := source.Span{Start: source.Pos{Line: 1, Col: 1}, End: source.Pos{Line: 1, Col: 2}}
 	res := lint.Result{
 		Diagnostics: []rules.Diagnostic{{File: outside, Span: sp, Rule: rules.InternalRule, Severity: rules.Error, Message: "internal error in rule x: boom"}},
 		Errors:      []*lint.PathError{{Path: "gone.callouts", Err: os.ErrNotExist}},

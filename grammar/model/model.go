@@ -4,10 +4,13 @@
 // geometry engines read this model; they never look at raw text.
 package model
 
-import "github.com/datumlint/datumlint/grammar"
+import (
+	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/source"
+)
 
 // Span is a source range.
-type Span = grammar.Span
+type Span = source.Span
 
 // Size is a feature's size or a dimension's tolerance: a nominal with an
 // upper and a lower deviation (limits are stored the same way).

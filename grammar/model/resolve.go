@@ -2,6 +2,7 @@ package model
 
 import (
 	"fmt"
+	"github.com/datumlint/datumlint/grammar/source"
 	"math"
 	"strconv"
 	"strings"
@@ -150,7 +151,7 @@ func Resolve(f *grammar.File) *Part {
 func firstLineSpan(f *grammar.File, i int) Span {
 	sp := f.Stmts[i].Span()
 	if sp.End.Line != sp.Start.Line {
-		sp.End = grammar.Pos{Line: sp.Start.Line, Col: sp.Start.Col + 1}
+		sp.End = source.Pos{Line: sp.Start.Line, Col: sp.Start.Col + 1}
 	}
 	return sp
 }
@@ -243,7 +244,7 @@ func (r *resolver) feature(s *grammar.FeatureStmt) *Feature {
 	if g == nil {
 		if ft.Kind != Surface {
 			e := s.Span().End
-			r.errorf(Span{Start: e, End: grammar.Pos{Line: e.Line, Col: e.Col + 1}}, "a %s needs its geometry: %s", ft.Kind, geometryExample[ft.Kind])
+			r.errorf(Span{Start: e, End: source.Pos{Line: e.Line, Col: e.Col + 1}}, "a %s needs its geometry: %s", ft.Kind, geometryExample[ft.Kind])
 		}
 		ft.Members = []*Member{{Feature: ft, Index: 1}}
 		return ft
@@ -482,7 +483,7 @@ func (r *resolver) segment(t *grammar.Tolerance, composite bool) *Segment {
 			}
 		}
 		// The ref's own span ends at the letters; the modifier is separate.
-		ref.Span = Span{Start: d.Span().Start, End: grammar.Pos{Line: d.Span().Start.Line, Col: d.Span().Start.Col + len([]rune(d.Name))}}
+		ref.Span = Span{Start: d.Span().Start, End: source.Pos{Line: d.Span().Start.Line, Col: d.Span().Start.Col + len([]rune(d.Name))}}
 		seg.Refs = append(seg.Refs, ref)
 	}
 	return seg

@@ -3,13 +3,13 @@ package lint
 import (
 	"bytes"
 	"fmt"
+	"github.com/datumlint/datumlint/grammar/source"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 	"unicode/utf8"
 
-	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/lint/internal/gen"
 )
@@ -100,7 +100,7 @@ func checkPositions(t *testing.T, src []byte, ds []rules.Diagnostic) {
 	t.Helper()
 	lines := strings.Split(string(bytes.TrimPrefix(src, []byte("\xef\xbb\xbf"))), "\n")
 	width := func(l int) int { return utf8.RuneCountInString(strings.TrimSuffix(lines[l-1], "\r")) }
-	valid := func(p grammar.Pos) bool {
+	valid := func(p source.Pos) bool {
 		return p.Line >= 1 && p.Line <= len(lines) && p.Col >= 1 && p.Col <= width(p.Line)+1
 	}
 	for _, d := range ds {
@@ -111,7 +111,7 @@ func checkPositions(t *testing.T, src []byte, ds []rules.Diagnostic) {
 			t.Errorf("finding of unregistered rule %q", d.Rule)
 		}
 		s := d.Span
-		pastEnd := valid(s.Start) && s.Start.Col == width(s.Start.Line)+1 && s.End == grammar.Pos{Line: s.Start.Line, Col: s.Start.Col + 1}
+		pastEnd := valid(s.Start) && s.Start.Col == width(s.Start.Line)+1 && s.End == source.Pos{Line: s.Start.Line, Col: s.Start.Col + 1}
 		if !valid(s.Start) || !pastEnd && (!valid(s.End) || s.End.Before(s.Start)) {
 			t.Errorf("%s: %s %.200q: span outside the file (%d lines)", s, d.Rule, d.Message, len(lines))
 		}
@@ -231,7 +231,7 @@ func TestSizeLimit(t *testing.T) {
 		t.Fatalf("want one finding on the file over the limit, got %s", summary(onBig))
 	}
 	d := onBig[0]
-	if d.Span.Start != (grammar.Pos{Line: 1, Col: 1}) || d.Severity != rules.Error ||
+	if d.Span.Start != (source.Pos{Line: 1, Col: 1}) || d.Severity != rules.Error ||
 		!strings.Contains(d.Message, "size limit of 100 bytes") || !strings.Contains(d.Message, "--max-bytes") {
 		t.Errorf("unclear size-limit finding: %s %s %s", d.Span.Start, d.Severity, d.Message)
 	}
