@@ -61,17 +61,47 @@ type Rule struct {
 	Run       func(*Pass)
 }
 
-// Diagnostic is one finding.
+// Diagnostic is one finding: plain data, as go/analysis has it, so that
+// every output (text, JSON, SARIF, the report, the language server) shows
+// the same thing.
 type Diagnostic struct {
 	File     string
 	Span     source.Span
 	Rule     string
 	Severity Severity
 	Message  string
+	// Related are other places the finding speaks of ("already declared
+	// here").
+	Related []Related
+	// Fixes are edits that would clear the finding.
+	Fixes []Fix
 	// Suppressed is set when an allow comment silenced the finding; the
 	// text outputs leave it out, SARIF carries it as a suppression.
 	Suppressed    bool
 	Justification string
+}
+
+// Related is another place a finding speaks of.
+type Related struct {
+	Span    source.Span
+	Message string
+}
+
+// Fix is a suggested fix: edits of the checked file that clear the finding.
+// Safe marks a fix that keeps the meaning the rule cares about (inserting
+// a basic dimension with the model's value); a fix that is not safe changes
+// what the drawing says and needs the drafter's review (dropping a datum
+// reference).
+type Fix struct {
+	Message string
+	Edits   []Edit
+	Safe    bool
+}
+
+// Edit replaces the text of Span with NewText; an empty span inserts.
+type Edit struct {
+	Span    source.Span
+	NewText string
 }
 
 // Pass is what a rule sees: the part, its file and a way to report.
@@ -85,16 +115,18 @@ type Pass struct {
 
 // Report records a finding at a span.
 func (p *Pass) Report(sp source.Span, format string, args ...any) {
+	p.ReportDiagnostic(Diagnostic{Span: sp, Message: fmt.Sprintf(format, args...)})
+}
+
+// ReportDiagnostic records a finding given as data (with related places
+// and fixes); the file, rule and severity are the pass's.
+func (p *Pass) ReportDiagnostic(d Diagnostic) {
+	sp := d.Span
 	if sp.End.Line == 0 || sp.End.Before(sp.Start) {
 		sp.End = source.Pos{Line: sp.Start.Line, Col: sp.Start.Col + 1}
 	}
-	*p.out = append(*p.out, Diagnostic{
-		File:     p.File.Name,
-		Span:     sp,
-		Rule:     p.Rule.ID,
-		Severity: p.Rule.Severity,
-		Message:  fmt.Sprintf(format, args...),
-	})
+	d.Span, d.File, d.Rule, d.Severity = sp, p.File.Name, p.Rule.ID, p.Rule.Severity
+	*p.out = append(*p.out, d)
 }
 
 var registry = map[string]*Rule{}
