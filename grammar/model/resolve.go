@@ -534,31 +534,5 @@ func (r *resolver) dim(s *grammar.DimStmt) {
 	r.p.Dims = append(r.p.Dims, d)
 }
 
-// extent computes the box around every nominal point, for normalising.
-func (r *resolver) extent() {
-	lo := Vec{math.Inf(1), math.Inf(1), math.Inf(1)}
-	hi := Vec{math.Inf(-1), math.Inf(-1), math.Inf(-1)}
-	n := 0
-	biggest := 0.0
-	for _, ft := range r.p.Features {
-		for _, m := range ft.Members {
-			for i := 0; i < 3; i++ {
-				lo[i] = math.Min(lo[i], m.Point[i])
-				hi[i] = math.Max(hi[i], m.Point[i])
-			}
-			n++
-		}
-		if ft.Size != nil {
-			biggest = math.Max(biggest, math.Abs(ft.Size.Nominal))
-		}
-	}
-	if n == 0 {
-		r.p.Scale = 1
-		return
-	}
-	r.p.Center = lo.Add(hi).Scale(0.5)
-	r.p.Scale = math.Max(hi.Sub(lo).Norm(), biggest)
-	if r.p.Scale == 0 || math.IsInf(r.p.Scale, 0) || math.IsNaN(r.p.Scale) {
-		r.p.Scale = 1
-	}
-}
+// extent computes the part's extent (Part.Center and Part.Scale).
+func (r *resolver) extent() { r.p.measureExtent() }
