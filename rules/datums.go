@@ -1,12 +1,9 @@
 package rules
 
 import (
-	"github.com/datumlint/datumlint/grammar/source"
 	"regexp"
 	"slices"
 	"strings"
-
-	"github.com/datumlint/datumlint/grammar/model"
 )
 
 // DatumUndefined reports a reference to a letter that no datum declares.
@@ -87,7 +84,7 @@ setup that nothing uses, and often means a frame lost its reference to it.`,
 	Bad:    "datum A on base\ndatum D on lug\nframe bore: position dia 0.1 datums A",
 	Good:   "datum A on base\nframe bore: position dia 0.1 datums A",
 	Run: func(p *Pass) {
-		used := p.Facts.UsedLetters()
+		used := p.facts.usedLetters()
 		seen := map[string]bool{}
 		for _, d := range p.Part.Datums {
 			if d.Broken || seen[d.Letter] {
@@ -134,13 +131,4 @@ func badLetters(s string) string {
 		}
 	}
 	return strings.Join(out, " and ")
-}
-
-// refsSpan covers a segment's datum references.
-func refsSpan(refs []*model.DatumRef) source.Span {
-	var sp source.Span
-	for _, r := range refs {
-		sp = sp.Join(r.Span)
-	}
-	return sp
 }

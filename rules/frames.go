@@ -25,7 +25,7 @@ tolerance.`,
 			}
 			for _, seg := range fr.Segments {
 				if len(seg.Refs) > 0 {
-					p.Report(refsSpan(seg.Refs), "%s is a form tolerance and takes no datums: remove 'datums ...' (add a separate orientation or location frame if the feature must relate to a datum)", fr.Characteristic)
+					p.Report(seg.RefsSpan(), "%s is a form tolerance and takes no datums: remove 'datums ...' (add a separate orientation or location frame if the feature must relate to a datum)", fr.Characteristic)
 				}
 			}
 		}
@@ -51,7 +51,7 @@ concentricity and symmetry where the edition still has them.`,
 			// has them; under asme-2018 characteristic-withdrawn already
 			// reports the frame, so it is not reported twice.
 			needs := cat == model.Orientation || cat == model.Runout ||
-				((fr.Characteristic == "concentricity" || fr.Characteristic == "symmetry") && p.Part.Standard != model.ASME2018)
+				((fr.Characteristic == model.Concentricity || fr.Characteristic == model.Symmetry) && p.Part.Standard != model.ASME2018)
 			if needs && len(fr.Upper().Refs) == 0 {
 				p.Report(fr.CharSpan, "%s needs at least one datum reference: add e.g. 'datums A' naming the feature it relates to", fr.Characteristic)
 			}
@@ -76,9 +76,9 @@ both.`,
 		}
 		for _, fr := range p.Part.Frames {
 			switch fr.Characteristic {
-			case "concentricity":
+			case model.Concentricity:
 				p.Report(fr.CharSpan, "ASME Y14.5-2018 has no concentricity: use position (dia zone) for coaxiality, or circular runout, to the same datums")
-			case "symmetry":
+			case model.Symmetry:
 				p.Report(fr.CharSpan, "ASME Y14.5-2018 has no symmetry: use position of the width (its mid-plane) or profile to the same datums")
 			}
 		}
@@ -139,7 +139,7 @@ two parallel planes, in one direction only.`,
 			}
 			k := fr.Target.Feature.Kind
 			for _, seg := range fr.Segments {
-				if seg.Tree != nil && seg.Tree.Zone != nil && seg.Zone == "" {
+				if seg.ZoneText != "" && seg.Zone == "" {
 					continue // the word in the zone's place is reported already
 				}
 				if msg := zoneProblem(fr.Characteristic, k, seg.Zone); msg != "" {
@@ -164,9 +164,9 @@ func zoneProblem(c model.Characteristic, k model.Kind, zone string) string {
 			return fmt.Sprintf("the centre of a %s has a spherical zone: write sdia instead of dia", k)
 		case cat == model.Runout || cat == model.Profile:
 			return fmt.Sprintf("%s has no cylindrical zone: remove dia", c)
-		case c == "flatness" || c == "circularity" || c == "cylindricity":
+		case c == model.Flatness || c == model.Circularity || c == model.Cylindricity:
 			return fmt.Sprintf("%s has a zone between two surfaces, not a cylinder: remove dia", c)
-		case c == "straightness" && !axial:
+		case c == model.Straightness && !axial:
 			return fmt.Sprintf("straightness of a %s's surface lines has a zone between two lines: remove dia (dia applies to the axis of a hole or pin)", k)
 		case !axial && k != model.KindUnknown && (cat == model.Location || cat == model.Orientation):
 			return fmt.Sprintf("a %s has no axis, so its %s zone cannot be a cylinder: remove dia (the zone is two parallel planes)", k, c)
@@ -176,7 +176,7 @@ func zoneProblem(c model.Characteristic, k model.Kind, zone string) string {
 			return fmt.Sprintf("a spherical zone (sdia) belongs to the position of a sphere's centre, not to %s of a %s", c, k)
 		}
 	case "":
-		if c == "position" && axial && k != model.Cone {
+		if c == model.Position && axial && k != model.Cone {
 			return fmt.Sprintf("the position of a %s is normally a cylindrical zone about its axis: write dia before the value (without it the zone is two parallel planes)", k)
 		}
 	}
@@ -206,7 +206,7 @@ func runModifierIllegal(p *Pass) {
 	for _, fr := range p.Part.Frames {
 		c, cat := fr.Characteristic, fr.Characteristic.Category()
 		tgt := fr.Target.Feature
-		known := fr.Target.Resolved() && !tgt.Broken && tgt.Kind != model.KindUnknown
+		known := fr.Target.Known()
 		for _, seg := range fr.Segments {
 			seen := map[string]bool{}
 			for _, m := range seg.Modifiers {
@@ -225,9 +225,9 @@ func runModifierIllegal(p *Pass) {
 					switch {
 					case cat == model.Runout:
 						p.Report(m.Span, "runout applies regardless of feature size: remove (%s)", m.Letter)
-					case c == "concentricity" || c == "symmetry":
+					case c == model.Concentricity || c == model.Symmetry:
 						p.Report(m.Span, "%s applies regardless of feature size: remove (%s)", c, m.Letter)
-					case c == "circularity" || c == "cylindricity":
+					case c == model.Circularity || c == model.Cylindricity:
 						p.Report(m.Span, "%s controls surface elements and cannot be applied at %s: remove (%s)", c, cond, m.Letter)
 					case known && !tgt.Kind.IsFOS():
 						p.Report(m.Span, "(%s) needs a feature of size; the %s '%s' is not a feature of size and has no size to vary: remove (%s), or put the frame on a feature of size", m.Letter, tgt.Kind, tgt.Name, m.Letter)
@@ -249,7 +249,7 @@ func runModifierIllegal(p *Pass) {
 				for _, d := range r.Datums {
 					f := d.Target.Feature
 					// A face of a width at MMB/LMB is midplane-ambiguous's finding.
-					if f.Broken || f.Kind == model.KindUnknown || f.Kind.IsFOS() || widthOfFace(p.Part, f) != nil {
+					if !f.Known() || f.Kind.IsFOS() || p.Part.WidthOfFace(f) != nil {
 						continue
 					}
 					if ok, why := boundaryAllowed(p, d, fr); !ok {
@@ -265,8 +265,8 @@ func runModifierIllegal(p *Pass) {
 // at MMB or LMB: under ASME Y14.5-2009 and later, a surface located by basic
 // dimensions and a position or profile tolerance to datums of higher
 // precedence has a boundary (ASME Y14.5-2018, datum features at MMB applied
-// to surfaces). The basic-dimension engine's check that the location is
-// fully basic is added by the basic-dimension rules.
+// to surfaces), and the basic-dimension engine says whether the location is
+// fully basic.
 func boundaryAllowed(p *Pass, d *model.Datum, in *model.Frame) (bool, string) {
 	if !p.Part.Standard.IsASME() {
 		return false, "remove the modifier (ISO 2692 applies the maximum material requirement to datum features of size)"
@@ -274,29 +274,11 @@ func boundaryAllowed(p *Pass, d *model.Datum, in *model.Frame) (bool, string) {
 	f := d.Target.Feature
 	for _, fr := range p.Part.FramesOn(f) {
 		cat := fr.Characteristic.Category()
-		if (fr.Characteristic == "position" || cat == model.Profile) && len(fr.Upper().Refs) > 0 && !refersTo(fr, d.Letter) {
-			if locatedByBasics(p, f, fr) {
+		if (fr.Characteristic == model.Position || cat == model.Profile) && len(fr.Upper().Refs) > 0 && !fr.RefersTo(d.Letter) {
+			if p.Basics().Located(fr) {
 				return true, ""
 			}
 		}
 	}
 	return false, fmt.Sprintf("remove the modifier, or locate %s with basic dimensions and a profile or position tolerance to the higher-precedence datums", f.Name)
-}
-
-// locatedByBasics is replaced by the basic-dimension engine's answer when
-// that engine is linked in; by default a located tolerance is taken as
-// locating the surface.
-var locatedByBasics = func(p *Pass, f *model.Feature, fr *model.Frame) bool { return true }
-
-func refersTo(fr *model.Frame, letter string) bool {
-	for _, seg := range fr.Segments {
-		for _, r := range seg.Refs {
-			for _, l := range r.Letters {
-				if l == letter {
-					return true
-				}
-			}
-		}
-	}
-	return false
 }

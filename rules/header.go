@@ -1,8 +1,9 @@
 package rules
 
 import (
-	"github.com/datumlint/datumlint/grammar/source"
 	"strings"
+
+	"github.com/datumlint/datumlint/grammar/model"
 )
 
 // Syntax reports what does not parse, and values the notation does not
@@ -19,11 +20,10 @@ file is still checked.`,
 	Bad:    "feature bore hole size 25 +0.05 -0 axis at (60, 40, 0)",
 	Good:   "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)",
 	Run: func(p *Pass) {
-		for _, e := range p.File.Errors {
-			p.Report(e.Span, "%s", e.Msg)
-		}
-		for _, e := range p.Part.Errors {
-			p.Report(e.Span, "%s", e.Msg)
+		for _, e := range p.Part.Problems {
+			if e.Kind == model.Syntax {
+				p.Report(e.Span, "%s", e.Message)
+			}
 		}
 	},
 })
@@ -55,10 +55,7 @@ Y14.5-2018. A drawing states both in its title block; the callout file must too.
 		if len(miss) == 0 {
 			return
 		}
-		sp := p.Part.FirstStmt
-		if sp.IsZero() {
-			sp = source.Span{Start: source.Pos{Line: 1, Col: 1}, End: source.Pos{Line: 1, Col: 2}}
-		}
+		sp := p.Part.FirstStatement()
 		what := "units"
 		switch {
 		case !has["units"] && !has["standard"]:
@@ -87,9 +84,9 @@ var HeaderDuplicate = Register(&Rule{
 	Run: func(p *Pass) {
 		seen := map[string]int{}
 		firstFeature := 0
-		for _, st := range p.File.Stmts {
-			if st.Keyword() == "feature" {
-				firstFeature = st.Span().Start.Line
+		for _, st := range p.Part.Statements {
+			if st.Keyword == "feature" {
+				firstFeature = st.Span.Start.Line
 				break
 			}
 		}
@@ -118,8 +115,10 @@ two features that are not parallel planes describes nothing a gauge could establ
 	Bad:    "feature top plane normal +z at (0, 0, 10)\nfeature side plane normal +x at (0, 0, 0)\nfeature web tab size 10 +-0.1 between top side",
 	Good:   "feature top plane normal +z at (0, 0, 10)\nfeature bottom plane normal -z at (0, 0, 0)\nfeature web tab size 10 +-0.1 between top bottom",
 	Run: func(p *Pass) {
-		for _, e := range p.Part.GeometryErrors {
-			p.Report(e.Span, "%s", e.Msg)
+		for _, e := range p.Part.Problems {
+			if e.Kind == model.Geometry {
+				p.Report(e.Span, "%s", e.Message)
+			}
 		}
 	},
 })

@@ -67,7 +67,7 @@ envelope rule depend, come from its limits of size. Without a size those cannot 
 	Good:   "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)",
 	Run: func(p *Pass) {
 		for _, f := range append(p.Part.Features, p.Part.Duplicates...) {
-			if f.Broken || !f.Kind.IsFOS() || f.Size != nil || f.Stmt == nil || f.Stmt.Size != nil {
+			if f.Broken || !f.Kind.IsFOS() || f.Size != nil {
 				continue
 			}
 			p.Report(f.NameSpan, "the %s '%s' is a feature of size but has no size: add one after the kind, e.g. %s",

@@ -5,12 +5,14 @@ package rules
 
 import (
 	"fmt"
-	"github.com/datumlint/datumlint/grammar/source"
 	"sort"
 	"strings"
 
-	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/source"
+
 	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/rules/basics"
+	"github.com/datumlint/datumlint/rules/kinematics"
 )
 
 // Severity of a finding. Off disables a rule.
@@ -104,14 +106,22 @@ type Edit struct {
 	NewText string
 }
 
-// Pass is what a rule sees: the part, its file and a way to report.
+// Pass is what a rule sees: the part, the engines' results for it, and a
+// way to report.
 type Pass struct {
 	Rule  *Rule
 	Part  *model.Part
-	File  *grammar.File
-	Facts *Facts
+	facts *facts
 	out   *[]Diagnostic
 }
+
+// Kinematics returns the part's kinematic result (rules/kinematics),
+// computed once per part and shared by every rule.
+func (p *Pass) Kinematics() *kinematics.Result { return p.facts.kinematics() }
+
+// Basics returns the part's basic-dimension result (rules/basics),
+// computed once per part and shared by every rule.
+func (p *Pass) Basics() *basics.Analysis { return p.facts.basics() }
 
 // Report records a finding at a span.
 func (p *Pass) Report(sp source.Span, format string, args ...any) {
@@ -125,7 +135,7 @@ func (p *Pass) ReportDiagnostic(d Diagnostic) {
 	if sp.End.Line == 0 || sp.End.Before(sp.Start) {
 		sp.End = source.Pos{Line: sp.Start.Line, Col: sp.Start.Col + 1}
 	}
-	d.Span, d.File, d.Rule, d.Severity = sp, p.File.Name, p.Rule.ID, p.Rule.Severity
+	d.Span, d.File, d.Rule, d.Severity = sp, p.Part.Source.Name, p.Rule.ID, p.Rule.Severity
 	*p.out = append(*p.out, d)
 }
 

@@ -2,12 +2,14 @@ package rules_test
 
 import (
 	"fmt"
-	"github.com/datumlint/datumlint/grammar/source"
 	"os"
 	"path/filepath"
 	"regexp"
 	"strings"
 	"testing"
+
+	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/source"
 
 	"github.com/datumlint/datumlint/rules"
 )
@@ -101,7 +103,7 @@ func TestRuleData(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			checkWants(t, f, src, rules.Check(f, src, nil))
+			checkWants(t, f, src, rules.Check(grammar.Read(f, src), nil))
 		})
 	}
 }
@@ -141,7 +143,7 @@ func exampleFile(ex string) string {
 
 func count(rule, src string) int {
 	n := 0
-	for _, d := range rules.Check("example.callouts", []byte(src), nil) {
+	for _, d := range rules.Check(grammar.Read("example.callouts", []byte(src)), nil) {
 		if d.Rule == rule && !d.Suppressed {
 			n++
 		}
@@ -156,7 +158,7 @@ func TestNoPanicOnEveryPrefix(t *testing.T) {
 	for _, f := range files {
 		src, _ := os.ReadFile(f)
 		for i := 0; i < len(src); i += 7 {
-			for _, d := range rules.Check(f, src[:i], nil) {
+			for _, d := range rules.Check(grammar.Read(f, src[:i]), nil) {
 				if d.Rule == rules.InternalRule {
 					t.Fatalf("%s cut at %d: %s", f, i, d.Message)
 				}

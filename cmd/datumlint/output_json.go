@@ -21,9 +21,9 @@ type jsonFinding struct {
 
 // writeJSON prints a JSON array, one object per finding, sorted by file,
 // line and column (suppressed findings are left out).
-func writeJSON(w io.Writer, res lint.Result) error {
+func writeJSON(w io.Writer, res *lint.Result) error {
 	out := []jsonFinding{}
-	for _, d := range visible(res.Diagnostics) {
+	for _, d := range visible(res.Diagnostics()) {
 		out = append(out, jsonFinding{
 			File: d.File, Line: d.Span.Start.Line, Column: d.Span.Start.Col,
 			EndLine: d.Span.End.Line, EndColumn: d.Span.End.Col,

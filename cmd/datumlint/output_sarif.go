@@ -5,15 +5,16 @@ import (
 	"encoding/hex"
 	"encoding/json"
 	"fmt"
-	"github.com/datumlint/datumlint/grammar/source"
 	"io"
 	"net/url"
 	"os"
 	"path/filepath"
+	"sort"
 	"strings"
 	"unicode"
 
-	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/source"
+
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/lint"
 	"github.com/datumlint/datumlint/rules/ruledoc"
@@ -22,8 +23,6 @@ import (
 // SARIF 2.1.0 (OASIS Static Analysis Results Interchange Format), the
 // subset that code-scanning services read. Field names and meanings follow
 // the standard's sections cited beside them.
-
-func init() { formats["sarif"] = writeSARIF }
 
 const (
 	sarifSchema    = "https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/schemas/sarif-schema-2.1.0.json"
@@ -152,7 +151,7 @@ var internalRule = &rules.Rule{
 
 // writeSARIF prints one SARIF log with one run. Suppressed findings are
 // kept, with an inSource suppression carrying the allow comment's reason.
-func writeSARIF(w io.Writer, res lint.Result) error {
+func writeSARIF(w io.Writer, res *lint.Result) error {
 	cwd, err := os.Getwd()
 	if err != nil {
 		return err
@@ -179,9 +178,8 @@ func writeSARIF(w io.Writer, res lint.Result) error {
 	}
 	run.Invocations = []sarifInvocation{inv}
 
-	stmts := statementTexts{}
 	seen := map[string]int{}
-	for _, d := range res.Diagnostics {
+	for _, d := range res.Diagnostics() {
 		idx, ok := index[d.Rule]
 		if !ok {
 			// A finding under a rule the registry does not know would make an
@@ -206,7 +204,7 @@ func writeSARIF(w io.Writer, res lint.Result) error {
 		// the rule, the file, the statement's text with its spacing and
 		// comments normalised, and the message, not the line numbers. Equal
 		// findings on equal statements are told apart by their order.
-		key := strings.Join([]string{d.Rule, loc.URI, stmts.of(d.File, d.Span.Start.Line), d.Message}, "\x00")
+		key := strings.Join([]string{d.Rule, loc.URI, statementText(res.File(d.File), d.Span.Start.Line), d.Message}, "\x00")
 		n := seen[key]
 		seen[key]++
 		sum := sha256.Sum256([]byte(fmt.Sprintf("%s\x00%d", key, n)))
@@ -301,48 +299,22 @@ func regionOf(sp source.Span) *sarifRegion {
 	return r
 }
 
-// statementTexts gives, per file and line, the normalised text of the
-// statement holding the line: its physical lines with comments removed and
-// runs of spaces made one. A line outside every statement (a comment line,
-// an empty file) stands for itself.
-type statementTexts map[string]*parsedLines
-
-type parsedLines struct {
-	lines []string
-	f     *grammar.File
-}
-
-func (st statementTexts) of(file string, line int) string {
-	p, ok := st[file]
-	if !ok {
-		p = &parsedLines{lines: readLines(file)}
-		if p.lines != nil {
-			// Parsed from the lines as read (BOM and CRs dropped), so that
-			// comment columns index the same text.
-			p.f = grammar.Parse(file, []byte(strings.Join(p.lines, "\n")))
-		}
-		st[file] = p
-	}
-	if p.f == nil || line < 1 || line > len(p.lines) {
+// statementText gives the normalised text of the statement holding a line
+// of a file (model.Statement.Text: comments removed, runs of spaces made
+// one). A line outside every statement (a comment line, an empty file)
+// stands for itself.
+func statementText(f *lint.File, line int) string {
+	if f == nil || f.Source == nil || line < 1 || line > f.Source.Lines() {
 		return ""
 	}
-	first, last := line, line
-	for _, e := range p.f.Extents {
-		if e.First <= line && line <= e.Last {
-			first, last = e.First, e.Last
-			break
-		}
+	st := f.Statements
+	i := sort.Search(len(st), func(i int) bool { return st[i].Last >= line })
+	if i < len(st) && st[i].First <= line {
+		return st[i].Text
 	}
-	var b strings.Builder
-	for l := first; l <= last && l <= len(p.lines); l++ {
-		text := []rune(p.lines[l-1])
-		for _, c := range p.f.Comments {
-			if c.Span.Start.Line == l && c.Trailing && c.Span.Start.Col-1 <= len(text) {
-				text = text[:c.Span.Start.Col-1]
-			}
-		}
-		b.WriteString(string(text))
-		b.WriteByte(' ')
+	text := strings.TrimRight(string(f.Source.LineBytes(line)), "\r")
+	if line == 1 {
+		text = strings.TrimPrefix(text, "\ufeff")
 	}
-	return strings.Join(strings.Fields(b.String()), " ")
+	return strings.Join(strings.Fields(text), " ")
 }

@@ -4,12 +4,13 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
-	"github.com/datumlint/datumlint/grammar/source"
 	"os"
 	"path/filepath"
 	"sort"
 	"strings"
 	"testing"
+
+	"github.com/datumlint/datumlint/grammar/source"
 
 	"github.com/santhosh-tekuri/jsonschema/v6"
 
@@ -254,11 +255,11 @@ func TestSARIFInternalErrorAndOutsideFile(t *testing.T) {
 	t.Chdir(t.TempDir())
 	sp := source.Span{Start: source.Pos{Line: 1, Col: 1}, End: source.Pos{Line: 1, Col: 2}}
 	res := lint.Result{
-		Diagnostics: []rules.Diagnostic{{File: outside, Span: sp, Rule: rules.InternalRule, Severity: rules.Error, Message: "internal error in rule x: boom"}},
-		Errors:      []*lint.PathError{{Path: "gone.callouts", Err: os.ErrNotExist}},
+		Files:  []*lint.File{{Path: outside, Diagnostics: []rules.Diagnostic{{File: outside, Span: sp, Rule: rules.InternalRule, Severity: rules.Error, Message: "internal error in rule x: boom"}}}},
+		Errors: []*lint.PathError{{Path: "gone.callouts", Err: os.ErrNotExist}},
 	}
 	var out bytes.Buffer
-	if err := writeSARIF(&out, res); err != nil {
+	if err := writeSARIF(&out, &res); err != nil {
 		t.Fatal(err)
 	}
 	validateSARIF(t, sch, out.Bytes())

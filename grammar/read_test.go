@@ -1,4 +1,4 @@
-package model
+package grammar_test
 
 import (
 	"math"
@@ -6,15 +6,16 @@ import (
 	"testing"
 
 	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/model"
 )
 
-func resolve(t *testing.T, src string) *Part {
+func resolve(t *testing.T, src string) *model.Part {
 	t.Helper()
 	f := grammar.Parse("t.callouts", []byte("units mm\nstandard asme-2018\n"+src))
 	if len(f.Errors) > 0 {
 		t.Fatalf("syntax: %v", f.Errors)
 	}
-	return Resolve(f)
+	return grammar.Resolve(f)
 }
 
 // TestMaterialConditions: MMC is the smallest size of an internal feature
@@ -48,15 +49,15 @@ feature w slot size 12 +-0.05 between l r
 	if !w.HasGeometry || w.Point()[0] != 16 || math.Abs(math.Abs(w.Dir[0])-1) > 1e-12 {
 		t.Errorf("mid-plane %v through %v", w.Dir, w.Point())
 	}
-	if len(p.GeometryErrors) != 0 {
-		t.Errorf("unexpected geometry errors %v", p.GeometryErrors)
+	if len(problems(p, model.Geometry)) != 0 {
+		t.Errorf("unexpected geometry errors %v", problems(p, model.Geometry))
 	}
 	p = resolve(t, `feature l plane normal -x at (10, 0, 0)
 feature r plane normal +y at (22, 5, 5)
 feature w slot size 12 +-0.05 between l r
 `)
-	if len(p.GeometryErrors) != 1 || !strings.Contains(p.GeometryErrors[0].Msg, "not parallel") {
-		t.Errorf("want a not-parallel error, got %v", p.GeometryErrors)
+	if len(problems(p, model.Geometry)) != 1 || !strings.Contains(p.Problems[0].Message, "not parallel") {
+		t.Errorf("want a not-parallel error, got %v", problems(p, model.Geometry))
 	}
 }
 
@@ -106,10 +107,9 @@ func TestValueErrors(t *testing.T) {
 		"feature a hole size 2 +0.1 +0.2 axis +z at (0,0,0)":                                    "below the lower deviation",
 		"feature a plane normal +z at (0,0,0)\nframe a: perpendicularity 0.1 datums A, B, C, D": "at most three datums",
 	} {
-		f := grammar.Parse("t", []byte(src))
-		p := Resolve(f)
-		if len(p.Errors) != 1 || !strings.Contains(p.Errors[0].Msg, want) {
-			t.Errorf("%q: errors %v, want one containing %q", src, p.Errors, want)
+		p := grammar.Read("t", []byte(src))
+		if len(p.Problems) != 1 || !strings.Contains(p.Problems[0].Message, want) {
+			t.Errorf("%q: errors %v, want one containing %q", src, p.Problems, want)
 		}
 	}
 }
@@ -118,7 +118,7 @@ func TestScaleAndCentre(t *testing.T) {
 	p := resolve(t, `feature a plane normal +z at (0,0,0)
 feature b plane normal +z at (30,40,0)
 `)
-	if p.Scale != 50 || p.Center != (Vec{15, 20, 0}) {
+	if p.Scale != 50 || p.Center != (model.Vec{15, 20, 0}) {
 		t.Errorf("scale %g centre %v", p.Scale, p.Center)
 	}
 }
@@ -127,13 +127,23 @@ func TestZoneWords(t *testing.T) {
 	for src, want := range map[string]string{
 		"feature a plane normal +z at (0,0,0)\nframe a: flatness banana 0.02": "unknown zone 'banana'",
 	} {
-		p := Resolve(grammar.Parse("t", []byte(src)))
-		if len(p.Errors) != 1 || !strings.Contains(p.Errors[0].Msg, want) {
-			t.Errorf("%q: errors %v, want one containing %q", src, p.Errors, want)
+		p := grammar.Read("t", []byte(src))
+		if len(p.Problems) != 1 || !strings.Contains(p.Problems[0].Message, want) {
+			t.Errorf("%q: errors %v, want one containing %q", src, p.Problems, want)
 		}
 	}
-	p := Resolve(grammar.Parse("t", []byte("feature a hole size 1 +-0.1 axis +z at (0,0,0)\nframe a: position ⌀0.2\nframe a: position sdia 0.2")))
-	if len(p.Errors) != 0 {
-		t.Errorf("dia and sdia rejected: %v", p.Errors)
+	p := grammar.Read("t", []byte("feature a hole size 1 +-0.1 axis +z at (0,0,0)\nframe a: position ⌀0.2\nframe a: position sdia 0.2"))
+	if len(p.Problems) != 0 {
+		t.Errorf("dia and sdia rejected: %v", p.Problems)
 	}
+}
+
+func problems(p *model.Part, kind model.ProblemKind) []*model.Problem {
+	var out []*model.Problem
+	for _, e := range p.Problems {
+		if e.Kind == kind {
+			out = append(out, e)
+		}
+	}
+	return out
 }
