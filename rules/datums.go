@@ -4,6 +4,8 @@ import (
 	"regexp"
 	"slices"
 	"strings"
+
+	"github.com/datumlint/datumlint/grammar/model"
 )
 
 // DatumUndefined reports a reference to a letter that no datum declares.
@@ -48,14 +50,14 @@ datum twice, which fixes nothing more and usually hides a wrong letter.`,
 	Bad:    "datum A on base\ndatum A on rear",
 	Good:   "datum A on base\ndatum B on rear",
 	Run: func(p *Pass) {
-		first := map[string]*int{}
+		first := map[string]*model.Datum{}
 		for _, d := range p.Part.Datums {
-			if l := first[d.Letter]; l != nil {
-				p.Report(d.LetterSpan, "datum %s is already declared on line %d; choose another letter", d.Letter, *l)
+			if f := first[d.Letter]; f != nil {
+				p.ReportRelated(d.LetterSpan, []Related{{f.LetterSpan, "datum " + d.Letter + " is first declared here"}},
+					"datum %s is already declared on line %d; choose another letter", d.Letter, f.LetterSpan.Start.Line)
 				continue
 			}
-			line := d.LetterSpan.Start.Line
-			first[d.Letter] = &line
+			first[d.Letter] = d
 		}
 		for _, fr := range p.Part.Frames {
 			for _, seg := range fr.Segments {

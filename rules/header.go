@@ -4,6 +4,7 @@ import (
 	"strings"
 
 	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/grammar/source"
 )
 
 // Syntax reports what does not parse, and values the notation does not
@@ -82,22 +83,24 @@ var HeaderDuplicate = Register(&Rule{
 	Bad:    "units mm\nstandard asme-2018\nunits in",
 	Good:   "units mm\nstandard asme-2018",
 	Run: func(p *Pass) {
-		seen := map[string]int{}
-		firstFeature := 0
+		seen := map[string]source.Span{}
+		var firstFeature source.Span
 		for _, st := range p.Part.Statements {
 			if st.Keyword == "feature" {
-				firstFeature = st.Span.Start.Line
+				firstFeature = st.Span
 				break
 			}
 		}
 		for _, h := range p.Part.Headers {
-			if line, ok := seen[h.Keyword]; ok {
-				p.Report(h.Span, "'%s' is already declared on line %d; keep one", h.Keyword, line)
+			if first, ok := seen[h.Keyword]; ok {
+				p.ReportRelated(h.Span, []Related{{first, "'" + h.Keyword + "' is first declared here"}},
+					"'%s' is already declared on line %d; keep one", h.Keyword, first.Start.Line)
 				continue
 			}
-			seen[h.Keyword] = h.Span.Start.Line
-			if firstFeature > 0 && h.Span.Start.Line > firstFeature {
-				p.Report(h.Span, "'%s' comes after the first feature (line %d); move the header to the top of the file", h.Keyword, firstFeature)
+			seen[h.Keyword] = h.Span
+			if !firstFeature.IsZero() && h.Span.Start.Line > firstFeature.Start.Line {
+				p.ReportRelated(h.Span, []Related{{firstFeature, "the first feature"}},
+					"'%s' comes after the first feature (line %d); move the header to the top of the file", h.Keyword, firstFeature.Start.Line)
 			}
 		}
 	},

@@ -40,7 +40,8 @@ one name make every reference to it ambiguous; datumlint uses the first and repo
 	Run: func(p *Pass) {
 		for _, d := range p.Part.Duplicates {
 			first := p.Part.Feature(d.Name)
-			p.Report(d.NameSpan, "the feature name '%s' is already declared on line %d; give this %s a name of its own", d.Name, first.NameSpan.Start.Line, kindWord(d))
+			p.ReportRelated(d.NameSpan, []Related{{first.NameSpan, "'" + d.Name + "' is first declared here"}},
+				"the feature name '%s' is already declared on line %d; give this %s a name of its own", d.Name, first.NameSpan.Start.Line, kindWord(d))
 		}
 	},
 })

@@ -81,7 +81,7 @@ func runMidplaneAmbiguous(p *Pass) {
 						if ok, _ := boundaryAllowed(p, d, fr); !ok {
 							atBoundary[d] = true
 							bound := map[string]string{"M": "MMB", "L": "LMB"}[r.Material]
-							p.Report(d.LetterSpan, "datum %s is on the face '%s' of the %s '%s' and is referenced at %s (line %d), but a single face has no material boundary, only the width has: attach the letter to the width, `datum %s on %s` (its mid-plane, which may be referenced at %s), or remove (%s)",
+							p.ReportRelated(d.LetterSpan, []Related{{r.Span, "referenced at " + bound + " here"}}, "datum %s is on the face '%s' of the %s '%s' and is referenced at %s (line %d), but a single face has no material boundary, only the width has: attach the letter to the width, `datum %s on %s` (its mid-plane, which may be referenced at %s), or remove (%s)",
 								d.Letter, f.Name, w.Kind, w.Name, bound, r.Span.Start.Line, d.Letter, w.Name, bound, r.Material)
 						}
 					}
@@ -92,7 +92,7 @@ func runMidplaneAmbiguous(p *Pass) {
 					}
 					if other.Target.Feature != f && !bothFaces[d] {
 						bothFaces[d] = true
-						p.Report(d.LetterSpan, "datums %s and %s are on the two faces '%s' and '%s' of the %s '%s' and are used together (line %d): each letter designates one surface, but together they stand for the width, whose datum is its mid-plane; to mean the mid-plane write one letter on the width, `datum %s on %s`, and reference it alone",
+						p.ReportRelated(d.LetterSpan, []Related{{other.LetterSpan, "datum " + other.Letter + " is on the other face"}, {r.Span, "used together here"}}, "datums %s and %s are on the two faces '%s' and '%s' of the %s '%s' and are used together (line %d): each letter designates one surface, but together they stand for the width, whose datum is its mid-plane; to mean the mid-plane write one letter on the width, `datum %s on %s`, and reference it alone",
 							other.Letter, d.Letter, other.Target.Name, f.Name, w.Kind, w.Name, r.Span.Start.Line, other.Letter, w.Name)
 					}
 				}

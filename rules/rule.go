@@ -128,6 +128,11 @@ func (p *Pass) Report(sp source.Span, format string, args ...any) {
 	p.ReportDiagnostic(Diagnostic{Span: sp, Message: fmt.Sprintf(format, args...)})
 }
 
+// ReportRelated records a finding that speaks of another place too.
+func (p *Pass) ReportRelated(sp source.Span, related []Related, format string, args ...any) {
+	p.ReportDiagnostic(Diagnostic{Span: sp, Related: related, Message: fmt.Sprintf(format, args...)})
+}
+
 // ReportDiagnostic records a finding given as data (with related places
 // and fixes); the file, rule and severity are the pass's.
 func (p *Pass) ReportDiagnostic(d Diagnostic) {

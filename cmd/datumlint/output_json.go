@@ -17,6 +17,17 @@ type jsonFinding struct {
 	Rule      string `json:"rule"`
 	Severity  string `json:"severity"`
 	Message   string `json:"message"`
+	// Related (an extension of the contract's object, present only where
+	// a finding speaks of another place).
+	Related []jsonRelated `json:"related,omitempty"`
+}
+
+type jsonRelated struct {
+	Line      int    `json:"line"`
+	Column    int    `json:"column"`
+	EndLine   int    `json:"end_line"`
+	EndColumn int    `json:"end_column"`
+	Message   string `json:"message"`
 }
 
 // writeJSON prints a JSON array, one object per finding, sorted by file,
@@ -24,11 +35,16 @@ type jsonFinding struct {
 func writeJSON(w io.Writer, res *lint.Result) error {
 	out := []jsonFinding{}
 	for _, d := range visible(res.Diagnostics()) {
-		out = append(out, jsonFinding{
+		f := jsonFinding{
 			File: d.File, Line: d.Span.Start.Line, Column: d.Span.Start.Col,
 			EndLine: d.Span.End.Line, EndColumn: d.Span.End.Col,
 			Rule: d.Rule, Severity: d.Severity.String(), Message: d.Message,
-		})
+		}
+		for _, r := range d.Related {
+			f.Related = append(f.Related, jsonRelated{Line: r.Span.Start.Line, Column: r.Span.Start.Col,
+				EndLine: r.Span.End.Line, EndColumn: r.Span.End.Col, Message: r.Message})
+		}
+		out = append(out, f)
 	}
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")

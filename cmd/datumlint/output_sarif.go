@@ -96,12 +96,17 @@ type sarifResult struct {
 	Level               string             `json:"level"`
 	Message             sarifText          `json:"message"`
 	Locations           []sarifLocation    `json:"locations"`
+	RelatedLocations    []sarifLocation    `json:"relatedLocations,omitempty"`
 	PartialFingerprints map[string]string  `json:"partialFingerprints"`
 	Suppressions        []sarifSuppression `json:"suppressions,omitempty"`
 }
 
+// sarifLocation is a location (§3.28); a related location has an id unique
+// within its result and a message (§3.27.22).
 type sarifLocation struct {
+	ID               *int          `json:"id,omitempty"`
 	PhysicalLocation sarifPhysical `json:"physicalLocation"`
+	Message          *sarifText    `json:"message,omitempty"`
 }
 
 type sarifPhysical struct {
@@ -199,6 +204,12 @@ func writeSARIF(w io.Writer, res *lint.Result) error {
 			RuleID: d.Rule, RuleIndex: idx, Level: sarifLevel(d.Severity),
 			Message:   sarifText{Text: d.Message},
 			Locations: []sarifLocation{{PhysicalLocation: sarifPhysical{ArtifactLocation: loc, Region: regionOf(d.Span)}}},
+		}
+		for k, rel := range d.Related {
+			id := k
+			r.RelatedLocations = append(r.RelatedLocations, sarifLocation{ID: &id,
+				PhysicalLocation: sarifPhysical{ArtifactLocation: loc, Region: regionOf(rel.Span)},
+				Message:          &sarifText{Text: rel.Message}})
 		}
 		// The fingerprint survives edits that move the statement: it hashes
 		// the rule, the file, the statement's text with its spacing and

@@ -310,3 +310,49 @@ func TestSARIFFingerprintsSurviveMoves(t *testing.T) {
 		t.Errorf("editing one statement must change its fingerprint only:\nbefore  %v\nchanged %v", before, changed)
 	}
 }
+
+// A finding that speaks of another place carries it as a related location
+// (SARIF §3.27.22) with an id and a message, valid against the schema, and
+// the JSON finding carries it too.
+func TestRelatedLocations(t *testing.T) {
+	sch := compileSARIFSchema(t)
+	t.Chdir(t.TempDir())
+	src := "units mm\nstandard asme-2018\nfeature base plane normal -z at (0, 0, 0)\nfeature base plane normal +z at (0, 0, 10)\n"
+	if err := os.WriteFile("dup.callouts", []byte(src), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, code := runCLI(t, "check", "--format", "sarif", "dup.callouts")
+	if code != 1 {
+		t.Fatalf("exit %d, want 1", code)
+	}
+	validateSARIF(t, sch, out)
+	var doc struct {
+		Runs []struct {
+			Results []struct {
+				RuleID           string `json:"ruleId"`
+				RelatedLocations []struct {
+					ID               int `json:"id"`
+					PhysicalLocation struct {
+						Region struct{ StartLine, StartColumn int } `json:"region"`
+					} `json:"physicalLocation"`
+					Message struct{ Text string } `json:"message"`
+				} `json:"relatedLocations"`
+			} `json:"results"`
+		} `json:"runs"`
+	}
+	if err := json.Unmarshal(out, &doc); err != nil {
+		t.Fatal(err)
+	}
+	rs := doc.Runs[0].Results
+	if len(rs) != 1 || rs[0].RuleID != "name-duplicate" || len(rs[0].RelatedLocations) != 1 {
+		t.Fatalf("want one name-duplicate result with one related location, got %+v", rs)
+	}
+	rel := rs[0].RelatedLocations[0]
+	if rel.PhysicalLocation.Region.StartLine != 3 || rel.PhysicalLocation.Region.StartColumn != 9 || !strings.Contains(rel.Message.Text, "first declared") {
+		t.Errorf("related location %+v, want line 3 column 9, first declared", rel)
+	}
+	js, _ := runCLI(t, "check", "--format", "json", "dup.callouts")
+	if !bytes.Contains(js, []byte(`"related": [`)) || !bytes.Contains(js, []byte(`"line": 3`)) {
+		t.Errorf("JSON finding lacks its related place:\n%s", js)
+	}
+}
