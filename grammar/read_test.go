@@ -147,3 +147,76 @@ func problems(p *model.Part, kind model.ProblemKind) []*model.Problem {
 	}
 	return out
 }
+
+// The reader records in the model what rules and outputs need of the file
+// as written, so that none of them reads the syntax tree: the statements
+// (with the names of one that did not parse), the suppressions with the
+// rule identifiers' spans and the statement each covers, and the written
+// text and precision of values.
+func TestReaderRecordsTheFileAsWritten(t *testing.T) {
+	src := "units mm\nstandard asme-2018\n" +
+		"feature bolts hole 2x size 8.4 +-0.1 axis (0, 0.70711, 0.70711) at (15.125, 15, 0) (1e2, 15, 0)\n" +
+		"# datumlint: allow datum-unused, name-undefined -- kept for the fixture\n" +
+		"datum A on bolts\n" +
+		"frame bolts: position ⌀ 0.40 (M) datums A  # datumlint: allow zone-shape -- x\n" +
+		"feature lug tab size 10 +-0.1 between  \\\n  a b\n" +
+		"frame lug: flatnes 0.1 datums B\n"
+	p := grammar.Read("t.callouts", []byte(src))
+	if p.Source == nil || p.Source.Name != "t.callouts" || string(p.Source.Src) != src {
+		t.Fatal("the part does not keep its source")
+	}
+	var kw []string
+	for _, st := range p.Statements {
+		kw = append(kw, st.Keyword)
+	}
+	if got := strings.Join(kw, " "); got != "units standard feature datum frame feature frame" {
+		t.Errorf("statements %q", got)
+	}
+	if st := p.Statements[5]; st.First != 7 || st.Last != 8 || st.Text != `feature lug tab size 10 +-0.1 between \ a b` {
+		t.Errorf("continued statement: lines %d-%d text %q", st.First, st.Last, st.Text)
+	}
+	if st := p.Statements[4]; st.Text != "frame bolts: position ⌀ 0.40 (M) datums A" {
+		t.Errorf("a trailing comment is not part of the statement's text: %q", st.Text)
+	}
+	bad := p.Statements[6]
+	if !bad.Parsed {
+		// "flatnes" is a value the model does not know, not a syntax
+		// error: the statement parses.
+		if bad.Keyword != "frame" {
+			t.Errorf("bad statement %+v", bad)
+		}
+	}
+	if len(p.Suppressions) != 2 {
+		t.Fatalf("suppressions %+v", p.Suppressions)
+	}
+	own, trailing := p.Suppressions[0], p.Suppressions[1]
+	if own.Stmt != 3 || own.Trailing || own.Reason != "kept for the fixture" || strings.Join(own.Rules, ",") != "datum-unused,name-undefined" {
+		t.Errorf("own-line suppression %+v", own)
+	}
+	if sp := own.RuleSpans[1]; sp.Start.Line != 4 || sp.Start.Col != 34 || sp.End.Col != 48 {
+		t.Errorf("span of name-undefined in the directive: %v", sp)
+	}
+	if trailing.Stmt != 4 || !trailing.Trailing {
+		t.Errorf("trailing suppression %+v", trailing)
+	}
+	f := p.Feature("bolts")
+	if f.Size.Text != "8.4 +-0.1" {
+		t.Errorf("size text %q", f.Size.Text)
+	}
+	if f.Members[0].Decimals != [3]int{3, 0, 0} || f.Members[1].Decimals != [3]int{-1, 0, 0} || f.DirDecimals != [3]int{0, 5, 5} {
+		t.Errorf("decimals %v %v dir %v", f.Members[0].Decimals, f.Members[1].Decimals, f.DirDecimals)
+	}
+	seg := p.Frames[0].Upper()
+	if seg.ValueText != "0.40" || seg.ZoneText != "⌀" || seg.Zone != "dia" {
+		t.Errorf("segment value %q zone %q/%q", seg.ValueText, seg.ZoneText, seg.Zone)
+	}
+	if !p.Frames[0].Located() || p.Frames[1].Located() {
+		t.Error("position is located; an unknown characteristic is not")
+	}
+	if lug := p.Feature("lug"); lug.Members[0].Decimals != [3]int{-1, -1, -1} {
+		t.Errorf("a width between two faces has no written point: %v", lug.Members[0].Decimals)
+	}
+	if len(p.FramesOn(f)) != 1 || len(p.DatumsOn(f)) != 1 {
+		t.Error("frames and datums are indexed by feature")
+	}
+}
