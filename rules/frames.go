@@ -273,8 +273,7 @@ func boundaryAllowed(p *Pass, d *model.Datum, in *model.Frame) (bool, string) {
 	}
 	f := d.Target.Feature
 	for _, fr := range p.Part.FramesOn(f) {
-		cat := fr.Characteristic.Category()
-		if (fr.Characteristic == model.Position || cat == model.Profile) && len(fr.Upper().Refs) > 0 && !fr.RefersTo(d.Letter) {
+		if fr.Located() && len(fr.Upper().Refs) > 0 && !fr.RefersTo(d.Letter) {
 			if p.Basics().Located(fr) {
 				return true, ""
 			}

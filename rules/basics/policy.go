@@ -156,10 +156,10 @@ func Asks(fr *model.Frame, seg *model.Segment) (ask, orientation bool) {
 	switch {
 	case fr.Target.Resolved() && fr.Target.Feature.Kind == model.Surface:
 		return false, false
-	case fr.Characteristic == model.Position:
-		return true, false
-	case fr.Characteristic.Category() == model.Profile:
-		return len(seg.Refs) > 0, false
+	case fr.Located():
+		// A composite lower segment of a profile without datums refines
+		// form and orientation only.
+		return fr.Characteristic == model.Position || len(seg.Refs) > 0, false
 	case fr.Characteristic == model.Angularity:
 		return len(seg.Refs) > 0, true
 	}
