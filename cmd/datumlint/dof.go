@@ -42,8 +42,8 @@ type dofRef struct {
 	Constrains int    `json:"constrains"`
 }
 
-// dofSegment is a composite lower segment (an extension of the contract:
-// docs/notation.md, "Extensions: dof output").
+// dofSegment is a composite lower segment (an extension of version 0:
+// docs/notation.md, "The dof output").
 type dofSegment struct {
 	Line     int      `json:"line"`
 	Datums   []dofRef `json:"datums"`

@@ -2,6 +2,8 @@ package main
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"encoding/json"
 	"fmt"
 	"os"
@@ -18,27 +20,25 @@ import (
 	"github.com/datumlint/datumlint/rules/lint"
 )
 
-// sarifSchema compiles the OASIS SARIF 2.1.0 schema kept beside the
-// project (../shared/sarif/ from the project root), or skips the test.
+// compileSARIFSchema compiles the OASIS SARIF 2.1.0 schema kept in the
+// repository (testdata/sarif/, with its notice), after checking that the
+// copy is the one its README names: the OASIS terms allow copies, not
+// changes.
 func compileSARIFSchema(t *testing.T) *jsonschema.Schema {
 	t.Helper()
-	dir, err := os.Getwd()
+	dir := filepath.Join(projectRoot(t), "testdata", "sarif")
+	path := filepath.Join(dir, "sarif-schema-2.1.0.json")
+	schema, err := os.ReadFile(path)
 	if err != nil {
-		t.Fatal(err)
+		t.Fatalf("the SARIF schema is part of the repository's test data: %v", err)
 	}
-	for {
-		if _, err := os.Stat(filepath.Join(dir, "go.mod")); err == nil {
-			break
-		}
-		parent := filepath.Dir(dir)
-		if parent == dir {
-			t.Fatal("no go.mod above the test's folder")
-		}
-		dir = parent
+	notice, err := os.ReadFile(filepath.Join(dir, "README.md"))
+	if err != nil {
+		t.Fatalf("the SARIF schema's notice: %v", err)
 	}
-	path := filepath.Join(dir, "..", "shared", "sarif", "sarif-schema-2.1.0.json")
-	if _, err := os.Stat(path); err != nil {
-		t.Skipf("SARIF schema not found at %s (it lives outside the repository, at ../shared/sarif/ from the project root): skipping schema validation", path)
+	sum := sha256.Sum256(schema)
+	if want := hex.EncodeToString(sum[:]); !strings.Contains(string(notice), "SHA-256 `"+want+"`") {
+		t.Fatalf("%s is not the copy testdata/sarif/README.md names (its SHA-256 is %s): restore the OASIS file unchanged", path, want)
 	}
 	c := jsonschema.NewCompiler()
 	c.AssertFormat()
@@ -49,6 +49,25 @@ func compileSARIFSchema(t *testing.T) *jsonschema.Schema {
 	return sch
 }
 
+// projectRoot is the folder of go.mod above the test's folder.
+func projectRoot(t *testing.T) string {
+	t.Helper()
+	dir, err := os.Getwd()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for {
+		if _, err := os.Stat(filepath.Join(dir, "go.mod")); err == nil {
+			return dir
+		}
+		parent := filepath.Dir(dir)
+		if parent == dir {
+			t.Fatal("no go.mod above the test's folder")
+		}
+		dir = parent
+	}
+}
+
 func validateSARIF(t *testing.T, sch *jsonschema.Schema, out []byte) {
 	t.Helper()
 	inst, err := jsonschema.UnmarshalJSON(bytes.NewReader(out))
@@ -57,6 +76,25 @@ func validateSARIF(t *testing.T, sch *jsonschema.Schema, out []byte) {
 	}
 	if err := sch.Validate(inst); err != nil {
 		t.Fatalf("SARIF output does not validate: %v", err)
+	}
+}
+
+// The schema the tests validate against rejects what SARIF 2.1.0 rejects:
+// a run without its tool, a result level SARIF does not have.
+func TestSARIFSchemaRejectsBrokenLogs(t *testing.T) {
+	sch := compileSARIFSchema(t)
+	for _, log := range []string{
+		`{"version": "2.1.0", "runs": [{"results": []}]}`,
+		`{"version": "2.1.0", "runs": [{"tool": {"driver": {"name": "datumlint"}}, "results": [{"message": {"text": "m"}, "level": "info"}]}]}`,
+		`{"version": "2.0.0", "runs": []}`,
+	} {
+		inst, err := jsonschema.UnmarshalJSON(strings.NewReader(log))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := sch.Validate(inst); err == nil {
+			t.Errorf("the schema accepts a broken log: %s", log)
+		}
 	}
 }
 
