@@ -176,15 +176,30 @@ func TestViewsGolden(t *testing.T) {
 		}
 	}
 	// The bore is a circle in the top view and a centre line in the other two.
-	if n := strings.Count(svg, `r="`+num(12.5*viewScale(plate))+`"`); n < 1 {
+	if n := strings.Count(svg, `r="`+num(12.5*fitScale(ExtentOf(plate)))+`"`); n < 1 {
 		t.Errorf("the bore's circle at scale is missing")
 	}
 	wellFormed(t, ViewsSVG(Views{}))
 }
 
-// viewScale repeats ViewsSVG's fit, for checking sizes.
-func viewScale(v Views) float64 {
-	e := ExtentOf(v)
-	sx, sy, sz := e.Max[0]-e.Min[0], e.Max[1]-e.Min[1], e.Max[2]-e.Min[2]
-	return min((900.0-4*56)/(sx+sy), (640.0-4*26-2*22)/(sy+sz))
+// Names of features drawn in one place are moved apart, not written over
+// each other or over a view's heading.
+func TestViewLabelsKeepApart(t *testing.T) {
+	v := Views{Items: []Item{
+		{Name: "first", Kind: CylinderItem, Dir: Vec3{0, 0, 1}, Points: []Vec3{{10, 10, 0}}, Size: 4},
+		{Name: "second", Kind: CylinderItem, Dir: Vec3{0, 0, 1}, Points: []Vec3{{10, 10, 0}}, Size: 4},
+		{Name: "third", Kind: CylinderItem, Dir: Vec3{0, 0, 1}, Points: []Vec3{{10, 10, 0}}, Size: 4},
+		{Name: "far", Kind: SphereItem, Points: []Vec3{{60, 40, 30}}, Size: 4},
+	}}
+	svg := ViewsSVG(v)
+	// The top view is drawn first: the first label of each name is its own.
+	ys := map[string]string{}
+	for _, name := range []string{"first", "second", "third"} {
+		i := strings.Index(svg, ">"+name+"</text>")
+		j := strings.LastIndex(svg[:i], ` y="`)
+		ys[name] = svg[j+4 : j+4+strings.IndexByte(svg[j+4:], '"')]
+	}
+	if ys["first"] == ys["second"] || ys["second"] == ys["third"] || ys["first"] == ys["third"] {
+		t.Errorf("labels on one line: %v", ys)
+	}
 }

@@ -202,13 +202,27 @@ const (
 	ExtentInk  = "#8c8c8c"
 )
 
+// The views' room: the most they take, and the margins and heading of each.
+const maxW, maxH, mx, my, head = 900.0, 660.0, 56.0, 34.0, 22.0
+
+func (e Extent) size() Vec3 {
+	return Vec3{e.Max[0] - e.Min[0], e.Max[1] - e.Min[1], e.Max[2] - e.Min[2]}
+}
+
+// fitScale is the one scale of the three views, in pixels per part unit:
+// the front and right views side by side fit in maxW, the top view above
+// the front in maxH.
+func fitScale(e Extent) float64 {
+	size := e.size()
+	return math.Min((maxW-4*mx)/(size[0]+size[1]), (maxH-4*my-2*head)/(size[1]+size[2]))
+}
+
 // ViewsSVG draws the top, front and right views at one scale, fitted into
 // about 900 by 640 pixels, with room around each view for the names.
 func ViewsSVG(v Views) string {
 	e := ExtentOf(v)
-	size := Vec3{e.Max[0] - e.Min[0], e.Max[1] - e.Min[1], e.Max[2] - e.Min[2]}
-	const maxW, maxH, mx, my, head = 900.0, 640.0, 56.0, 26.0, 22.0
-	s := math.Min((maxW-4*mx)/(size[0]+size[1]), (maxH-4*my-2*head)/(size[1]+size[2]))
+	size := e.size()
+	s := fitScale(e)
 	// Third-angle layout: top above front, right beside front.
 	frontY := head + my + size[1]*s + my + head + my
 	ox := [3]float64{mx, mx, 3*mx + size[0]*s}
@@ -221,10 +235,14 @@ func ViewsSVG(v Views) string {
 	c.printf(`<g font-family="%s">`, FontFamily)
 	for k, vw := range threeViews {
 		pr := projector{vw: vw, ox: ox[k], oy: oy[k], s: s,
-			u0: e.Min.dot(vw.U), umax: e.Max.dot(vw.U), v0: e.Min.dot(vw.V), v1: e.Max.dot(vw.V), edge: 8 / s}
+			u0: e.Min.dot(vw.U), umax: e.Max.dot(vw.U), v0: e.Min.dot(vw.V), v1: e.Max.dot(vw.V), edge: 8 / s,
+			planeEdge: math.Max(8/s, math.Min(0.08*math.Max(size[0], math.Max(size[1], size[2])), 18/s)), placed: &[]Box{}}
 		c.printf(`<g class="view">`)
-		c.printf(`<text x="%s" y="%s" font-size="13" fill="%s"><tspan font-weight="bold">%s</tspan> looking along %s (%s right, %s up)</text>`,
-			num(ox[k]-mx+10), num(oy[k]-my-4), CellText, esc(vw.Name), esc(vw.Looking), vw.UName, vw.VName)
+		heading := fmt.Sprintf("%s looking along %s (%s right, %s up)", vw.Name, vw.Looking, vw.UName, vw.VName)
+		c.printf(`<text x="%s" y="%s" font-size="13" fill="%s"><tspan font-weight="bold">%s</tspan>%s</text>`,
+			num(ox[k]-mx+10), num(oy[k]-my-4), CellText, esc(vw.Name), esc(strings.TrimPrefix(heading, vw.Name)))
+		// No name is written over the heading.
+		*pr.placed = append(*pr.placed, Box{ox[k] - mx + 10, oy[k] - my - 17, TextWidth(heading, 13), 17})
 		x0, y0 := pr.at(pr.u0, pr.v1)
 		x1, y1 := pr.at(pr.umax, pr.v0)
 		c.printf(`<rect x="%s" y="%s" width="%s" height="%s" fill="none" stroke="%s" stroke-dasharray="2 3"><title>extent of the nominal geometry</title></rect>`,
@@ -243,6 +261,10 @@ type projector struct {
 	ox, oy, s        float64
 	u0, umax, v0, v1 float64 // the extent in the view, in part units
 	edge             float64 // how far lines run past the extent, in part units
+	// planeEdge is how far planes run past it: further, so that a plane
+	// whose only point is at a corner still shows as a line.
+	planeEdge float64
+	placed    *[]Box // the labels written so far, kept apart
 }
 
 // at maps view coordinates (u right, v up) to the drawing.
@@ -310,6 +332,7 @@ func (p projector) item(c *canvas, it Item) {
 	}
 	switch it.Kind {
 	case PlaneItem, WidthItem:
+		p.edge = p.planeEdge
 		u, v := p.uv(it.Points[0])
 		tu, tv := -dv, du // along the trace
 		attrs := fmt.Sprintf(` stroke="%s" stroke-width="2"`, FeatureInk)
@@ -409,8 +432,30 @@ func (p projector) label(c *canvas, x, y, dx, dy float64, name string, datums []
 	if dy > 0.3 {
 		y += fs * 0.7
 	}
-	c.printf(`<text x="%s" y="%s" font-size="%s" fill="%s" text-anchor="%s">%s</text>`, num(x), num(y), num(fs), FeatureInk, anchor, esc(name))
 	tw := TextWidth(name, fs)
+	w := tw + 4 + datumBoxesWidth(datums, fs)
+	left := x
+	if anchor == "end" {
+		left = x - w
+	}
+	// Move the label down or up a line at a time until it clears the
+	// labels already written.
+	for _, off := range []float64{0, 13, -13, 26, -26, 39, -39, 52} {
+		b := Box{left, y + off - fs, w, fs + 4}
+		clear := true
+		for _, q := range *p.placed {
+			if b.X < q.X+q.W && q.X < b.X+b.W && b.Y < q.Y+q.H && q.Y < b.Y+b.H {
+				clear = false
+				break
+			}
+		}
+		if clear {
+			y += off
+			*p.placed = append(*p.placed, b)
+			break
+		}
+	}
+	c.printf(`<text x="%s" y="%s" font-size="%s" fill="%s" text-anchor="%s">%s</text>`, num(x), num(y), num(fs), FeatureInk, anchor, esc(name))
 	bx := x + tw + 4
 	if anchor == "end" {
 		bx = x - tw - 4 - datumBoxesWidth(datums, fs)
