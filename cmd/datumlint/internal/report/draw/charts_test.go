@@ -1,6 +1,7 @@
 package draw
 
 import (
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -202,4 +203,26 @@ func TestViewLabelsKeepApart(t *testing.T) {
 	if ys["first"] == ys["second"] || ys["second"] == ys["third"] || ys["first"] == ys["third"] {
 		t.Errorf("labels on one line: %v", ys)
 	}
+}
+
+// A name at the drawing's edge is moved inside it, datum letters and all.
+func TestViewLabelsStayInside(t *testing.T) {
+	v := Views{Items: []Item{
+		{Name: "a_long_face_name", Kind: PlaneItem, Dir: Vec3{-1, 0, 0}, Points: []Vec3{{0, 0, 0}}, Datums: []string{"C"}},
+		{Name: "far", Kind: SphereItem, Points: []Vec3{{80, 50, 20}}, Size: 4},
+	}}
+	svg := ViewsSVG(v)
+	for _, m := range regexpAll(`<(?:text|rect) x="(-?[\d.]+)"`, svg) {
+		if strings.HasPrefix(m, "-") {
+			t.Errorf("an element starts left of the drawing at x %s", m)
+		}
+	}
+}
+
+func regexpAll(pattern, s string) []string {
+	var out []string
+	for _, m := range regexp.MustCompile(pattern).FindAllStringSubmatch(s, -1) {
+		out = append(out, m[1])
+	}
+	return out
 }

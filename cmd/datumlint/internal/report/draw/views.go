@@ -236,7 +236,7 @@ func ViewsSVG(v Views) string {
 	for k, vw := range threeViews {
 		pr := projector{vw: vw, ox: ox[k], oy: oy[k], s: s,
 			u0: e.Min.dot(vw.U), umax: e.Max.dot(vw.U), v0: e.Min.dot(vw.V), v1: e.Max.dot(vw.V), edge: 8 / s,
-			planeEdge: math.Max(8/s, math.Min(0.08*math.Max(size[0], math.Max(size[1], size[2])), 18/s)), placed: &[]Box{}}
+			planeEdge: math.Max(8/s, math.Min(0.08*math.Max(size[0], math.Max(size[1], size[2])), 18/s)), placed: &[]Box{}, width: w}
 		c.printf(`<g class="view">`)
 		heading := fmt.Sprintf("%s looking along %s (%s right, %s up)", vw.Name, vw.Looking, vw.UName, vw.VName)
 		c.printf(`<text x="%s" y="%s" font-size="13" fill="%s"><tspan font-weight="bold">%s</tspan>%s</text>`,
@@ -264,7 +264,8 @@ type projector struct {
 	// planeEdge is how far planes run past it: further, so that a plane
 	// whose only point is at a corner still shows as a line.
 	planeEdge float64
-	placed    *[]Box // the labels written so far, kept apart
+	placed    *[]Box  // the labels written so far, kept apart
+	width     float64 // the drawing's width, which labels stay inside
 }
 
 // at maps view coordinates (u right, v up) to the drawing.
@@ -438,6 +439,14 @@ func (p projector) label(c *canvas, x, y, dx, dy float64, name string, datums []
 	if anchor == "end" {
 		left = x - w
 	}
+	// Keep the name and its letters inside the drawing.
+	shift := 0.0
+	if left < 2 {
+		shift = 2 - left
+	} else if left+w > p.width-2 {
+		shift = p.width - 2 - left - w
+	}
+	x, left = x+shift, left+shift
 	// Move the label down or up a line at a time until it clears the
 	// labels already written.
 	for _, off := range []float64{0, 13, -13, 26, -26, 39, -39, 52} {
