@@ -15,6 +15,7 @@ import (
 	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/rules"
+	"github.com/datumlint/datumlint/rules/dof"
 )
 
 var updateScreenshot = flag.Bool("update-screenshot", false, "write docs/report-example.png from the gearbox cover's page")
@@ -366,3 +367,53 @@ basic 30 from tab_face to pilot
 }
 
 func near(a, b float64) bool { return math.Abs(a-b) < 1e-9 }
+
+// The charts carry the numbers of `datumlint dof`: for the contract's
+// mounting plate (docs/notation.md's complete example), the bore's
+// position to A, B, C has A removing 3, B 2 and C 1, and nothing free.
+func TestChartsCarryTheContractsNumbers(t *testing.T) {
+	p, _, _ := build(t, filepath.Join(examples, "mounting-plate.callouts"))
+	var bore *FrameEntry
+	for i := range p.Frames {
+		if p.Frames[i].Frame.Target == "bore" {
+			bore = &p.Frames[i]
+		}
+	}
+	if bore == nil || len(bore.DOF) != 1 {
+		t.Fatalf("no chart for the bore: %+v", bore)
+	}
+	d := bore.DOF[0]
+	var got []string
+	for _, s := range d.Steps {
+		got = append(got, s.Ref+"="+strconv.Itoa(s.Removes))
+	}
+	if strings.Join(got, " ") != "A=3 B=2 C=1" || len(d.Free) != 0 || len(d.ZoneFree) != 0 {
+		t.Errorf("bore: %v, free %v, zone %v", got, d.Free, d.ZoneFree)
+	}
+	// Each removed motion of the plate's axis-aligned datums has its column.
+	for _, s := range d.Steps {
+		for _, m := range s.Removed {
+			if m.Column < 0 {
+				t.Errorf("%s: %q in no column", s.Ref, m.Name)
+			}
+		}
+	}
+}
+
+func TestMotionColumns(t *testing.T) {
+	for _, c := range []struct {
+		tw   dof.Twist
+		want int
+	}{
+		{dof.Twist{V: dof.Vec{1, 0, 0}}, draw.TX},
+		{dof.Twist{V: dof.Vec{0, 0, -2}}, draw.TZ},
+		{dof.Twist{W: dof.Vec{0, 0, 1}, V: dof.Vec{40, -60, 0}}, draw.RZ}, // about z through (60, 40, 0)
+		{dof.Twist{W: dof.Vec{0, 1, 0}}, draw.RY},
+		{dof.Twist{V: dof.Vec{0.6, 0.8, 0}}, -1},
+		{dof.Twist{W: dof.Vec{1, 1, 0}}, -1},
+	} {
+		if got := column(c.tw); got != c.want {
+			t.Errorf("column(%+v) = %d, want %d", c.tw, got, c.want)
+		}
+	}
+}
