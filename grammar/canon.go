@@ -1,18 +1,23 @@
 package grammar
 
-import "strings"
+import (
+	"strings"
+
+	"github.com/datumlint/datumlint/grammar/model"
+)
 
 // The Unicode synonyms of the notation and their ASCII forms. The formatter
 // writes the ASCII form; the model compares ASCII forms only.
 
-// CharacteristicWords lists the characteristics in the contract's order.
-var CharacteristicWords = []string{
-	"straightness", "flatness", "circularity", "cylindricity",
-	"line-profile", "surface-profile",
-	"angularity", "perpendicularity", "parallelism",
-	"position", "concentricity", "symmetry",
-	"circular-runout", "total-runout",
-}
+// CharacteristicWords lists the characteristics in the contract's order,
+// as written.
+var CharacteristicWords = func() []string {
+	out := make([]string, len(model.Characteristics))
+	for i, c := range model.Characteristics {
+		out[i] = string(c)
+	}
+	return out
+}()
 
 // characteristicSymbols maps the standard characteristic symbols (ASME
 // Y14.5-2018 and ISO 1101:2017 symbol tables; code points from the Unicode

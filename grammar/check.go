@@ -1,7 +1,10 @@
 package grammar
 
-import "github.com/datumlint/datumlint/grammar/source"
-import "fmt"
+import (
+	"fmt"
+
+	"github.com/datumlint/datumlint/grammar/source"
+)
 
 // checkStmt makes the structural checks that the loose parts of the grammar
 // leave open: the order of a geometry's parts and the modifiers' letters.

@@ -3,11 +3,12 @@ package grammar
 import (
 	"errors"
 	"fmt"
-	"github.com/datumlint/datumlint/grammar/source"
 	"strings"
 
 	"github.com/alecthomas/participle/v2"
 	"github.com/alecthomas/participle/v2/lexer"
+
+	"github.com/datumlint/datumlint/grammar/source"
 )
 
 // friendly turns a parser error into a message a drafter understands: what
@@ -177,42 +178,3 @@ func expectation(sig []token, i int) string {
 	}
 	return ""
 }
-
-// suggest returns the candidate closest to w when it is near enough to be
-// a likely typo.
-func suggest(w string, candidates []string) string {
-	best, bestD := "", 3
-	for _, c := range candidates {
-		if d := editDistance(strings.ToLower(w), c); d < bestD {
-			best, bestD = c, d
-		}
-	}
-	return best
-}
-
-func editDistance(a, b string) int {
-	ra, rb := []rune(a), []rune(b)
-	if len(ra) > 64 || len(rb) > 64 {
-		return 99
-	}
-	prev := make([]int, len(rb)+1)
-	cur := make([]int, len(rb)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(ra); i++ {
-		cur[0] = i
-		for j := 1; j <= len(rb); j++ {
-			cost := 1
-			if ra[i-1] == rb[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(rb)]
-}
-
-// Suggest is suggest for other packages (the model's value checks).
-func Suggest(w string, candidates []string) string { return suggest(w, candidates) }

@@ -3,11 +3,12 @@ package grammar
 import (
 	"bytes"
 	"fmt"
-	"github.com/datumlint/datumlint/grammar/source"
 	"os"
 	"strings"
 	"testing"
 	"unicode/utf8"
+
+	"github.com/datumlint/datumlint/grammar/source"
 )
 
 // fileLines splits a file as positions count its lines.

@@ -4,13 +4,15 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
-	"github.com/datumlint/datumlint/grammar/source"
 	"strings"
 	"sync"
 	"unicode/utf8"
 
 	"github.com/alecthomas/participle/v2"
 	"github.com/alecthomas/participle/v2/lexer"
+
+	"github.com/datumlint/datumlint/grammar/source"
+	"github.com/datumlint/datumlint/grammar/spell"
 )
 
 // build returns a parser for one statement kind, built on first use: the
@@ -212,7 +214,7 @@ func parseStmt(name string, rs rawStmt) Stmt {
 			Msg: "a 'composite' line is the lower segment of a frame: put it directly under the 'frame' line it belongs to"})
 	default:
 		msg := fmt.Sprintf("unknown statement %s: a statement starts with %s", describe(first.Token), strings.Join(Keywords, ", "))
-		if s := suggest(first.Value, Keywords); s != "" {
+		if s := spell.Nearest(first.Value, Keywords); s != "" {
 			msg = fmt.Sprintf("unknown statement %s; did you mean '%s'?", describe(first.Token), s)
 		}
 		return bad(rs, sig, &SyntaxError{Span: first.span, Msg: msg})

@@ -1,9 +1,10 @@
 package grammar
 
 import (
-	"github.com/datumlint/datumlint/grammar/source"
 	"strings"
 	"testing"
+
+	"github.com/datumlint/datumlint/grammar/source"
 )
 
 const header = "units mm\nstandard asme-2018\n"

@@ -62,8 +62,8 @@ frame base: ⏥ 0.02 datums A # datumlint: allow datums-forbidden -- first \
 				t.Fatal(err)
 			}
 			g := grammar.Parse("a.callouts", out)
-			before := findings(f, rules.Check("a.callouts", []byte(src), nil))
-			after := findings(g, rules.Check("a.callouts", out, nil))
+			before := findings(f, rules.Check(grammar.Read("a.callouts", []byte(src)), nil))
+			after := findings(g, rules.Check(grammar.Read("a.callouts", out), nil))
 			if name == "suppressions" && !strings.Contains(strings.Join(before, "\n"), "suppressed=true") {
 				t.Errorf("the suppression case silences nothing, so it tests nothing:\n  %s", strings.Join(before, "\n  "))
 			}
@@ -125,8 +125,8 @@ func FuzzFormatFindings(f *testing.F) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		before := findings(g, rules.Check("a.callouts", src, nil))
-		after := findings(grammar.Parse("a.callouts", out), rules.Check("a.callouts", out, nil))
+		before := findings(g, rules.Check(grammar.Read("a.callouts", src), nil))
+		after := findings(grammar.Parse("a.callouts", out), rules.Check(grammar.Read("a.callouts", out), nil))
 		if strings.Join(before, "\n") != strings.Join(after, "\n") {
 			t.Errorf("findings changed under formatting\nbefore:\n  %s\nafter:\n  %s\ninput:\n%q\nformatted:\n%s",
 				strings.Join(before, "\n  "), strings.Join(after, "\n  "), src, out)

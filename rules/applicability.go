@@ -42,7 +42,7 @@ frame face: total-runout 0.05 datums A, B`,
 			if fr.Characteristic.Category() != model.Runout || len(fr.Upper().Refs) == 0 {
 				continue // datums-required reports a runout without datums
 			}
-			an := p.Facts.DOF(fr, 0)
+			an := p.Kinematics().Segment(fr, 0)
 			if !an.Resolved {
 				continue // names and datums that do not resolve are reported elsewhere
 			}
@@ -57,7 +57,7 @@ frame face: total-runout 0.05 datums A, B`,
 				}
 				kinds = append(kinds, r.Name+" ("+strings.Join(ks, "-")+")")
 			}
-			p.Report(refsSpan(fr.Upper().Refs), "%s is read while the part turns about a datum axis, but datums %s establish no axis to turn about: reference a cylinder or cone the part turns on (e.g. `datums A, B` with B a diameter), or a common datum of two coaxial diameters (`datums A-B`)",
+			p.Report(fr.Upper().RefsSpan(), "%s is read while the part turns about a datum axis, but datums %s establish no axis to turn about: reference a cylinder or cone the part turns on (e.g. `datums A, B` with B a diameter), or a common datum of two coaxial diameters (`datums A-B`)",
 				fr.Characteristic, strings.Join(kinds, ", "))
 		}
 	},
@@ -120,10 +120,10 @@ frame top: surface-profile 0.1 datums A`,
 		}
 		for _, fr := range p.Part.Frames {
 			f := fr.Target.Feature
-			if fr.Characteristic != "position" || !fr.Target.Resolved() || f.Broken || f.Kind == model.KindUnknown || f.Kind.IsFOS() {
+			if fr.Characteristic != model.Position || !fr.Target.Known() || f.Kind.IsFOS() {
 				continue
 			}
-			sugg := "surface-profile " + strings.TrimSpace(fr.Upper().Tree.Value.Text)
+			sugg := "surface-profile " + fr.Upper().ValueText
 			if refs := fr.Upper().Refs; len(refs) > 0 {
 				names := make([]string, len(refs))
 				for i, r := range refs {

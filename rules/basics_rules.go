@@ -10,106 +10,8 @@ import (
 )
 
 // This file holds the basic-dimension rules, built on the engine in
-// rules/basics and on the kinematic analysis of each frame (kinematics.go).
-
-func init() {
-	// modifier-illegal asks whether a planar datum feature referenced at
-	// MMB or LMB is located by basic dimensions to the higher-precedence
-	// datums of its position or profile frame (ASME Y14.5-2018, datum
-	// features at MMB applied to surfaces): the engine answers it.
-	// Located means both: the frame's datums fix the surface's place (no
-	// free translation moves its zone) and basic dimensions give it.
-	locatedByBasics = func(p *Pass, f *model.Feature, fr *model.Frame) bool {
-		if a := p.Facts.DOF(fr, 0); a.Resolved && a.Zone.TranslationMoves {
-			return false
-		}
-		ms, ok := frameMissing(p, fr, 0)
-		return !ok || len(ms) == 0
-	}
-}
-
-// basicsEngine is the file's basic-dimension engine, built once.
-func basicsEngine(p *Pass) *basics.Engine {
-	return Memo(p.Facts, "basics.engine", func() *basics.Engine {
-		var counted []*model.Dimension
-		for _, t := range tolerancedLocating(p) {
-			counted = append(counted, t.dim)
-		}
-		return basics.Build(p.Part, counted)
-	})
-}
-
-// frameMissing returns what segment seg of a frame needs that no basic
-// dimension fixes; ok is false when the frame cannot be analysed (an
-// unresolved name, unknown geometry), which other rules report.
-func frameMissing(p *Pass, fr *model.Frame, seg int) ([]basics.Missing, bool) {
-	type result struct {
-		ms []basics.Missing
-		ok bool
-	}
-	r := Memo(p.Facts, fmt.Sprintf("basics.missing:%p:%d", fr, seg), func() result {
-		if seg >= len(fr.Segments) {
-			return result{}
-		}
-		s := fr.Segments[seg]
-		if ask, _ := basics.Asks(fr, s); !ask {
-			return result{ok: true}
-		}
-		a := p.Facts.DOF(fr, seg)
-		if !a.Resolved || a.DRF == nil {
-			return result{}
-		}
-		q, ok := basics.FrameQuery(fr, s, a.DRF)
-		if !ok {
-			return result{}
-		}
-		return result{basicsEngine(p).Missing(q), true}
-	})
-	return r.ms, r.ok
-}
-
-// located reports whether a feature's place is a tolerance zone located by
-// basic dimensions: position, or profile with datums.
-func located(part *model.Part, f *model.Feature) (string, bool) {
-	for _, fr := range part.FramesOn(f) {
-		if fr.Characteristic == "position" {
-			return "position", true
-		}
-		if fr.Characteristic.Category() == model.Profile && len(fr.Upper().Refs) > 0 {
-			return string(fr.Characteristic), true
-		}
-	}
-	return "", false
-}
-
-type tolerancedDim struct {
-	dim  *model.Dimension
-	feat *model.Feature
-	char string
-}
-
-// tolerancedLocating finds the toleranced dimensions that locate a feature
-// under position or located profile.
-func tolerancedLocating(p *Pass) []tolerancedDim {
-	return Memo(p.Facts, "basics.toleranced", func() []tolerancedDim {
-		var out []tolerancedDim
-		for _, d := range p.Part.Dims {
-			if d.Basic || d.Circle != nil {
-				continue
-			}
-			for _, t := range []*model.Target{&d.To, &d.From} {
-				if !t.Resolved() || t.Feature.Broken {
-					continue
-				}
-				if c, ok := located(p.Part, t.Feature); ok {
-					out = append(out, tolerancedDim{d, t.Feature, c})
-					break
-				}
-			}
-		}
-		return out
-	})
-}
+// rules/basics and on the kinematic analysis of each frame
+// (rules/kinematics).
 
 // BasicMissing reports a frame whose zone's place is not fixed by basic
 // dimensions.
@@ -149,13 +51,13 @@ basic 40 from rear to bore`,
 		// One finding per frame, naming every missing quantity: the frame
 		// is one annotation to fix, and one line of the drawing.
 		for _, fr := range p.Part.Frames {
-			if fr.Target.Feature != nil && p.Facts.BrokenMentions()[fr.Target.Feature.Name] {
+			if fr.Target.Feature != nil && p.facts.brokenMentions()[fr.Target.Feature.Name] {
 				continue // a dimension to it may be in a line that did not parse
 			}
 			seen := map[string]bool{}
 			var msgs []string
 			for i, seg := range fr.Segments {
-				ms, ok := frameMissing(p, fr, i)
+				ms, ok := p.Basics().Missing(fr, i)
 				if !ok {
 					continue
 				}
@@ -228,7 +130,7 @@ basic 62 from left to bore`,
 feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)
 basic 60 from left to bore`,
 	Run: func(p *Pass) {
-		for _, m := range basicsEngine(p).Mismatches() {
+		for _, m := range p.Basics().Engine().Mismatches() {
 			p.Report(m.Dim.ValueSpan, "%s", mismatchMessage(m))
 		}
 		tol := p.Part.Tolerance()
@@ -290,8 +192,8 @@ feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)
 frame bore: position dia 0.1 datums A, B, C
 basic 40 from rear to bore`,
 	Run: func(p *Pass) {
-		for _, t := range tolerancedLocating(p) {
-			d := t.dim
+		for _, t := range p.Basics().Toleranced() {
+			d := t.Dim
 			val := basics.Num(d.Value)
 			if d.Angle {
 				val += "deg"
@@ -300,7 +202,7 @@ basic 40 from rear to bore`,
 			if d.Along != nil {
 				along = " along " + basics.AlongName(*d.Along)
 			}
-			p.Report(d.ValueSpan, "%s is under %s; its location must be basic: write `basic %s from %s to %s%s`", t.feat.Name, t.char, val, d.From.Name, d.To.Name, along)
+			p.Report(d.ValueSpan, "%s is under %s; its location must be basic: write `basic %s from %s to %s%s`", t.Feature.Name, t.Char, val, d.From.Name, d.To.Name, along)
 		}
 	},
 })

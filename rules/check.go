@@ -2,13 +2,11 @@ package rules
 
 import (
 	"fmt"
-	"github.com/datumlint/datumlint/grammar/source"
-	"regexp"
-	"runtime/debug"
 	"sort"
 	"strings"
 
-	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/source"
+
 	"github.com/datumlint/datumlint/grammar/model"
 )
 
@@ -31,26 +29,21 @@ func (s *Settings) severity(r *Rule) Severity {
 // rule that panicked. It is not a registered rule and cannot be disabled.
 const InternalRule = "internal-error"
 
-// Check parses, resolves and checks one file. Findings are sorted by line
-// and column; suppressed findings are kept with Suppressed set.
-func Check(name string, src []byte, s *Settings) []Diagnostic {
-	f := grammar.Parse(name, src)
-	return CheckFile(f, model.Resolve(f), s)
-}
-
-// CheckFile runs every enabled rule over a resolved part.
-func CheckFile(f *grammar.File, part *model.Part, s *Settings) []Diagnostic {
+// Check runs every enabled rule over a part, whichever reader built it.
+// Findings are sorted by line and column; suppressed findings are kept
+// with Suppressed set.
+func Check(part *model.Part, s *Settings) []Diagnostic {
 	var out []Diagnostic
-	facts := newFacts(part)
+	fs := &facts{part: part}
 	for _, r := range All() {
 		sev := s.severity(r)
 		if sev == Off {
 			continue
 		}
 		var found []Diagnostic
-		pass := &Pass{Rule: r, Part: part, File: f, Facts: facts, out: &found}
+		pass := &Pass{Rule: r, Part: part, facts: fs, out: &found}
 		if err := runSafely(r, pass); err != "" {
-			out = append(out, Diagnostic{File: f.Name, Span: source.Span{Start: source.Pos{Line: 1, Col: 1}, End: source.Pos{Line: 1, Col: 2}},
+			out = append(out, Diagnostic{File: part.Source.Name, Span: source.Line(1),
 				Rule: InternalRule, Severity: Error,
 				Message: fmt.Sprintf("internal error in rule %s while checking this file (please report it): %s", r.ID, err)})
 		}
@@ -59,18 +52,17 @@ func CheckFile(f *grammar.File, part *model.Part, s *Settings) []Diagnostic {
 		}
 		out = append(out, found...)
 	}
-	out = applySuppressions(f, out, s)
+	out = applySuppressions(part, out, s)
 	Sort(out)
 	return dedupe(out)
 }
 
+// runSafely runs a rule, turning a panic into a message: one rule's bug
+// must not lose the other rules' findings.
 func runSafely(r *Rule, p *Pass) (msg string) {
 	defer func() {
 		if v := recover(); v != nil {
 			msg = fmt.Sprint(v)
-			if testing := strings.Contains(string(debug.Stack()), "testing.tRunner"); testing {
-				msg += "\n" + string(debug.Stack())
-			}
 		}
 	}()
 	r.Run(p)
@@ -110,90 +102,36 @@ func dedupe(ds []Diagnostic) []Diagnostic {
 
 // --- suppressions ---------------------------------------------------------
 
-var allowRE = regexp.MustCompile(`^#+\s*datumlint:\s*allow\b(.*)$`)
-
-// Directive is a parsed "# datumlint: allow RULE -- reason" comment.
-type Directive struct {
-	Comment *grammar.Comment
-	Rules   []string
-	Reason  string
-	// Stmt is the index of the statement it applies to, or -1.
-	Stmt int
-	used bool
-}
-
-// Directives finds the allow comments of a file and the statement each
-// applies to: the statement it ends, or the one directly below it (only
-// comment lines may stand between).
-func Directives(f *grammar.File) []*Directive {
-	var out []*Directive
-	commentLines := map[int]bool{}
-	for _, c := range f.Comments {
-		if !c.Trailing {
-			commentLines[c.Span.Start.Line] = true
-		}
-	}
-	for _, c := range f.Comments {
-		m := allowRE.FindStringSubmatch(c.Text)
-		if m == nil {
-			continue
-		}
-		d := &Directive{Comment: c, Stmt: -1}
-		body := m[1]
-		if i := strings.Index(body, "#"); i >= 0 {
-			body = body[:i] // a second comment (e.g. a test's "# want") ends the directive
-		}
-		if i := strings.Index(body, "--"); i >= 0 {
-			d.Reason = strings.TrimSpace(body[i+2:])
-			body = body[:i]
-		}
-		for _, id := range strings.FieldsFunc(body, func(r rune) bool { return r == ',' || r == ' ' || r == '\t' }) {
-			d.Rules = append(d.Rules, id)
-		}
-		line := c.Span.Start.Line
-		for i, e := range f.Extents {
-			if c.Trailing && e.First <= line && line <= e.Last {
-				d.Stmt = i
-				break
-			}
-			if !c.Trailing && e.First > line {
-				ok := true
-				for l := line + 1; l < e.First; l++ {
-					ok = ok && commentLines[l]
-				}
-				if ok {
-					d.Stmt = i
-				}
-				break
-			}
-		}
-		out = append(out, d)
-	}
-	return out
-}
-
-func applySuppressions(f *grammar.File, ds []Diagnostic, s *Settings) []Diagnostic {
-	dirs := Directives(f)
+// applySuppressions marks the findings that an allow directive with a
+// reason silences: on the statement it applies to, by rule identifier.
+// Directives that silence nothing are reported as allow-unused.
+func applySuppressions(part *model.Part, ds []Diagnostic, s *Settings) []Diagnostic {
+	dirs := part.Suppressions
 	if len(dirs) == 0 {
 		return ds
+	}
+	// used[k][j]: rule j of directive k silenced a finding.
+	used := make([][]bool, len(dirs))
+	for k, dir := range dirs {
+		used[k] = make([]bool, len(dir.Rules))
 	}
 	for i := range ds {
 		d := &ds[i]
 		if d.Rule == InternalRule || d.Rule == AllowUnused.ID {
 			continue
 		}
-		for _, dir := range dirs {
+		for k, dir := range dirs {
 			if dir.Stmt < 0 || dir.Reason == "" {
 				continue
 			}
-			e := f.Extents[dir.Stmt]
-			if d.Span.Start.Line < e.First || d.Span.Start.Line > e.Last {
+			st := part.Statements[dir.Stmt]
+			if d.Span.Start.Line < st.First || d.Span.Start.Line > st.Last {
 				continue
 			}
-			for _, id := range dir.Rules {
+			for j, id := range dir.Rules {
 				if id == d.Rule {
 					d.Suppressed, d.Justification = true, dir.Reason
-					dir.used = true
+					used[k][j] = true
 				}
 			}
 		}
@@ -202,29 +140,96 @@ func applySuppressions(f *grammar.File, ds []Diagnostic, s *Settings) []Diagnost
 	if sev == Off {
 		return ds
 	}
-	for _, dir := range dirs {
-		if dir.Reason == "" || len(dir.Rules) == 0 || dir.used {
+	for k, dir := range dirs {
+		if dir.Reason == "" || len(dir.Rules) == 0 {
 			continue // malformed ones are reported by the rule itself
 		}
-		unknown := false
-		for _, id := range dir.Rules {
-			unknown = unknown || (Lookup(id) == nil)
+		unknown, allOff := false, true
+		var idle []int // rules that silence nothing and could have
+		for j, id := range dir.Rules {
+			r := Lookup(id)
+			unknown = unknown || r == nil
+			if r != nil && s.severity(r) != Off {
+				allOff = false // rules the configuration turned off could not report
+				if !used[k][j] {
+					idle = append(idle, j)
+				}
+			}
 		}
-		if unknown {
+		if unknown || allOff || len(idle) == 0 {
 			continue
 		}
-		allOff := true // rules the configuration turned off could not report
-		for _, id := range dir.Rules {
-			allOff = allOff && s.severity(Lookup(id)) == Off
+		d := Diagnostic{File: part.Source.Name, Span: dir.Span, Rule: AllowUnused.ID, Severity: sev}
+		switch {
+		case dir.Stmt < 0:
+			d.Message = "this allow comment applies to no statement: put it at the end of the statement's line or on the line directly above it"
+		case len(idle) == len(dir.Rules):
+			d.Message = fmt.Sprintf("this allow comment silences nothing: no %s finding is reported on the statement it applies to; remove it", strings.Join(dir.Rules, " or "))
+			d.Fixes = []Fix{{Message: "remove the allow comment", Safe: true, Edits: []Edit{removeDirective(part.Source, dir)}}}
+		default:
+			names := make([]string, len(idle))
+			for i, j := range idle {
+				names[i] = dir.Rules[j]
+			}
+			d.Span = dir.RuleSpans[idle[0]]
+			d.Message = fmt.Sprintf("%s in this allow comment silences nothing: no such finding is reported on the statement it applies to; remove it from the list", strings.Join(names, " and "))
+			d.Fixes = []Fix{{Message: "remove " + strings.Join(names, " and ") + " from the allow comment", Safe: true, Edits: removeRules(dir, idle)}}
 		}
-		if allOff {
-			continue
-		}
-		msg := fmt.Sprintf("this allow comment silences nothing: no %s finding is reported on the statement it applies to; remove it", strings.Join(dir.Rules, " or "))
-		if dir.Stmt < 0 {
-			msg = "this allow comment applies to no statement: put it at the end of the statement's line or on the line directly above it"
-		}
-		ds = append(ds, Diagnostic{File: f.Name, Span: dir.Comment.Span, Rule: AllowUnused.ID, Severity: sev, Message: msg})
+		ds = append(ds, d)
 	}
 	return ds
+}
+
+// removeDirective is the edit that deletes an allow directive: the whole
+// line where the comment stands alone, else the comment and the blanks
+// before it. Text from a second '#' on (another comment, which ends the
+// directive) is kept.
+func removeDirective(src *source.File, dir *model.Suppression) Edit {
+	ln := dir.Span.Start.Line
+	runes := []rune(string(src.LineBytes(ln)))
+	start := min(dir.Span.Start.Col-1, len(runes)) // the directive's '#'
+	end := len(runes)
+	for k := start + 1; k < len(runes); k++ {
+		if runes[k] == '#' {
+			end = k
+			break
+		}
+	}
+	if end == len(runes) {
+		if !dir.Trailing {
+			return Edit{Span: source.Span{Start: source.Pos{Line: ln, Col: 1}, End: source.Pos{Line: ln + 1, Col: 1}}}
+		}
+		for start > 0 && (runes[start-1] == ' ' || runes[start-1] == '\t') {
+			start--
+		}
+	}
+	return Edit{Span: source.Span{Start: source.Pos{Line: ln, Col: start + 1}, End: source.Pos{Line: ln, Col: end + 1}}}
+}
+
+// removeRules deletes some of a directive's rule identifiers, each run of
+// them with one separator: "A, B, C" without B is "A, C", without A and B
+// "C". At least one identifier is kept (else the directive goes).
+func removeRules(dir *model.Suppression, idle []int) []Edit {
+	drop := make([]bool, len(dir.Rules))
+	for _, j := range idle {
+		drop[j] = true
+	}
+	sp := dir.RuleSpans
+	var out []Edit
+	for i := 0; i < len(sp); i++ {
+		if !drop[i] {
+			continue
+		}
+		j := i
+		for j+1 < len(sp) && drop[j+1] {
+			j++
+		}
+		if i > 0 {
+			out = append(out, Edit{Span: source.Span{Start: sp[i-1].End, End: sp[j].End}})
+		} else {
+			out = append(out, Edit{Span: source.Span{Start: sp[i].Start, End: sp[j+1].Start}})
+		}
+		i = j
+	}
+	return out
 }

@@ -1,6 +1,10 @@
 package rules
 
-import "testing"
+import (
+	"testing"
+
+	"github.com/datumlint/datumlint/grammar"
+)
 
 // An allow comment naming only rules that the settings turn off cannot
 // silence anything, and is not reported as unused: the configuration, not
@@ -14,7 +18,7 @@ frame base: flatness 0.02  # datumlint: allow tolerance-value -- agreed with the
 `)
 	count := func(s *Settings) int {
 		n := 0
-		for _, d := range Check("t.callouts", src, s) {
+		for _, d := range Check(grammar.Read("t.callouts", src), s) {
 			if d.Rule == AllowUnused.ID {
 				n++
 			}

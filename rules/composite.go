@@ -48,7 +48,7 @@ func runCompositeInvalid(p *Pass) {
 		c := fr.Characteristic
 		for k := 1; k < len(fr.Segments); k++ {
 			lower, upper := fr.Segments[k], fr.Segments[k-1]
-			if c.Category() != model.Location && c.Category() != model.Profile || c == "concentricity" || c == "symmetry" {
+			if c.Category() != model.Location && c.Category() != model.Profile || c == model.Concentricity || c == model.Symmetry {
 				if c.Category() == model.CategoryUnknown {
 					break // the unknown characteristic is a syntax finding
 				}
@@ -65,7 +65,7 @@ func runCompositeInvalid(p *Pass) {
 			if msg := compositeDatumProblem(fr.Segments[0], lower); msg != "" {
 				problems = append(problems, msg)
 			}
-			if c == "position" && !fr.Target.IsPattern() && fr.Target.Resolved() && !fr.Target.Feature.Broken {
+			if c == model.Position && !fr.Target.IsPattern() && fr.Target.Resolved() && !fr.Target.Feature.Broken {
 				problems = append(problems, fmt.Sprintf("'%s' is a single feature, not a pattern, so there are no members for the lower segment to relate: remove it, or control orientation with a separate tolerance (e.g. perpendicularity)", fr.Target.Name))
 			}
 			if len(problems) > 0 {

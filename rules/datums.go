@@ -1,7 +1,6 @@
 package rules
 
 import (
-	"github.com/datumlint/datumlint/grammar/source"
 	"regexp"
 	"slices"
 	"strings"
@@ -51,14 +50,14 @@ datum twice, which fixes nothing more and usually hides a wrong letter.`,
 	Bad:    "datum A on base\ndatum A on rear",
 	Good:   "datum A on base\ndatum B on rear",
 	Run: func(p *Pass) {
-		first := map[string]*int{}
+		first := map[string]*model.Datum{}
 		for _, d := range p.Part.Datums {
-			if l := first[d.Letter]; l != nil {
-				p.Report(d.LetterSpan, "datum %s is already declared on line %d; choose another letter", d.Letter, *l)
+			if f := first[d.Letter]; f != nil {
+				p.ReportRelated(d.LetterSpan, []Related{{f.LetterSpan, "datum " + d.Letter + " is first declared here"}},
+					"datum %s is already declared on line %d; choose another letter", d.Letter, f.LetterSpan.Start.Line)
 				continue
 			}
-			line := d.LetterSpan.Start.Line
-			first[d.Letter] = &line
+			first[d.Letter] = d
 		}
 		for _, fr := range p.Part.Frames {
 			for _, seg := range fr.Segments {
@@ -87,7 +86,7 @@ setup that nothing uses, and often means a frame lost its reference to it.`,
 	Bad:    "datum A on base\ndatum D on lug\nframe bore: position dia 0.1 datums A",
 	Good:   "datum A on base\nframe bore: position dia 0.1 datums A",
 	Run: func(p *Pass) {
-		used := p.Facts.UsedLetters()
+		used := p.facts.usedLetters()
 		seen := map[string]bool{}
 		for _, d := range p.Part.Datums {
 			if d.Broken || seen[d.Letter] {
@@ -134,13 +133,4 @@ func badLetters(s string) string {
 		}
 	}
 	return strings.Join(out, " and ")
-}
-
-// refsSpan covers a segment's datum references.
-func refsSpan(refs []*model.DatumRef) source.Span {
-	var sp source.Span
-	for _, r := range refs {
-		sp = sp.Join(r.Span)
-	}
-	return sp
 }

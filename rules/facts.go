@@ -3,37 +3,40 @@ package rules
 import (
 	"strings"
 
-	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/rules/basics"
+	"github.com/datumlint/datumlint/rules/kinematics"
 )
 
-// Facts holds what several rules derive from one part, computed once per
-// file on first use (files are checked in parallel, the rules of one file
+// facts holds what several rules derive from one part, computed once per
+// part on first use (parts are checked in parallel, the rules of one part
 // in turn, so no locking is needed).
-type Facts struct {
+type facts struct {
 	part   *model.Part
+	kin    *kinematics.Result
+	bas    *basics.Analysis
 	used   map[string]bool
 	broken map[string]bool
-	cache  map[string]any
 }
 
-func newFacts(p *model.Part) *Facts { return &Facts{part: p, cache: map[string]any{}} }
-
-// Memo returns the value stored under key, computing it on first use.
-// Engines use it so that each is run once per file.
-func Memo[T any](f *Facts, key string, compute func() T) T {
-	if v, ok := f.cache[key]; ok {
-		return v.(T)
+func (f *facts) kinematics() *kinematics.Result {
+	if f.kin == nil {
+		f.kin = kinematics.Analyze(f.part)
 	}
-	v := compute()
-	f.cache[key] = v
-	return v
+	return f.kin
 }
 
-// UsedLetters returns the datum letters referenced by any frame, including
+func (f *facts) basics() *basics.Analysis {
+	if f.bas == nil {
+		f.bas = basics.Analyze(f.part, f.kinematics())
+	}
+	return f.bas
+}
+
+// usedLetters returns the datum letters referenced by any frame, including
 // letters named in frames that did not parse (so one typo does not also
 // make a datum read as unused).
-func (f *Facts) UsedLetters() map[string]bool {
+func (f *facts) usedLetters() map[string]bool {
 	if f.used != nil {
 		return f.used
 	}
@@ -47,9 +50,9 @@ func (f *Facts) UsedLetters() map[string]bool {
 			}
 		}
 	}
-	for _, st := range f.part.File.Stmts {
-		if bs, ok := st.(*grammar.BadStmt); ok && bs.Word == "frame" {
-			for _, w := range bs.Words {
+	for _, st := range f.part.Statements {
+		if !st.Parsed && st.Keyword == "frame" {
+			for _, w := range st.Words {
 				for _, l := range strings.Split(w, "-") {
 					f.used[l] = true
 				}
@@ -59,23 +62,24 @@ func (f *Facts) UsedLetters() map[string]bool {
 	return f.used
 }
 
-// BrokenMentions returns the names written in statements that did not
+// brokenMentions returns the names written in statements that did not
 // parse, and the targets of frames whose characteristic is unknown. Rules
 // that judge what is missing for a feature (a form control, a basic
 // dimension) stay silent on these: what the drafter wrote there may be the
 // very thing, and the syntax finding already asks for a fix.
-func (f *Facts) BrokenMentions() map[string]bool {
+func (f *facts) brokenMentions() map[string]bool {
 	if f.broken != nil {
 		return f.broken
 	}
 	f.broken = map[string]bool{}
-	for _, st := range f.part.File.Stmts {
-		if bs, ok := st.(*grammar.BadStmt); ok {
-			for _, w := range bs.Words {
-				f.broken[w] = true
-				if i := strings.LastIndexByte(w, '.'); i > 0 {
-					f.broken[w[:i]] = true
-				}
+	for _, st := range f.part.Statements {
+		if st.Parsed {
+			continue
+		}
+		for _, w := range st.Words {
+			f.broken[w] = true
+			if i := strings.LastIndexByte(w, '.'); i > 0 {
+				f.broken[w[:i]] = true
 			}
 		}
 	}

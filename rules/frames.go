@@ -18,6 +18,7 @@ tolerance.`,
 	Source: "ASME Y14.5-2018, form tolerances (not related to datums); ISO 1101:2017, form tolerances have no datum",
 	Bad:    "frame base: flatness 0.02 datums A",
 	Good:   "frame base: flatness 0.02",
+	Fix:    "remove the datum references",
 	Run: func(p *Pass) {
 		for _, fr := range p.Part.Frames {
 			if fr.Characteristic.Category() != model.Form {
@@ -25,7 +26,9 @@ tolerance.`,
 			}
 			for _, seg := range fr.Segments {
 				if len(seg.Refs) > 0 {
-					p.Report(refsSpan(seg.Refs), "%s is a form tolerance and takes no datums: remove 'datums ...' (add a separate orientation or location frame if the feature must relate to a datum)", fr.Characteristic)
+					p.ReportDiagnostic(Diagnostic{Span: seg.RefsSpan(),
+						Message: fmt.Sprintf("%s is a form tolerance and takes no datums: remove 'datums ...' (add a separate orientation or location frame if the feature must relate to a datum)", fr.Characteristic),
+						Fixes:   []Fix{{Message: "remove the datum references", Edits: []Edit{deleteWithBlankBefore(p.Part.Source, seg.DatumsSpan)}}}})
 				}
 			}
 		}
@@ -51,7 +54,7 @@ concentricity and symmetry where the edition still has them.`,
 			// has them; under asme-2018 characteristic-withdrawn already
 			// reports the frame, so it is not reported twice.
 			needs := cat == model.Orientation || cat == model.Runout ||
-				((fr.Characteristic == "concentricity" || fr.Characteristic == "symmetry") && p.Part.Standard != model.ASME2018)
+				((fr.Characteristic == model.Concentricity || fr.Characteristic == model.Symmetry) && p.Part.Standard != model.ASME2018)
 			if needs && len(fr.Upper().Refs) == 0 {
 				p.Report(fr.CharSpan, "%s needs at least one datum reference: add e.g. 'datums A' naming the feature it relates to", fr.Characteristic)
 			}
@@ -70,16 +73,25 @@ both.`,
 	Source: "ASME Y14.5-2018, foreword and section 1 (concentricity and symmetry removed); ISO 1101:2017 keeps them",
 	Bad:    "standard asme-2018\nframe hub: concentricity dia 0.05 datums A",
 	Good:   "standard asme-2018\nframe hub: position dia 0.05 datums A",
+	Fix:    "write position in its place, with dia for the coaxiality of a cylinder",
 	Run: func(p *Pass) {
 		if p.Part.Standard != model.ASME2018 {
 			return
 		}
 		for _, fr := range p.Part.Frames {
 			switch fr.Characteristic {
-			case "concentricity":
-				p.Report(fr.CharSpan, "ASME Y14.5-2018 has no concentricity: use position (dia zone) for coaxiality, or circular runout, to the same datums")
-			case "symmetry":
-				p.Report(fr.CharSpan, "ASME Y14.5-2018 has no symmetry: use position of the width (its mid-plane) or profile to the same datums")
+			case model.Concentricity:
+				edits := []Edit{replace(fr.CharSpan, string(model.Position))}
+				if up := fr.Upper(); up.Zone == "" && up.ZoneText == "" && fr.Target.Known() && fr.Target.Feature.Kind.IsCylinder() {
+					edits = append(edits, insertAt(up.ValueSpan.Start, "dia "))
+				}
+				p.ReportDiagnostic(Diagnostic{Span: fr.CharSpan,
+					Message: "ASME Y14.5-2018 has no concentricity: use position (dia zone) for coaxiality, or circular runout, to the same datums",
+					Fixes:   []Fix{{Message: "use position to the same datums", Edits: edits}}})
+			case model.Symmetry:
+				p.ReportDiagnostic(Diagnostic{Span: fr.CharSpan,
+					Message: "ASME Y14.5-2018 has no symmetry: use position of the width (its mid-plane) or profile to the same datums",
+					Fixes:   []Fix{{Message: "use position of the width to the same datums", Edits: []Edit{replace(fr.CharSpan, string(model.Position))}}}})
 			}
 		}
 	},
@@ -129,9 +141,11 @@ a width's mid-plane or a form tolerance of a surface has a zone between two para
 or surfaces, and a sphere's centre a spherical zone (sdia). Conversely, the position of a
 hole or pin is nearly always meant as a cylindrical zone; without dia it is a zone between
 two parallel planes, in one direction only.`,
-	Source: "ASME Y14.5-2018, tolerance zones (diameter symbol, spherical diameter); ISO 1101:2017, tolerance zone shapes",
-	Bad:    "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position 0.1 datums A, B, C",
-	Good:   "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position dia 0.1 datums A, B, C",
+	Source:  "ASME Y14.5-2018, tolerance zones (diameter symbol, spherical diameter); ISO 1101:2017, tolerance zone shapes",
+	Bad:     "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position 0.1 datums A, B, C",
+	Good:    "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position dia 0.1 datums A, B, C",
+	Fix:     "write dia (or sdia) where the zone must be one, remove it where it cannot be",
+	FixSafe: true,
 	Run: func(p *Pass) {
 		for _, fr := range p.Part.Frames {
 			if !fr.Target.Resolved() || fr.Target.Feature.Broken {
@@ -139,48 +153,60 @@ two parallel planes, in one direction only.`,
 			}
 			k := fr.Target.Feature.Kind
 			for _, seg := range fr.Segments {
-				if seg.Tree != nil && seg.Tree.Zone != nil && seg.Zone == "" {
+				if seg.ZoneText != "" && seg.Zone == "" {
 					continue // the word in the zone's place is reported already
 				}
-				if msg := zoneProblem(fr.Characteristic, k, seg.Zone); msg != "" {
+				if msg, to := zoneProblem(fr.Characteristic, k, seg.Zone); msg != "" {
 					sp := seg.ZoneSpan
-					if sp.IsZero() {
-						sp = seg.ValueSpan
+					var e Edit
+					switch {
+					case sp.IsZero():
+						sp, e = seg.ValueSpan, insertAt(seg.ValueSpan.Start, to+" ")
+					case to == "":
+						e = deleteWithBlankAfter(p.Part.Source, sp)
+					default:
+						e = replace(sp, to)
 					}
-					p.Report(sp, "%s", msg)
+					fix := "write " + to
+					if to == "" {
+						fix = "remove " + seg.Zone
+					}
+					p.ReportDiagnostic(Diagnostic{Span: sp, Message: msg, Fixes: []Fix{{Message: fix, Safe: true, Edits: []Edit{e}}}})
 				}
 			}
 		}
 	},
 })
 
-func zoneProblem(c model.Characteristic, k model.Kind, zone string) string {
+// zoneProblem says what is wrong with a segment's zone word, and the word
+// that would be right in its place ("" for none).
+func zoneProblem(c model.Characteristic, k model.Kind, zone string) (msg, to string) {
 	cat := c.Category()
 	axial := k.IsCylinder() || k == model.Cone
 	switch zone {
 	case "dia":
 		switch {
 		case k.IsSphere() && cat == model.Location:
-			return fmt.Sprintf("the centre of a %s has a spherical zone: write sdia instead of dia", k)
+			return fmt.Sprintf("the centre of a %s has a spherical zone: write sdia instead of dia", k), "sdia"
 		case cat == model.Runout || cat == model.Profile:
-			return fmt.Sprintf("%s has no cylindrical zone: remove dia", c)
-		case c == "flatness" || c == "circularity" || c == "cylindricity":
-			return fmt.Sprintf("%s has a zone between two surfaces, not a cylinder: remove dia", c)
-		case c == "straightness" && !axial:
-			return fmt.Sprintf("straightness of a %s's surface lines has a zone between two lines: remove dia (dia applies to the axis of a hole or pin)", k)
+			return fmt.Sprintf("%s has no cylindrical zone: remove dia", c), ""
+		case c == model.Flatness || c == model.Circularity || c == model.Cylindricity:
+			return fmt.Sprintf("%s has a zone between two surfaces, not a cylinder: remove dia", c), ""
+		case c == model.Straightness && !axial:
+			return fmt.Sprintf("straightness of a %s's surface lines has a zone between two lines: remove dia (dia applies to the axis of a hole or pin)", k), ""
 		case !axial && k != model.KindUnknown && (cat == model.Location || cat == model.Orientation):
-			return fmt.Sprintf("a %s has no axis, so its %s zone cannot be a cylinder: remove dia (the zone is two parallel planes)", k, c)
+			return fmt.Sprintf("a %s has no axis, so its %s zone cannot be a cylinder: remove dia (the zone is two parallel planes)", k, c), ""
 		}
 	case "sdia":
 		if !(k.IsSphere() && cat == model.Location) {
-			return fmt.Sprintf("a spherical zone (sdia) belongs to the position of a sphere's centre, not to %s of a %s", c, k)
+			return fmt.Sprintf("a spherical zone (sdia) belongs to the position of a sphere's centre, not to %s of a %s", c, k), ""
 		}
 	case "":
-		if c == "position" && axial && k != model.Cone {
-			return fmt.Sprintf("the position of a %s is normally a cylindrical zone about its axis: write dia before the value (without it the zone is two parallel planes)", k)
+		if c == model.Position && axial && k != model.Cone {
+			return fmt.Sprintf("the position of a %s is normally a cylindrical zone about its axis: write dia before the value (without it the zone is two parallel planes)", k), "dia"
 		}
 	}
-	return ""
+	return "", ""
 }
 
 // ModifierIllegal reports a modifier where the standard does not allow it.
@@ -206,7 +232,7 @@ func runModifierIllegal(p *Pass) {
 	for _, fr := range p.Part.Frames {
 		c, cat := fr.Characteristic, fr.Characteristic.Category()
 		tgt := fr.Target.Feature
-		known := fr.Target.Resolved() && !tgt.Broken && tgt.Kind != model.KindUnknown
+		known := fr.Target.Known()
 		for _, seg := range fr.Segments {
 			seen := map[string]bool{}
 			for _, m := range seg.Modifiers {
@@ -225,9 +251,9 @@ func runModifierIllegal(p *Pass) {
 					switch {
 					case cat == model.Runout:
 						p.Report(m.Span, "runout applies regardless of feature size: remove (%s)", m.Letter)
-					case c == "concentricity" || c == "symmetry":
+					case c == model.Concentricity || c == model.Symmetry:
 						p.Report(m.Span, "%s applies regardless of feature size: remove (%s)", c, m.Letter)
-					case c == "circularity" || c == "cylindricity":
+					case c == model.Circularity || c == model.Cylindricity:
 						p.Report(m.Span, "%s controls surface elements and cannot be applied at %s: remove (%s)", c, cond, m.Letter)
 					case known && !tgt.Kind.IsFOS():
 						p.Report(m.Span, "(%s) needs a feature of size; the %s '%s' is not a feature of size and has no size to vary: remove (%s), or put the frame on a feature of size", m.Letter, tgt.Kind, tgt.Name, m.Letter)
@@ -249,7 +275,7 @@ func runModifierIllegal(p *Pass) {
 				for _, d := range r.Datums {
 					f := d.Target.Feature
 					// A face of a width at MMB/LMB is midplane-ambiguous's finding.
-					if f.Broken || f.Kind == model.KindUnknown || f.Kind.IsFOS() || widthOfFace(p.Part, f) != nil {
+					if !f.Known() || f.Kind.IsFOS() || p.Part.WidthOfFace(f) != nil {
 						continue
 					}
 					if ok, why := boundaryAllowed(p, d, fr); !ok {
@@ -265,38 +291,19 @@ func runModifierIllegal(p *Pass) {
 // at MMB or LMB: under ASME Y14.5-2009 and later, a surface located by basic
 // dimensions and a position or profile tolerance to datums of higher
 // precedence has a boundary (ASME Y14.5-2018, datum features at MMB applied
-// to surfaces). The basic-dimension engine's check that the location is
-// fully basic is added by the basic-dimension rules.
+// to surfaces), and the basic-dimension engine says whether the location is
+// fully basic.
 func boundaryAllowed(p *Pass, d *model.Datum, in *model.Frame) (bool, string) {
 	if !p.Part.Standard.IsASME() {
 		return false, "remove the modifier (ISO 2692 applies the maximum material requirement to datum features of size)"
 	}
 	f := d.Target.Feature
 	for _, fr := range p.Part.FramesOn(f) {
-		cat := fr.Characteristic.Category()
-		if (fr.Characteristic == "position" || cat == model.Profile) && len(fr.Upper().Refs) > 0 && !refersTo(fr, d.Letter) {
-			if locatedByBasics(p, f, fr) {
+		if fr.Located() && len(fr.Upper().Refs) > 0 && !fr.RefersTo(d.Letter) {
+			if p.Basics().Located(fr) {
 				return true, ""
 			}
 		}
 	}
 	return false, fmt.Sprintf("remove the modifier, or locate %s with basic dimensions and a profile or position tolerance to the higher-precedence datums", f.Name)
-}
-
-// locatedByBasics is replaced by the basic-dimension engine's answer when
-// that engine is linked in; by default a located tolerance is taken as
-// locating the surface.
-var locatedByBasics = func(p *Pass, f *model.Feature, fr *model.Frame) bool { return true }
-
-func refersTo(fr *model.Frame, letter string) bool {
-	for _, seg := range fr.Segments {
-		for _, r := range seg.Refs {
-			for _, l := range r.Letters {
-				if l == letter {
-					return true
-				}
-			}
-		}
-	}
-	return false
 }

@@ -6,6 +6,7 @@ import (
 
 	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/rules/dof"
+	"github.com/datumlint/datumlint/rules/kinematics"
 )
 
 // The frame rules built on the kinematic engine (kinematics.go, rules/dof):
@@ -41,15 +42,17 @@ datum A on base
 datum B on rear
 datum C on left
 frame bore: position dia 0.1 datums A, B, C`,
+	Fix: "remove the reference",
 	Run: func(p *Pass) {
-		forEachSegment(p, func(fr *model.Frame, a *SegmentDOF) {
+		forEachSegment(p, func(fr *model.Frame, a *kinematics.Segment) {
 			steps := a.DRF.Steps()
 			for k, st := range steps {
 				r := a.Segment.Refs[k]
 				if st.Constrains > 0 || repeatsLetters(a.Segment.Refs[:k], r) {
 					continue // a repeated letter is datum-duplicate's finding
 				}
-				p.Report(r.Span, "%s", redundantReason(a, k, p.Part.Tolerance()))
+				p.ReportDiagnostic(Diagnostic{Span: r.Span, Message: redundantReason(a, k, p.Part.Tolerance()),
+					Fixes: []Fix{{Message: "remove datum " + refName(r) + " from the frame", Edits: []Edit{dropRef(p.Part.Source, a.Segment, k)}}}})
 			}
 		})
 	},
@@ -81,7 +84,7 @@ datum B on rear
 datum C on left
 frame bore: position dia 0.1 datums A, B, C`,
 	Run: func(p *Pass) {
-		forEachLocated(p, func(fr *model.Frame, a *SegmentDOF) {
+		forEachLocated(p, func(fr *model.Frame, a *kinematics.Segment) {
 			if !a.Zone.TranslationMoves {
 				return
 			}
@@ -130,7 +133,7 @@ datum C on key
 frame pinhole: position dia 0.1 datums A, B, C
 basic 30 from hub to pinhole`,
 	Run: func(p *Pass) {
-		forEachLocated(p, func(fr *model.Frame, a *SegmentDOF) {
+		forEachLocated(p, func(fr *model.Frame, a *kinematics.Segment) {
 			if a.Zone.TranslationMoves || len(a.Zone.Free) == 0 {
 				return
 			}
@@ -165,7 +168,7 @@ feature bore hole size 10 +-0.1 axis +z at (20, 20, 0)
 datum A on base
 frame bore: perpendicularity dia 0.05 datums A`,
 	Run: func(p *Pass) {
-		forEachSegment(p, func(fr *model.Frame, a *SegmentDOF) {
+		forEachSegment(p, func(fr *model.Frame, a *kinematics.Segment) {
 			per := a.Zone.PerStep
 			for k, st := range a.DRF.Steps() {
 				if st.Constrains == 0 || k+1 >= len(per) || per[k+1] != per[k] {
@@ -194,10 +197,10 @@ frame bore: perpendicularity dia 0.05 datums A`,
 })
 
 // forEachSegment calls fn for every analysed segment of every frame.
-func forEachSegment(p *Pass, fn func(*model.Frame, *SegmentDOF)) {
+func forEachSegment(p *Pass, fn func(*model.Frame, *kinematics.Segment)) {
 	for _, fr := range p.Part.Frames {
 		for i := range fr.Segments {
-			if a := p.Facts.DOF(fr, i); a.Resolved {
+			if a := p.Kinematics().Segment(fr, i); a.Resolved {
 				fn(fr, a)
 			}
 		}
@@ -208,15 +211,12 @@ func forEachSegment(p *Pass, fn func(*model.Frame, *SegmentDOF)) {
 // located profile frame (profile with datums) on a single feature. A
 // pattern, and a composite lower segment, may float as the standards allow
 // (ASME Y14.5-2018, pattern location and composite tolerancing).
-func forEachLocated(p *Pass, fn func(*model.Frame, *SegmentDOF)) {
+func forEachLocated(p *Pass, fn func(*model.Frame, *kinematics.Segment)) {
 	for _, fr := range p.Part.Frames {
-		up := fr.Upper()
-		located := fr.Characteristic == "position" ||
-			fr.Characteristic.Category() == model.Profile && len(up.Refs) > 0
-		if !located || fr.Target.IsPattern() || isNextDatum(p, fr) {
+		if !fr.Located() || fr.Target.IsPattern() || isNextDatum(p, fr) {
 			continue
 		}
-		if a := p.Facts.DOF(fr, 0); a.Resolved {
+		if a := p.Kinematics().Segment(fr, 0); a.Resolved {
 			fn(fr, a)
 		}
 	}
@@ -233,8 +233,8 @@ func isNextDatum(p *Pass, fr *model.Frame) bool {
 	if fr.Target.Member != nil {
 		return false
 	}
-	used := refPrefixes(p.Facts)
-	prefix := refsKey(fr.Upper().Refs)
+	used := p.Kinematics().RefPrefixes()
+	prefix := kinematics.RefsKey(fr.Upper().Refs)
 	for _, d := range p.Part.DatumsOn(fr.Target.Feature) {
 		if d.Target.Member != nil {
 			continue
@@ -248,27 +248,6 @@ func isNextDatum(p *Pass, fr *model.Frame) bool {
 		}
 	}
 	return false
-}
-
-// refPrefixes is the set of every leading part of every segment's reference
-// list ("A", "A,B", "A,B,C" for A, B, C), built once per file so that
-// isNextDatum does not scan every frame for every frame.
-func refPrefixes(f *Facts) map[string]bool {
-	return Memo(f, "frames.refPrefixes", func() map[string]bool {
-		out := map[string]bool{}
-		for _, fr := range f.part.Frames {
-			for _, seg := range fr.Segments {
-				k := refsKey(seg.Refs)
-				for i := range k {
-					if k[i] == ',' {
-						out[k[:i]] = true
-					}
-				}
-				out[k] = true
-			}
-		}
-		return out
-	})
 }
 
 func repeatsLetters(before []*model.DatumRef, r *model.DatumRef) bool {
@@ -287,7 +266,7 @@ func repeatsLetters(before []*model.DatumRef, r *model.DatumRef) bool {
 }
 
 // redundantReason explains why reference k of a segment removes nothing.
-func redundantReason(a *SegmentDOF, k int, tol float64) string {
+func redundantReason(a *kinematics.Segment, k int, tol float64) string {
 	refs := a.Segment.Refs
 	r := refs[k]
 	name := refName(r)
@@ -317,7 +296,7 @@ func sameConstraint(d, e *model.Datum, tol float64) string {
 	if fd == fe && (d.Target.Member == e.Target.Member) {
 		return "is on the same feature as"
 	}
-	cd, ce := surfaceClass(fd.Kind), surfaceClass(fe.Kind)
+	cd, ce := kinematics.SurfaceClass(fd.Kind), kinematics.SurfaceClass(fe.Kind)
 	if cd != ce || len(d.Target.Points()) != 1 || len(e.Target.Points()) != 1 {
 		return ""
 	}

@@ -3,7 +3,6 @@ package rules
 import (
 	"bytes"
 	"fmt"
-	"github.com/datumlint/datumlint/grammar/source"
 	"io/fs"
 	"os"
 	"path/filepath"
@@ -11,6 +10,8 @@ import (
 	"testing"
 	"unicode/utf8"
 
+	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/source"
 )
 
 // checkSeeds are hostile and odd inputs, besides the repository's test data.
@@ -58,7 +59,7 @@ func FuzzCheck(f *testing.F) {
 func checkFindings(t *testing.T, src []byte) {
 	t.Helper()
 	const name = "fuzz.callouts"
-	ds := Check(name, src, nil)
+	ds := Check(grammar.Read(name, src), nil)
 	lines := strings.Split(string(bytes.TrimPrefix(src, []byte("\xef\xbb\xbf"))), "\n")
 	for _, d := range ds {
 		where := fmt.Sprintf("%s %s %q\ninput %.400q", d.Span, d.Rule, d.Message, src)

@@ -1,8 +1,10 @@
 package rules
 
 import (
-	"github.com/datumlint/datumlint/grammar/source"
 	"strings"
+
+	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/grammar/source"
 )
 
 // Syntax reports what does not parse, and values the notation does not
@@ -19,11 +21,10 @@ file is still checked.`,
 	Bad:    "feature bore hole size 25 +0.05 -0 axis at (60, 40, 0)",
 	Good:   "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)",
 	Run: func(p *Pass) {
-		for _, e := range p.File.Errors {
-			p.Report(e.Span, "%s", e.Msg)
-		}
-		for _, e := range p.Part.Errors {
-			p.Report(e.Span, "%s", e.Msg)
+		for _, e := range p.Part.Problems {
+			if e.Kind == model.Syntax {
+				p.Report(e.Span, "%s", e.Message)
+			}
 		}
 	},
 })
@@ -55,10 +56,7 @@ Y14.5-2018. A drawing states both in its title block; the callout file must too.
 		if len(miss) == 0 {
 			return
 		}
-		sp := p.Part.FirstStmt
-		if sp.IsZero() {
-			sp = source.Span{Start: source.Pos{Line: 1, Col: 1}, End: source.Pos{Line: 1, Col: 2}}
-		}
+		sp := p.Part.FirstStatement()
 		what := "units"
 		switch {
 		case !has["units"] && !has["standard"]:
@@ -85,22 +83,24 @@ var HeaderDuplicate = Register(&Rule{
 	Bad:    "units mm\nstandard asme-2018\nunits in",
 	Good:   "units mm\nstandard asme-2018",
 	Run: func(p *Pass) {
-		seen := map[string]int{}
-		firstFeature := 0
-		for _, st := range p.File.Stmts {
-			if st.Keyword() == "feature" {
-				firstFeature = st.Span().Start.Line
+		seen := map[string]source.Span{}
+		var firstFeature source.Span
+		for _, st := range p.Part.Statements {
+			if st.Keyword == "feature" {
+				firstFeature = st.Span
 				break
 			}
 		}
 		for _, h := range p.Part.Headers {
-			if line, ok := seen[h.Keyword]; ok {
-				p.Report(h.Span, "'%s' is already declared on line %d; keep one", h.Keyword, line)
+			if first, ok := seen[h.Keyword]; ok {
+				p.ReportRelated(h.Span, []Related{{first, "'" + h.Keyword + "' is first declared here"}},
+					"'%s' is already declared on line %d; keep one", h.Keyword, first.Start.Line)
 				continue
 			}
-			seen[h.Keyword] = h.Span.Start.Line
-			if firstFeature > 0 && h.Span.Start.Line > firstFeature {
-				p.Report(h.Span, "'%s' comes after the first feature (line %d); move the header to the top of the file", h.Keyword, firstFeature)
+			seen[h.Keyword] = h.Span
+			if !firstFeature.IsZero() && h.Span.Start.Line > firstFeature.Start.Line {
+				p.ReportRelated(h.Span, []Related{{firstFeature, "the first feature"}},
+					"'%s' comes after the first feature (line %d); move the header to the top of the file", h.Keyword, firstFeature.Start.Line)
 			}
 		}
 	},
@@ -118,8 +118,10 @@ two features that are not parallel planes describes nothing a gauge could establ
 	Bad:    "feature top plane normal +z at (0, 0, 10)\nfeature side plane normal +x at (0, 0, 0)\nfeature web tab size 10 +-0.1 between top side",
 	Good:   "feature top plane normal +z at (0, 0, 10)\nfeature bottom plane normal -z at (0, 0, 0)\nfeature web tab size 10 +-0.1 between top bottom",
 	Run: func(p *Pass) {
-		for _, e := range p.Part.GeometryErrors {
-			p.Report(e.Span, "%s", e.Msg)
+		for _, e := range p.Part.Problems {
+			if e.Kind == model.Geometry {
+				p.Report(e.Span, "%s", e.Message)
+			}
 		}
 	},
 })

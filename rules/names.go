@@ -17,12 +17,17 @@ attaches the annotation to nothing, and none of its checks can run.`,
 	Source: "common practice (every annotation is associated with a feature: ASME Y14.41-2019, annotation association)",
 	Bad:    "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bor: position dia 0.1 datums A",
 	Good:   "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position dia 0.1 datums A",
+	Fix:    "write the one declared name near the typo, where exactly one is near",
 	Run: func(p *Pass) {
 		for _, t := range p.Part.Refs {
 			if t.Resolved() {
 				continue
 			}
-			p.Report(t.Span, "'%s' names nothing: %s", t.Name, t.Problem)
+			d := Diagnostic{Span: t.Span, Message: fmt.Sprintf("'%s' names nothing: %s", t.Name, t.Problem)}
+			if t.Suggestion != "" {
+				d.Fixes = []Fix{{Message: "write " + t.Suggestion, Edits: []Edit{replace(t.Span, t.Suggestion)}}}
+			}
+			p.ReportDiagnostic(d)
 		}
 	},
 })
@@ -40,7 +45,8 @@ one name make every reference to it ambiguous; datumlint uses the first and repo
 	Run: func(p *Pass) {
 		for _, d := range p.Part.Duplicates {
 			first := p.Part.Feature(d.Name)
-			p.Report(d.NameSpan, "the feature name '%s' is already declared on line %d; give this %s a name of its own", d.Name, first.NameSpan.Start.Line, kindWord(d))
+			p.ReportRelated(d.NameSpan, []Related{{first.NameSpan, "'" + d.Name + "' is first declared here"}},
+				"the feature name '%s' is already declared on line %d; give this %s a name of its own", d.Name, first.NameSpan.Start.Line, kindWord(d))
 		}
 	},
 })
@@ -67,7 +73,7 @@ envelope rule depend, come from its limits of size. Without a size those cannot 
 	Good:   "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)",
 	Run: func(p *Pass) {
 		for _, f := range append(p.Part.Features, p.Part.Duplicates...) {
-			if f.Broken || !f.Kind.IsFOS() || f.Size != nil || f.Stmt == nil || f.Stmt.Size != nil {
+			if f.Broken || !f.Kind.IsFOS() || f.Size != nil {
 				continue
 			}
 			p.Report(f.NameSpan, "the %s '%s' is a feature of size but has no size: add one after the kind, e.g. %s",

@@ -38,25 +38,6 @@ datum C on slot placed on-dimension-line`,
 	Run: runMidplaneAmbiguous,
 })
 
-// widthOfFace returns the width (slot or tab) that names the plane as one
-// of its faces with 'between', or nil.
-func widthOfFace(part *model.Part, f *model.Feature) *model.Feature {
-	if f == nil || f.Kind != model.Plane {
-		return nil
-	}
-	for _, w := range part.Features {
-		if w.Broken || !w.Kind.IsWidth() {
-			continue
-		}
-		for _, fc := range w.Faces {
-			if fc != nil && fc.Feature == f && fc.Member == nil {
-				return w
-			}
-		}
-	}
-	return nil
-}
-
 // gives names what a datum on a feature of size is, for messages.
 func gives(k model.Kind) string {
 	switch {
@@ -71,11 +52,8 @@ func gives(k model.Kind) string {
 }
 
 func runMidplaneAmbiguous(p *Pass) {
-	usable := func(d *model.Datum) bool {
-		return d != nil && !d.Broken && d.Target.Resolved() && !d.Target.Feature.Broken && d.Target.Feature.Kind != model.KindUnknown
-	}
 	for _, d := range p.Part.Datums {
-		if usable(d) {
+		if d.Usable() {
 			placementContradiction(p, d)
 		}
 	}
@@ -89,11 +67,11 @@ func runMidplaneAmbiguous(p *Pass) {
 			faceOf := map[*model.Feature]*model.Datum{} // width -> first face datum seen
 			for _, r := range seg.Refs {
 				for _, d := range r.Datums {
-					if !usable(d) || d.Target.Member != nil {
+					if !d.Usable() || d.Target.Member != nil {
 						continue
 					}
 					f := d.Target.Feature
-					w := widthOfFace(p.Part, f)
+					w := p.Part.WidthOfFace(f)
 					if w == nil {
 						continue
 					}
@@ -103,7 +81,7 @@ func runMidplaneAmbiguous(p *Pass) {
 						if ok, _ := boundaryAllowed(p, d, fr); !ok {
 							atBoundary[d] = true
 							bound := map[string]string{"M": "MMB", "L": "LMB"}[r.Material]
-							p.Report(d.LetterSpan, "datum %s is on the face '%s' of the %s '%s' and is referenced at %s (line %d), but a single face has no material boundary, only the width has: attach the letter to the width, `datum %s on %s` (its mid-plane, which may be referenced at %s), or remove (%s)",
+							p.ReportRelated(d.LetterSpan, []Related{{r.Span, "referenced at " + bound + " here"}}, "datum %s is on the face '%s' of the %s '%s' and is referenced at %s (line %d), but a single face has no material boundary, only the width has: attach the letter to the width, `datum %s on %s` (its mid-plane, which may be referenced at %s), or remove (%s)",
 								d.Letter, f.Name, w.Kind, w.Name, bound, r.Span.Start.Line, d.Letter, w.Name, bound, r.Material)
 						}
 					}
@@ -114,7 +92,7 @@ func runMidplaneAmbiguous(p *Pass) {
 					}
 					if other.Target.Feature != f && !bothFaces[d] {
 						bothFaces[d] = true
-						p.Report(d.LetterSpan, "datums %s and %s are on the two faces '%s' and '%s' of the %s '%s' and are used together (line %d): each letter designates one surface, but together they stand for the width, whose datum is its mid-plane; to mean the mid-plane write one letter on the width, `datum %s on %s`, and reference it alone",
+						p.ReportRelated(d.LetterSpan, []Related{{other.LetterSpan, "datum " + other.Letter + " is on the other face"}, {r.Span, "used together here"}}, "datums %s and %s are on the two faces '%s' and '%s' of the %s '%s' and are used together (line %d): each letter designates one surface, but together they stand for the width, whose datum is its mid-plane; to mean the mid-plane write one letter on the width, `datum %s on %s`, and reference it alone",
 							other.Letter, d.Letter, other.Target.Name, f.Name, w.Kind, w.Name, r.Span.Start.Line, other.Letter, w.Name)
 					}
 				}
@@ -131,7 +109,7 @@ func placementContradiction(p *Pass, d *model.Datum) {
 	case "on-dimension-line":
 		// In line with a size dimension: the feature of size's mid-plane,
 		// axis or centre (ASME Y14.5-2018, datum feature symbol placement).
-		if w := widthOfFace(p.Part, f); w != nil {
+		if w := p.Part.WidthOfFace(f); w != nil {
 			p.Report(d.LetterSpan, "datum %s is on the face '%s' of the %s '%s' but is drawn in line with the size dimension, which means the mid-plane: write `datum %s on %s` for the mid-plane, or place it `on-surface` for the face",
 				d.Letter, f.Name, w.Kind, w.Name, d.Letter, w.Name)
 			return

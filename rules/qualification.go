@@ -82,7 +82,7 @@ func runDatumUnqualified(p *Pass) {
 	}
 	for _, d := range p.Part.Datums {
 		f := d.Target.Feature
-		if d.Broken || !d.Target.Resolved() || f.Broken || f.Kind == model.KindUnknown || len(uses[d]) == 0 || p.Facts.BrokenMentions()[f.Name] {
+		if !d.Usable() || len(uses[d]) == 0 || p.facts.brokenMentions()[f.Name] {
 			continue
 		}
 		var problems []string
@@ -143,16 +143,16 @@ var formChars = map[model.Kind]struct {
 	pairs [][2]model.Characteristic
 	hint  string
 }{
-	model.Plane:     {alone: []model.Characteristic{"flatness", "surface-profile", "perpendicularity", "parallelism", "angularity", "total-runout"}, hint: "flatness %s"},
-	model.Slot:      {alone: []model.Characteristic{"flatness", "surface-profile"}, hint: "flatness %s"},
-	model.Tab:       {alone: []model.Characteristic{"flatness", "surface-profile"}, hint: "flatness %s"},
-	model.Hole:      {alone: []model.Characteristic{"cylindricity", "surface-profile", "total-runout"}, pairs: [][2]model.Characteristic{{"circularity", "straightness"}}, hint: "cylindricity %s"},
-	model.Pin:       {alone: []model.Characteristic{"cylindricity", "surface-profile", "total-runout"}, pairs: [][2]model.Characteristic{{"circularity", "straightness"}}, hint: "cylindricity %s"},
-	model.Socket:    {alone: []model.Characteristic{"circularity", "surface-profile"}, hint: "circularity %s"},
-	model.Ball:      {alone: []model.Characteristic{"circularity", "surface-profile"}, hint: "circularity %s"},
-	model.Cone:      {alone: []model.Characteristic{"surface-profile"}, pairs: [][2]model.Characteristic{{"circularity", "straightness"}}, hint: "surface-profile %s"},
-	model.Extrusion: {alone: []model.Characteristic{"surface-profile"}, pairs: [][2]model.Characteristic{{"line-profile", "straightness"}}, hint: "surface-profile %s"},
-	model.Surface:   {alone: []model.Characteristic{"surface-profile"}, hint: "surface-profile %s"},
+	model.Plane:     {alone: []model.Characteristic{model.Flatness, model.SurfaceProfile, model.Perpendicularity, model.Parallelism, model.Angularity, model.TotalRunout}, hint: "flatness %s"},
+	model.Slot:      {alone: []model.Characteristic{model.Flatness, model.SurfaceProfile}, hint: "flatness %s"},
+	model.Tab:       {alone: []model.Characteristic{model.Flatness, model.SurfaceProfile}, hint: "flatness %s"},
+	model.Hole:      {alone: []model.Characteristic{model.Cylindricity, model.SurfaceProfile, model.TotalRunout}, pairs: [][2]model.Characteristic{{model.Circularity, model.Straightness}}, hint: "cylindricity %s"},
+	model.Pin:       {alone: []model.Characteristic{model.Cylindricity, model.SurfaceProfile, model.TotalRunout}, pairs: [][2]model.Characteristic{{model.Circularity, model.Straightness}}, hint: "cylindricity %s"},
+	model.Socket:    {alone: []model.Characteristic{model.Circularity, model.SurfaceProfile}, hint: "circularity %s"},
+	model.Ball:      {alone: []model.Characteristic{model.Circularity, model.SurfaceProfile}, hint: "circularity %s"},
+	model.Cone:      {alone: []model.Characteristic{model.SurfaceProfile}, pairs: [][2]model.Characteristic{{model.Circularity, model.Straightness}}, hint: "surface-profile %s"},
+	model.Extrusion: {alone: []model.Characteristic{model.SurfaceProfile}, pairs: [][2]model.Characteristic{{model.LineProfile, model.Straightness}}, hint: "surface-profile %s"},
+	model.Surface:   {alone: []model.Characteristic{model.SurfaceProfile}, hint: "surface-profile %s"},
 }
 
 // hasFormControl reports whether the target carries a form control for its
@@ -165,7 +165,7 @@ func hasFormControl(part *model.Part, t *model.Target, letter string) bool {
 	}
 	have := map[model.Characteristic]bool{}
 	for _, fr := range framesOnDatum(part, t) {
-		if letter != "" && refersTo(fr, letter) {
+		if letter != "" && fr.RefersTo(letter) {
 			continue
 		}
 		have[fr.Characteristic] = true

@@ -3,6 +3,8 @@ package rules
 import (
 	"strings"
 	"testing"
+
+	"github.com/datumlint/datumlint/grammar"
 )
 
 // withRule registers r for the duration of a test. The registry is filled
@@ -28,7 +30,7 @@ func TestPanickingRuleIsReportedAndTheOthersStillRun(t *testing.T) {
 				m["boom"]++ // a nil-map write: a runtime panic, as a real bug would give
 			},
 		})
-		ds := Check("parts/plate.callouts", src, nil)
+		ds := Check(grammar.Read("parts/plate.callouts", src), nil)
 		var internal, others int
 		for _, d := range ds {
 			switch d.Rule {
@@ -58,7 +60,7 @@ func TestPanickingRuleIsReportedAndTheOthersStillRun(t *testing.T) {
 	if Lookup("zz-test-panics") != nil {
 		t.Fatal("the panicking rule is still registered after its test")
 	}
-	for _, d := range Check("parts/plate.callouts", src, nil) {
+	for _, d := range Check(grammar.Read("parts/plate.callouts", src), nil) {
 		if d.Rule == InternalRule {
 			t.Errorf("an internal error after the rule was removed: %s", d.Message)
 		}
@@ -74,7 +76,7 @@ func TestInternalErrorIsNotSuppressed(t *testing.T) {
 		Run: func(p *Pass) { panic("boom") },
 	})
 	src := []byte("# datumlint: allow internal-error zz-test-panics -- trying to hide it\nunits mm\nstandard iso\n")
-	for _, d := range Check("a.callouts", src, nil) {
+	for _, d := range Check(grammar.Read("a.callouts", src), nil) {
 		if d.Rule == InternalRule && d.Suppressed {
 			t.Errorf("an internal error was suppressed: %s", d.Message)
 		}

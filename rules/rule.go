@@ -5,12 +5,14 @@ package rules
 
 import (
 	"fmt"
-	"github.com/datumlint/datumlint/grammar/source"
 	"sort"
 	"strings"
 
-	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/source"
+
 	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/rules/basics"
+	"github.com/datumlint/datumlint/rules/kinematics"
 )
 
 // Severity of a finding. Off disables a rule.
@@ -58,7 +60,24 @@ type Rule struct {
 	Source    string   // the published source (or "common practice", "from memory")
 	Bad, Good string   // callout examples: Bad triggers the rule, Good does not
 	Severity  Severity // default severity
-	Run       func(*Pass)
+	// Fix says what the rule's suggested fix does, "" where it offers
+	// none; FixSafe whether that fix keeps the meaning the rule cares
+	// about (check --fix applies it) or needs review (--fix-all).
+	Fix     string
+	FixSafe bool
+	Run     func(*Pass)
+}
+
+// FixText describes a rule's fix for documentation: what it does and how
+// it is applied, or that there is none.
+func (r *Rule) FixText() string {
+	switch {
+	case r.Fix == "":
+		return "none"
+	case r.FixSafe:
+		return r.Fix + " (safe: `check --fix` applies it)"
+	}
+	return r.Fix + " (needs review: `check --fix-all` applies it)"
 }
 
 // Diagnostic is one finding: plain data, as go/analysis has it, so that
@@ -104,18 +123,31 @@ type Edit struct {
 	NewText string
 }
 
-// Pass is what a rule sees: the part, its file and a way to report.
+// Pass is what a rule sees: the part, the engines' results for it, and a
+// way to report.
 type Pass struct {
 	Rule  *Rule
 	Part  *model.Part
-	File  *grammar.File
-	Facts *Facts
+	facts *facts
 	out   *[]Diagnostic
 }
+
+// Kinematics returns the part's kinematic result (rules/kinematics),
+// computed once per part and shared by every rule.
+func (p *Pass) Kinematics() *kinematics.Result { return p.facts.kinematics() }
+
+// Basics returns the part's basic-dimension result (rules/basics),
+// computed once per part and shared by every rule.
+func (p *Pass) Basics() *basics.Analysis { return p.facts.basics() }
 
 // Report records a finding at a span.
 func (p *Pass) Report(sp source.Span, format string, args ...any) {
 	p.ReportDiagnostic(Diagnostic{Span: sp, Message: fmt.Sprintf(format, args...)})
+}
+
+// ReportRelated records a finding that speaks of another place too.
+func (p *Pass) ReportRelated(sp source.Span, related []Related, format string, args ...any) {
+	p.ReportDiagnostic(Diagnostic{Span: sp, Related: related, Message: fmt.Sprintf(format, args...)})
 }
 
 // ReportDiagnostic records a finding given as data (with related places
@@ -125,7 +157,7 @@ func (p *Pass) ReportDiagnostic(d Diagnostic) {
 	if sp.End.Line == 0 || sp.End.Before(sp.Start) {
 		sp.End = source.Pos{Line: sp.Start.Line, Col: sp.Start.Col + 1}
 	}
-	d.Span, d.File, d.Rule, d.Severity = sp, p.File.Name, p.Rule.ID, p.Rule.Severity
+	d.Span, d.File, d.Rule, d.Severity = sp, p.Part.Source.Name, p.Rule.ID, p.Rule.Severity
 	*p.out = append(*p.out, d)
 }
 

@@ -2,12 +2,13 @@ package rules_test
 
 import (
 	"fmt"
-	"github.com/datumlint/datumlint/grammar/source"
 	"os"
 	"path/filepath"
 	"regexp"
 	"strings"
 	"testing"
+
+	"github.com/datumlint/datumlint/grammar"
 
 	"github.com/datumlint/datumlint/rules"
 )
@@ -21,6 +22,36 @@ type want struct {
 }
 
 var wantRE = regexp.MustCompile(`#\s*want\s+(.*)$`)
+
+// checkRE matches the line that names the rules a test file is about:
+// `# check: RULE-ID, RULE-ID`. Only those rules run on the file (as
+// analysistest runs one analyzer over its own folder), so that a new rule
+// does not break the test files of others; a file without it runs every
+// rule, as the clean files and the whole-corpus runs (examples, generated
+// parts) do, which is where a rule firing on a correct part shows.
+var checkRE = regexp.MustCompile(`(?m)^#\s*check:\s*(.*)$`)
+
+// settingsFor returns the settings that run only the rules a test file
+// names, or nil (every rule at its default) when it names none.
+func settingsFor(t *testing.T, name string, src []byte) *rules.Settings {
+	t.Helper()
+	m := checkRE.FindSubmatch(src)
+	if m == nil {
+		return nil
+	}
+	s := &rules.Settings{Severity: map[string]rules.Severity{}}
+	for _, r := range rules.All() {
+		s.Severity[r.ID] = rules.Off
+	}
+	for _, id := range strings.FieldsFunc(string(m[1]), func(r rune) bool { return r == ',' || r == ' ' }) {
+		r := rules.Lookup(id)
+		if r == nil {
+			t.Fatalf("%s: '# check:' names unknown rule %q", name, id)
+		}
+		s.Severity[id] = r.Severity
+	}
+	return s
+}
 
 // parseWants reads the expectations of a test file.
 func parseWants(t *testing.T, name string, src []byte) []want {
@@ -101,7 +132,15 @@ func TestRuleData(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			checkWants(t, f, src, rules.Check(f, src, nil))
+			s := settingsFor(t, f, src)
+			if s != nil {
+				for _, w := range parseWants(t, f, src) {
+					if s.Severity[w.rule] == rules.Off {
+						t.Fatalf("%s:%d: want names %s, which the file's '# check:' line does not run", f, w.line, w.rule)
+					}
+				}
+			}
+			checkWants(t, f, src, rules.Check(grammar.Read(f, src), s))
 		})
 	}
 }
@@ -141,7 +180,7 @@ func exampleFile(ex string) string {
 
 func count(rule, src string) int {
 	n := 0
-	for _, d := range rules.Check("example.callouts", []byte(src), nil) {
+	for _, d := range rules.Check(grammar.Read("example.callouts", []byte(src)), nil) {
 		if d.Rule == rule && !d.Suppressed {
 			n++
 		}
@@ -156,7 +195,7 @@ func TestNoPanicOnEveryPrefix(t *testing.T) {
 	for _, f := range files {
 		src, _ := os.ReadFile(f)
 		for i := 0; i < len(src); i += 7 {
-			for _, d := range rules.Check(f, src[:i], nil) {
+			for _, d := range rules.Check(grammar.Read(f, src[:i]), nil) {
 				if d.Rule == rules.InternalRule {
 					t.Fatalf("%s cut at %d: %s", f, i, d.Message)
 				}
@@ -166,5 +205,4 @@ func TestNoPanicOnEveryPrefix(t *testing.T) {
 			}
 		}
 	}
-	_ = source.Pos{}
 }

@@ -3,12 +3,12 @@ package main
 import (
 	"fmt"
 	"io"
-	"os"
 	"strings"
 
 	"github.com/spf13/cobra"
 
 	"github.com/datumlint/datumlint/rules"
+	"github.com/datumlint/datumlint/rules/config"
 	"github.com/datumlint/datumlint/rules/lint"
 )
 
@@ -19,19 +19,10 @@ type checkFlags struct {
 	color    string
 	maxBytes int64
 	workers  int
-	configure
+	config   string
+	over     config.Overrides
+	fixes    fixFlags
 }
-
-// configure is filled by the configuration support (config.go) where it is
-// linked in; by default the rules run with their default severities.
-type configure struct {
-	settingsFor func(path string) (*rules.Settings, error)
-	exclude     func(path string) bool
-	failOnSet   func() (rules.Severity, bool)
-}
-
-// checkHooks lets other files add flags and configuration to check.
-var checkHooks []func(cmd *cobra.Command, f *checkFlags)
 
 func newCheckCmd() *cobra.Command {
 	f := &checkFlags{}
@@ -51,22 +42,30 @@ checked). With no PATH, the current folder is checked.`,
 	fl.StringVar(&f.color, "color", "auto", "colour the text output: auto, always or never (NO_COLOR is honoured)")
 	fl.Int64Var(&f.maxBytes, "max-bytes", lint.DefaultMaxBytes, "largest file to read, in bytes")
 	fl.IntVar(&f.workers, "workers", 0, "files checked at once (0: one per core)")
-	for _, h := range checkHooks {
-		h(cmd, f)
-	}
+	fl.StringVar(&f.config, "config", "", "use this configuration file for every checked file instead of the "+config.FileName+" files found above them")
+	fl.StringSliceVar(&f.over.Enable, "enable", nil, "run these rules (RULE[,RULE]) even where the configuration turns them off")
+	fl.StringSliceVar(&f.over.Disable, "disable", nil, "do not run these rules (RULE[,RULE])")
+	fl.BoolVar(&f.fixes.fix, "fix", false, "apply the safe suggested fixes in place, then report what remains")
+	fl.BoolVar(&f.fixes.all, "fix-all", false, "apply every suggested fix, also those that change what the drawing says and need review")
+	fl.BoolVar(&f.fixes.diff, "diff", false, "with --fix or --fix-all: print the fixes as a unified diff and write nothing")
 	return cmd
 }
 
 func runCheck(cmd *cobra.Command, f *checkFlags, args []string) error {
-	out, ok := formats[f.format]
-	if !ok {
+	if len(args) == 0 {
+		args = []string{"."}
+	}
+	cfg, err := loadConfig(f.config, f.over, args)
+	if err != nil {
+		return &exitError{2, err.Error()}
+	}
+	out := formatNamed(f.format)
+	if out == nil {
 		return &exitError{2, fmt.Sprintf("unknown format %q: use %s", f.format, strings.Join(formatNames(), ", "))}
 	}
 	failOn := rules.Warning
-	if f.failOnSet != nil {
-		if s, ok := f.failOnSet(); ok {
-			failOn = s
-		}
+	if cfg.failOnSet {
+		failOn = cfg.failOn
 	}
 	if f.failOn != "" {
 		s, err := rules.ParseSeverity(f.failOn)
@@ -75,15 +74,30 @@ func runCheck(cmd *cobra.Command, f *checkFlags, args []string) error {
 		}
 		failOn = s
 	}
+	if cfg.maxBytes > 0 && !cmd.Flags().Changed("max-bytes") {
+		f.maxBytes = cfg.maxBytes
+	}
 	if err := setColor(f.color); err != nil {
 		return &exitError{2, err.Error()}
 	}
-	if len(args) == 0 {
-		args = []string{"."}
+	if f.fixes.diff && !f.fixes.on() {
+		return &exitError{2, "--diff shows what --fix or --fix-all would change: add one of them"}
 	}
-	res := lint.Run(args, lint.Options{SettingsFor: f.settingsFor, Exclude: f.exclude, MaxBytes: f.maxBytes, Workers: f.workers})
 	stdout := cmd.OutOrStdout()
-	if err := out(stdout, res); err != nil {
+	opt := lint.Options{SettingsFor: cfg.settingsFor, Exclude: cfg.exclude, MaxBytes: f.maxBytes, Workers: f.workers}
+	if f.fixes.on() {
+		fixed, err := runFixes(stdout, cmd.ErrOrStderr(), f.fixes, args, cfg, f.maxBytes)
+		if err != nil {
+			return &exitError{2, err.Error()}
+		}
+		if f.fixes.diff {
+			// Nothing was written: the exit code tells what would remain.
+			opt.Override = fixed
+			out = func(io.Writer, *lint.Result) error { return nil }
+		}
+	}
+	res := lint.Run(args, opt)
+	if err := out(stdout, &res); err != nil {
 		return &exitError{2, err.Error()}
 	}
 	for _, e := range res.Errors {
@@ -92,7 +106,7 @@ func runCheck(cmd *cobra.Command, f *checkFlags, args []string) error {
 	if len(res.Errors) > 0 {
 		return &exitError{2, ""}
 	}
-	for _, d := range res.Diagnostics {
+	for _, d := range res.Diagnostics() {
 		if !d.Suppressed && d.Severity >= failOn {
 			return &exitError{1, ""}
 		}
@@ -100,27 +114,33 @@ func runCheck(cmd *cobra.Command, f *checkFlags, args []string) error {
 	return nil
 }
 
-// formats maps a --format name to its writer.
-var formats = map[string]func(w io.Writer, res lint.Result) error{
-	"text": writeText,
-	"json": writeJSON,
+// outputFormat writes a run's results in one --format.
+type outputFormat struct {
+	name  string
+	write func(w io.Writer, res *lint.Result) error
+}
+
+// formats lists the output formats, in the order help and errors name them.
+var formats = []outputFormat{
+	{"text", writeText},
+	{"json", writeJSON},
+	{"sarif", writeSARIF},
+	{"github", writeGitHub},
+}
+
+func formatNamed(name string) func(io.Writer, *lint.Result) error {
+	for _, f := range formats {
+		if f.name == name {
+			return f.write
+		}
+	}
+	return nil
 }
 
 func formatNames() []string {
-	var out []string
-	for _, n := range []string{"text", "json", "sarif", "github"} {
-		if _, ok := formats[n]; ok {
-			out = append(out, n)
-		}
-	}
-	for n := range formats {
-		known := false
-		for _, o := range out {
-			known = known || o == n
-		}
-		if !known {
-			out = append(out, n)
-		}
+	out := make([]string, len(formats))
+	for i, f := range formats {
+		out[i] = f.name
 	}
 	return out
 }
@@ -134,13 +154,4 @@ func visible(ds []rules.Diagnostic) []rules.Diagnostic {
 		}
 	}
 	return out
-}
-
-func readLines(path string) []string {
-	b, err := os.ReadFile(path)
-	if err != nil {
-		return nil
-	}
-	s := strings.TrimPrefix(string(b), "\ufeff")
-	return strings.Split(strings.ReplaceAll(s, "\r\n", "\n"), "\n")
 }

@@ -5,74 +5,41 @@ import (
 	"path/filepath"
 	"sync"
 
-	"github.com/spf13/cobra"
-
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/config"
 )
 
-// This file links the configuration (.datumlint.toml, --config, --enable,
-// --disable) into `datumlint check` through checkHooks.
-
-func init() {
-	checkHooks = append(checkHooks, addConfigFlags)
-}
-
-func addConfigFlags(cmd *cobra.Command, f *checkFlags) {
-	var (
-		file string
-		over config.Overrides
-	)
-	fl := cmd.Flags()
-	fl.StringVar(&file, "config", "", "use this configuration file for every checked file instead of the "+config.FileName+" files found above them")
-	fl.StringSliceVar(&over.Enable, "enable", nil, "run these rules (RULE[,RULE]) even where the configuration turns them off")
-	fl.StringSliceVar(&over.Disable, "disable", nil, "do not run these rules (RULE[,RULE])")
-
-	prev := cmd.PreRunE
-	cmd.PreRunE = func(cmd *cobra.Command, args []string) error {
-		if prev != nil {
-			if err := prev(cmd, args); err != nil {
-				return err
-			}
-		}
-		if err := over.Check(); err != nil {
-			return &exitError{2, err.Error()}
-		}
-		s := &configSetup{over: over}
-		if file != "" {
-			c, err := config.Load(file)
-			if err != nil {
-				return &exitError{2, err.Error()}
-			}
-			s.fixed = c
-		}
-		// The failing severity and the size limit are settings of the run,
-		// not of a file: they come from --config, or else from the
-		// configurations that apply to the paths on the command line (the
-		// strictest of them, should they differ).
-		top, err := s.forArgs(args)
-		if err != nil {
-			return &exitError{2, err.Error()}
-		}
-		var maxBytes int64
-		for _, c := range top {
-			if c.FailOnSet && (!s.failOnSet || c.FailOn < s.failOn) {
-				s.failOn, s.failOnSet = c.FailOn, true
-			}
-			if c.MaxBytes > 0 && (maxBytes == 0 || c.MaxBytes < maxBytes) {
-				maxBytes = c.MaxBytes
-			}
-		}
-		if maxBytes > 0 && !cmd.Flags().Changed("max-bytes") {
-			f.maxBytes = maxBytes
-		}
-		f.configure = configure{
-			settingsFor: s.settingsFor,
-			exclude:     s.exclude,
-			failOnSet:   func() (rules.Severity, bool) { return s.failOn, s.failOnSet },
-		}
-		return nil
+// loadConfig works out the configuration of a check: --config, or the
+// .datumlint.toml files found above each file, with --enable and --disable
+// applied. The failing severity and the size limit are settings of the
+// run, not of a file: they come from --config, or else from the
+// configurations that apply to the paths on the command line (the
+// strictest of them, should they differ).
+func loadConfig(file string, over config.Overrides, args []string) (*configSetup, error) {
+	if err := over.Check(); err != nil {
+		return nil, err
 	}
+	s := &configSetup{over: over}
+	if file != "" {
+		c, err := config.Load(file)
+		if err != nil {
+			return nil, err
+		}
+		s.fixed = c
+	}
+	top, err := s.forArgs(args)
+	if err != nil {
+		return nil, err
+	}
+	for _, c := range top {
+		if c.FailOnSet && (!s.failOnSet || c.FailOn < s.failOn) {
+			s.failOn, s.failOnSet = c.FailOn, true
+		}
+		if c.MaxBytes > 0 && (s.maxBytes == 0 || c.MaxBytes < s.maxBytes) {
+			s.maxBytes = c.MaxBytes
+		}
+	}
+	return s, nil
 }
 
 // configSetup answers, per checked file, which configuration applies.
@@ -82,6 +49,7 @@ type configSetup struct {
 	finder    config.Finder
 	failOn    rules.Severity
 	failOnSet bool
+	maxBytes  int64
 
 	mu       sync.Mutex
 	settings map[*config.Config]*rules.Settings

@@ -10,14 +10,11 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/grammar/model"
-	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/dof"
+	"github.com/datumlint/datumlint/rules/kinematics"
 	"github.com/datumlint/datumlint/rules/lint"
 )
-
-func init() { extraCommands = append(extraCommands, newDofCmd) }
 
 func newDofCmd() *cobra.Command {
 	var format string
@@ -45,8 +42,8 @@ type dofRef struct {
 	Constrains int    `json:"constrains"`
 }
 
-// dofSegment is a composite lower segment (an extension of the contract:
-// docs/notation.md, "Extensions: dof output").
+// dofSegment is a composite lower segment (an extension of version 0:
+// docs/notation.md, "The dof output").
 type dofSegment struct {
 	Line     int      `json:"line"`
 	Datums   []dofRef `json:"datums"`
@@ -86,13 +83,12 @@ func runDof(stdout, stderr io.Writer, path, format string) error {
 	if err != nil {
 		return &exitError{2, fmt.Sprintf("cannot read %s: %v", path, unwrapPathErr(err))}
 	}
-	file := grammar.Parse(path, src)
-	part := model.Resolve(file)
-	facts := rules.NewFacts(part)
+	part := lint.Read(path, src)
+	kin := kinematics.Analyze(part)
 
 	frames := make([]dofFrame, 0, len(part.Frames))
 	for _, fr := range part.Frames {
-		frames = append(frames, describeFrame(facts, fr))
+		frames = append(frames, describeFrame(kin, fr))
 	}
 	if format == "json" {
 		enc := json.NewEncoder(stdout)
@@ -100,18 +96,20 @@ func runDof(stdout, stderr io.Writer, path, format string) error {
 		if err := enc.Encode(frames); err != nil {
 			return &exitError{2, err.Error()}
 		}
-	} else if err := writeDofText(stdout, part, facts); err != nil {
+	} else if err := writeDofText(stdout, part, kin); err != nil {
 		return &exitError{2, err.Error()}
 	}
 
-	var errs []*grammar.SyntaxError
-	errs = append(errs, file.Errors...)
-	errs = append(errs, part.Errors...)
-	errs = append(errs, part.GeometryErrors...)
-	for _, e := range errs {
-		fmt.Fprintf(stderr, "%s:%s: %s\n", path, e.Span.Start, e.Msg)
+	errs := 0
+	for _, kind := range []model.ProblemKind{model.Syntax, model.Geometry} {
+		for _, e := range part.Problems {
+			if e.Kind == kind {
+				fmt.Fprintf(stderr, "%s:%s: %s\n", path, e.Span.Start, e.Message)
+				errs++
+			}
+		}
 	}
-	if len(errs) > 0 {
+	if errs > 0 {
 		return &exitError{1, ""}
 	}
 	return nil
@@ -124,34 +122,24 @@ func unwrapPathErr(err error) error {
 	return err
 }
 
-func describeFrame(facts *rules.Facts, fr *model.Frame) dofFrame {
+func describeFrame(kin *kinematics.Result, fr *model.Frame) dofFrame {
 	out := dofFrame{Feature: fr.Target.Name, Line: fr.Span.Start.Line, Characteristic: string(fr.Characteristic)}
-	up := describeSegment(facts, fr, 0)
+	segs := kin.Segments(fr)
+	up := describeSegment(segs[0])
 	out.Datums, out.Free, out.ZoneFree, out.Error = up.Datums, up.Free, up.ZoneFree, up.Error
-	for i := 1; i < len(fr.Segments); i++ {
-		out.Composite = append(out.Composite, describeSegment(facts, fr, i))
+	for _, a := range segs[1:] {
+		out.Composite = append(out.Composite, describeSegment(a))
 	}
 	return out
 }
 
-func describeSegment(facts *rules.Facts, fr *model.Frame, i int) dofSegment {
-	a := facts.DOF(fr, i)
-	seg := fr.Segments[i]
-	out := dofSegment{Line: seg.Span.Start.Line, Datums: []dofRef{}, Free: []string{}, ZoneFree: []string{}}
-	var steps []dof.Step
-	if a.Resolved {
-		steps = a.DRF.Steps()
-		out.Free = names(a.DRF.Free())
-		out.ZoneFree = names(a.Zone.Free)
-	} else {
+func describeSegment(a *kinematics.Segment) dofSegment {
+	out := dofSegment{Line: a.Segment.Span.Start.Line, Datums: []dofRef{}, Free: names(a.Free()), ZoneFree: names(a.ZoneFree())}
+	if !a.Resolved {
 		out.Error = a.Problem
 	}
-	for k, r := range seg.Refs {
-		ref := dofRef{Ref: strings.Join(r.Letters, "-")}
-		if k < len(steps) {
-			ref.Constrains = steps[k].Constrains
-		}
-		out.Datums = append(out.Datums, ref)
+	for _, st := range a.Steps() {
+		out.Datums = append(out.Datums, dofRef{Ref: st.Name, Constrains: st.Constrains})
 	}
 	return out
 }
@@ -165,7 +153,7 @@ func names(ms []dof.Motion) []string {
 }
 
 // writeDofText prints one small table per frame.
-func writeDofText(w io.Writer, part *model.Part, facts *rules.Facts) error {
+func writeDofText(w io.Writer, part *model.Part, kin *kinematics.Result) error {
 	if len(part.Frames) == 0 {
 		_, err := fmt.Fprintln(w, "no control frames")
 		return err
@@ -176,7 +164,7 @@ func writeDofText(w io.Writer, part *model.Part, facts *rules.Facts) error {
 			fmt.Fprintln(tw)
 		}
 		for i, seg := range fr.Segments {
-			a := facts.DOF(fr, i)
+			a := kin.Segment(fr, i)
 			if i == 0 {
 				fmt.Fprintf(tw, "%s, line %d: %s %s\n", fr.Target.Name, fr.Span.Start.Line, fr.Characteristic, segmentLabel(seg))
 			} else {
@@ -187,16 +175,16 @@ func writeDofText(w io.Writer, part *model.Part, facts *rules.Facts) error {
 				continue
 			}
 			fmt.Fprintf(tw, "    datum\tremoves\tmotions\n")
-			for k, st := range a.DRF.Steps() {
-				fmt.Fprintf(tw, "    %s\t%d\t%s\n", strings.Join(seg.Refs[k].Letters, "-"), st.Constrains, motionList(st.Removed))
+			for _, st := range a.Steps() {
+				fmt.Fprintf(tw, "    %s\t%d\t%s\n", st.Name, st.Constrains, motionList(st.Removed))
 			}
-			free := a.DRF.Free()
+			free := a.Free()
 			fmt.Fprintf(tw, "    free\t%d\t%s\n", len(free), motionList(free))
 			label := "moves zone"
 			if fr.Characteristic.Category() == model.Orientation {
 				label = "turns zone"
 			}
-			fmt.Fprintf(tw, "    %s\t%d\t%s\n", label, len(a.Zone.Free), motionList(a.Zone.Free))
+			fmt.Fprintf(tw, "    %s\t%d\t%s\n", label, len(a.ZoneFree()), motionList(a.ZoneFree()))
 		}
 	}
 	return tw.Flush()

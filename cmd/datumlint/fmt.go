@@ -16,8 +16,6 @@ import (
 	"github.com/datumlint/datumlint/rules/lint"
 )
 
-func init() { extraCommands = append(extraCommands, newFmtCmd) }
-
 type fmtFlags struct {
 	write, check, diff bool
 }
@@ -164,13 +162,20 @@ func formatSource(path string, src []byte, stderr io.Writer) (fmtResult, bool) {
 	file := grammar.Parse(path, src)
 	// What check reports under the rule syntax: the parser's errors and the
 	// values the model cannot read (a number out of range, unknown units).
-	errs := file.Errors
-	if len(errs) == 0 {
-		errs = model.Resolve(file).Errors
+	// The parser's errors come first; the model's are read only from a
+	// file that parses.
+	var errs []*model.Problem
+	for _, e := range grammar.Resolve(file).Problems {
+		if e.Kind == model.Syntax {
+			errs = append(errs, e)
+		}
+	}
+	if n := len(file.Errors); n > 0 {
+		errs = errs[:n]
 	}
 	if len(errs) > 0 {
 		for _, e := range errs {
-			fmt.Fprintf(stderr, "%s:%d:%d: syntax: %s\n", path, e.Span.Start.Line, e.Span.Start.Col, e.Msg)
+			fmt.Fprintf(stderr, "%s:%d:%d: syntax: %s\n", path, e.Span.Start.Line, e.Span.Start.Col, e.Message)
 		}
 		fmt.Fprintf(stderr, "datumlint: %s does not parse; it was not formatted\n", path)
 		return r, false

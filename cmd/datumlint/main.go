@@ -39,15 +39,9 @@ notes, local codes and qualified engineering judgement decide.`,
 	}
 	root.SetOut(stdout)
 	root.SetErr(stderr)
-	root.AddCommand(newCheckCmd(), newRulesCmd(), newExplainCmd())
-	for _, add := range extraCommands {
-		root.AddCommand(add())
-	}
+	root.AddCommand(newCheckCmd(), newDofCmd(), newFmtCmd(), newRulesCmd(), newExplainCmd())
 	return root
 }
-
-// extraCommands lets command files register themselves.
-var extraCommands []func() *cobra.Command
 
 func run(args []string, stdout, stderr io.Writer) int {
 	root := newRoot(stdout, stderr)

@@ -13,10 +13,8 @@ import (
 // GitHub Actions workflow commands: one annotation per finding, shown on
 // the pull request's diff. Suppressed findings are left out.
 
-func init() { formats["github"] = writeGitHub }
-
-func writeGitHub(w io.Writer, res lint.Result) error {
-	for _, d := range visible(res.Diagnostics) {
+func writeGitHub(w io.Writer, res *lint.Result) error {
+	for _, d := range visible(res.Diagnostics()) {
 		cmd := "error"
 		switch d.Severity {
 		case rules.Warning:

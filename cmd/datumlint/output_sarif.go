@@ -5,15 +5,16 @@ import (
 	"encoding/hex"
 	"encoding/json"
 	"fmt"
-	"github.com/datumlint/datumlint/grammar/source"
 	"io"
 	"net/url"
 	"os"
 	"path/filepath"
+	"sort"
 	"strings"
 	"unicode"
 
-	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/source"
+
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/lint"
 	"github.com/datumlint/datumlint/rules/ruledoc"
@@ -22,8 +23,6 @@ import (
 // SARIF 2.1.0 (OASIS Static Analysis Results Interchange Format), the
 // subset that code-scanning services read. Field names and meanings follow
 // the standard's sections cited beside them.
-
-func init() { formats["sarif"] = writeSARIF }
 
 const (
 	sarifSchema    = "https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/schemas/sarif-schema-2.1.0.json"
@@ -67,7 +66,7 @@ type sarifText struct {
 
 type sarifRule struct {
 	ID                   string         `json:"id"`
-	Name                 string         `json:"name"`
+	Name                 string         `json:"name,omitempty"`
 	ShortDescription     sarifText      `json:"shortDescription"`
 	FullDescription      sarifText      `json:"fullDescription"`
 	Help                 sarifText      `json:"help"`
@@ -97,12 +96,18 @@ type sarifResult struct {
 	Level               string             `json:"level"`
 	Message             sarifText          `json:"message"`
 	Locations           []sarifLocation    `json:"locations"`
+	RelatedLocations    []sarifLocation    `json:"relatedLocations,omitempty"`
+	Fixes               []sarifFix         `json:"fixes,omitempty"`
 	PartialFingerprints map[string]string  `json:"partialFingerprints"`
 	Suppressions        []sarifSuppression `json:"suppressions,omitempty"`
 }
 
+// sarifLocation is a location (§3.28); a related location has an id unique
+// within its result and a message (§3.27.22).
 type sarifLocation struct {
+	ID               *int          `json:"id,omitempty"`
 	PhysicalLocation sarifPhysical `json:"physicalLocation"`
+	Message          *sarifText    `json:"message,omitempty"`
 }
 
 type sarifPhysical struct {
@@ -120,6 +125,28 @@ type sarifRegion struct {
 	StartColumn int `json:"startColumn"`
 	EndLine     int `json:"endLine"`
 	EndColumn   int `json:"endColumn"`
+}
+
+// sarifFix is a proposed fix (§3.55): the edits of one artifact, each a
+// replacement of a region (empty for an insertion) by new text.
+type sarifFix struct {
+	Description     sarifText      `json:"description"`
+	ArtifactChanges []sarifChange  `json:"artifactChanges"`
+	Properties      map[string]any `json:"properties,omitempty"`
+}
+
+type sarifChange struct {
+	ArtifactLocation sarifArtifactLoc   `json:"artifactLocation"`
+	Replacements     []sarifReplacement `json:"replacements"`
+}
+
+type sarifReplacement struct {
+	DeletedRegion   sarifRegion      `json:"deletedRegion"`
+	InsertedContent *sarifArtContent `json:"insertedContent,omitempty"`
+}
+
+type sarifArtContent struct {
+	Text string `json:"text"`
 }
 
 type sarifSuppression struct {
@@ -152,7 +179,7 @@ var internalRule = &rules.Rule{
 
 // writeSARIF prints one SARIF log with one run. Suppressed findings are
 // kept, with an inSource suppression carrying the allow comment's reason.
-func writeSARIF(w io.Writer, res lint.Result) error {
+func writeSARIF(w io.Writer, res *lint.Result) error {
 	cwd, err := os.Getwd()
 	if err != nil {
 		return err
@@ -179,9 +206,8 @@ func writeSARIF(w io.Writer, res lint.Result) error {
 	}
 	run.Invocations = []sarifInvocation{inv}
 
-	stmts := statementTexts{}
 	seen := map[string]int{}
-	for _, d := range res.Diagnostics {
+	for _, d := range res.Diagnostics() {
 		idx, ok := index[d.Rule]
 		if !ok {
 			// A finding under a rule the registry does not know would make an
@@ -189,7 +215,7 @@ func writeSARIF(w io.Writer, res lint.Result) error {
 			idx = len(run.Tool.Driver.Rules)
 			index[d.Rule] = idx
 			run.Tool.Driver.Rules = append(run.Tool.Driver.Rules, sarifRule{
-				ID: d.Rule, Name: ruleName(d.Rule),
+				ID: d.Rule, Name: friendlyName(d.Rule),
 				ShortDescription:     sarifText{Text: d.Rule},
 				FullDescription:      sarifText{Text: d.Rule},
 				Help:                 sarifText{Text: d.Rule, Markdown: d.Rule},
@@ -202,11 +228,29 @@ func writeSARIF(w io.Writer, res lint.Result) error {
 			Message:   sarifText{Text: d.Message},
 			Locations: []sarifLocation{{PhysicalLocation: sarifPhysical{ArtifactLocation: loc, Region: regionOf(d.Span)}}},
 		}
+		for _, fx := range d.Fixes {
+			ch := sarifChange{ArtifactLocation: loc}
+			for _, e := range fx.Edits {
+				rp := sarifReplacement{DeletedRegion: sarifRegion{StartLine: e.Span.Start.Line, StartColumn: e.Span.Start.Col, EndLine: e.Span.End.Line, EndColumn: e.Span.End.Col}}
+				if e.NewText != "" {
+					rp.InsertedContent = &sarifArtContent{Text: e.NewText}
+				}
+				ch.Replacements = append(ch.Replacements, rp)
+			}
+			r.Fixes = append(r.Fixes, sarifFix{Description: sarifText{Text: fx.Message}, ArtifactChanges: []sarifChange{ch},
+				Properties: map[string]any{"datumlint/safe": fx.Safe}})
+		}
+		for k, rel := range d.Related {
+			id := k
+			r.RelatedLocations = append(r.RelatedLocations, sarifLocation{ID: &id,
+				PhysicalLocation: sarifPhysical{ArtifactLocation: loc, Region: regionOf(rel.Span)},
+				Message:          &sarifText{Text: rel.Message}})
+		}
 		// The fingerprint survives edits that move the statement: it hashes
 		// the rule, the file, the statement's text with its spacing and
 		// comments normalised, and the message, not the line numbers. Equal
 		// findings on equal statements are told apart by their order.
-		key := strings.Join([]string{d.Rule, loc.URI, stmts.of(d.File, d.Span.Start.Line), d.Message}, "\x00")
+		key := strings.Join([]string{d.Rule, loc.URI, statementText(res.File(d.File), d.Span.Start.Line), d.Message}, "\x00")
 		n := seen[key]
 		seen[key]++
 		sum := sha256.Sum256([]byte(fmt.Sprintf("%s\x00%d", key, n)))
@@ -229,7 +273,7 @@ func sarifRuleOf(r *rules.Rule) sarifRule {
 	}
 	out := sarifRule{
 		ID:                   r.ID,
-		Name:                 ruleName(r.ID),
+		Name:                 friendlyName(r.ID),
 		ShortDescription:     sarifText{Text: plain, Markdown: r.Summary},
 		FullDescription:      sarifText{Text: oneParagraph(r.Rationale)},
 		Help:                 sarifText{Text: text, Markdown: ruledoc.Markdown(r)},
@@ -255,6 +299,16 @@ func ruleName(id string) string {
 		}
 	}
 	return b.String()
+}
+
+// friendlyName is ruleName, left out where it would differ from the
+// identifier only in case (syntax -> Syntax): SARIF asks that a name that
+// is the identifier be omitted (§3.49.7).
+func friendlyName(id string) string {
+	if n := ruleName(id); !strings.EqualFold(n, id) {
+		return n
+	}
+	return ""
 }
 
 func oneParagraph(s string) string { return strings.Join(strings.Fields(s), " ") }
@@ -301,48 +355,22 @@ func regionOf(sp source.Span) *sarifRegion {
 	return r
 }
 
-// statementTexts gives, per file and line, the normalised text of the
-// statement holding the line: its physical lines with comments removed and
-// runs of spaces made one. A line outside every statement (a comment line,
-// an empty file) stands for itself.
-type statementTexts map[string]*parsedLines
-
-type parsedLines struct {
-	lines []string
-	f     *grammar.File
-}
-
-func (st statementTexts) of(file string, line int) string {
-	p, ok := st[file]
-	if !ok {
-		p = &parsedLines{lines: readLines(file)}
-		if p.lines != nil {
-			// Parsed from the lines as read (BOM and CRs dropped), so that
-			// comment columns index the same text.
-			p.f = grammar.Parse(file, []byte(strings.Join(p.lines, "\n")))
-		}
-		st[file] = p
-	}
-	if p.f == nil || line < 1 || line > len(p.lines) {
+// statementText gives the normalised text of the statement holding a line
+// of a file (model.Statement.Text: comments removed, runs of spaces made
+// one). A line outside every statement (a comment line, an empty file)
+// stands for itself.
+func statementText(f *lint.File, line int) string {
+	if f == nil || f.Source == nil || line < 1 || line > f.Source.Lines() {
 		return ""
 	}
-	first, last := line, line
-	for _, e := range p.f.Extents {
-		if e.First <= line && line <= e.Last {
-			first, last = e.First, e.Last
-			break
-		}
+	st := f.Statements
+	i := sort.Search(len(st), func(i int) bool { return st[i].Last >= line })
+	if i < len(st) && st[i].First <= line {
+		return st[i].Text
 	}
-	var b strings.Builder
-	for l := first; l <= last && l <= len(p.lines); l++ {
-		text := []rune(p.lines[l-1])
-		for _, c := range p.f.Comments {
-			if c.Span.Start.Line == l && c.Trailing && c.Span.Start.Col-1 <= len(text) {
-				text = text[:c.Span.Start.Col-1]
-			}
-		}
-		b.WriteString(string(text))
-		b.WriteByte(' ')
+	text := strings.TrimRight(string(f.Source.LineBytes(line)), "\r")
+	if line == 1 {
+		text = strings.TrimPrefix(text, "\ufeff")
 	}
-	return strings.Join(strings.Fields(b.String()), " ")
+	return strings.Join(strings.Fields(text), " ")
 }

@@ -2,14 +2,18 @@ package main
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"encoding/json"
 	"fmt"
-	"github.com/datumlint/datumlint/grammar/source"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"sort"
 	"strings"
 	"testing"
+
+	"github.com/datumlint/datumlint/grammar/source"
 
 	"github.com/santhosh-tekuri/jsonschema/v6"
 
@@ -17,27 +21,25 @@ import (
 	"github.com/datumlint/datumlint/rules/lint"
 )
 
-// sarifSchema compiles the OASIS SARIF 2.1.0 schema kept beside the
-// project (../shared/sarif/ from the project root), or skips the test.
+// compileSARIFSchema compiles the OASIS SARIF 2.1.0 schema kept in the
+// repository (testdata/sarif/, with its notice), after checking that the
+// copy is the one its README names: the OASIS terms allow copies, not
+// changes.
 func compileSARIFSchema(t *testing.T) *jsonschema.Schema {
 	t.Helper()
-	dir, err := os.Getwd()
+	dir := filepath.Join(projectRoot(t), "testdata", "sarif")
+	path := filepath.Join(dir, "sarif-schema-2.1.0.json")
+	schema, err := os.ReadFile(path)
 	if err != nil {
-		t.Fatal(err)
+		t.Fatalf("the SARIF schema is part of the repository's test data: %v", err)
 	}
-	for {
-		if _, err := os.Stat(filepath.Join(dir, "go.mod")); err == nil {
-			break
-		}
-		parent := filepath.Dir(dir)
-		if parent == dir {
-			t.Fatal("no go.mod above the test's folder")
-		}
-		dir = parent
+	notice, err := os.ReadFile(filepath.Join(dir, "README.md"))
+	if err != nil {
+		t.Fatalf("the SARIF schema's notice: %v", err)
 	}
-	path := filepath.Join(dir, "..", "shared", "sarif", "sarif-schema-2.1.0.json")
-	if _, err := os.Stat(path); err != nil {
-		t.Skipf("SARIF schema not found at %s (it lives outside the repository, at ../shared/sarif/ from the project root): skipping schema validation", path)
+	sum := sha256.Sum256(schema)
+	if want := hex.EncodeToString(sum[:]); !strings.Contains(string(notice), "SHA-256 `"+want+"`") {
+		t.Fatalf("%s is not the copy testdata/sarif/README.md names (its SHA-256 is %s): restore the OASIS file unchanged", path, want)
 	}
 	c := jsonschema.NewCompiler()
 	c.AssertFormat()
@@ -48,6 +50,25 @@ func compileSARIFSchema(t *testing.T) *jsonschema.Schema {
 	return sch
 }
 
+// projectRoot is the folder of go.mod above the test's folder.
+func projectRoot(t *testing.T) string {
+	t.Helper()
+	dir, err := os.Getwd()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for {
+		if _, err := os.Stat(filepath.Join(dir, "go.mod")); err == nil {
+			return dir
+		}
+		parent := filepath.Dir(dir)
+		if parent == dir {
+			t.Fatal("no go.mod above the test's folder")
+		}
+		dir = parent
+	}
+}
+
 func validateSARIF(t *testing.T, sch *jsonschema.Schema, out []byte) {
 	t.Helper()
 	inst, err := jsonschema.UnmarshalJSON(bytes.NewReader(out))
@@ -56,6 +77,25 @@ func validateSARIF(t *testing.T, sch *jsonschema.Schema, out []byte) {
 	}
 	if err := sch.Validate(inst); err != nil {
 		t.Fatalf("SARIF output does not validate: %v", err)
+	}
+}
+
+// The schema the tests validate against rejects what SARIF 2.1.0 rejects:
+// a run without its tool, a result level SARIF does not have.
+func TestSARIFSchemaRejectsBrokenLogs(t *testing.T) {
+	sch := compileSARIFSchema(t)
+	for _, log := range []string{
+		`{"version": "2.1.0", "runs": [{"results": []}]}`,
+		`{"version": "2.1.0", "runs": [{"tool": {"driver": {"name": "datumlint"}}, "results": [{"message": {"text": "m"}, "level": "info"}]}]}`,
+		`{"version": "2.0.0", "runs": []}`,
+	} {
+		inst, err := jsonschema.UnmarshalJSON(strings.NewReader(log))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := sch.Validate(inst); err == nil {
+			t.Errorf("the schema accepts a broken log: %s", log)
+		}
 	}
 }
 
@@ -254,11 +294,11 @@ func TestSARIFInternalErrorAndOutsideFile(t *testing.T) {
 	t.Chdir(t.TempDir())
 	sp := source.Span{Start: source.Pos{Line: 1, Col: 1}, End: source.Pos{Line: 1, Col: 2}}
 	res := lint.Result{
-		Diagnostics: []rules.Diagnostic{{File: outside, Span: sp, Rule: rules.InternalRule, Severity: rules.Error, Message: "internal error in rule x: boom"}},
-		Errors:      []*lint.PathError{{Path: "gone.callouts", Err: os.ErrNotExist}},
+		Files:  []*lint.File{{Path: outside, Diagnostics: []rules.Diagnostic{{File: outside, Span: sp, Rule: rules.InternalRule, Severity: rules.Error, Message: "internal error in rule x: boom"}}}},
+		Errors: []*lint.PathError{{Path: "gone.callouts", Err: os.ErrNotExist}},
 	}
 	var out bytes.Buffer
-	if err := writeSARIF(&out, res); err != nil {
+	if err := writeSARIF(&out, &res); err != nil {
 		t.Fatal(err)
 	}
 	validateSARIF(t, sch, out.Bytes())
@@ -307,5 +347,159 @@ func TestSARIFFingerprintsSurviveMoves(t *testing.T) {
 	changed := fps(header + "feature base plane normal -z at (0, 0, 0)\nframe nope: flatness 0.03\nframe gone: flatness 0.02\n")
 	if changed[0] == before[0] || changed[1] != before[1] {
 		t.Errorf("editing one statement must change its fingerprint only:\nbefore  %v\nchanged %v", before, changed)
+	}
+}
+
+// A finding that speaks of another place carries it as a related location
+// (SARIF §3.27.22) with an id and a message, valid against the schema, and
+// the JSON finding carries it too.
+func TestRelatedLocations(t *testing.T) {
+	sch := compileSARIFSchema(t)
+	t.Chdir(t.TempDir())
+	src := "units mm\nstandard asme-2018\nfeature base plane normal -z at (0, 0, 0)\nfeature base plane normal +z at (0, 0, 10)\n"
+	if err := os.WriteFile("dup.callouts", []byte(src), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, code := runCLI(t, "check", "--format", "sarif", "dup.callouts")
+	if code != 1 {
+		t.Fatalf("exit %d, want 1", code)
+	}
+	validateSARIF(t, sch, out)
+	var doc struct {
+		Runs []struct {
+			Results []struct {
+				RuleID           string `json:"ruleId"`
+				RelatedLocations []struct {
+					ID               int `json:"id"`
+					PhysicalLocation struct {
+						Region struct{ StartLine, StartColumn int } `json:"region"`
+					} `json:"physicalLocation"`
+					Message struct{ Text string } `json:"message"`
+				} `json:"relatedLocations"`
+			} `json:"results"`
+		} `json:"runs"`
+	}
+	if err := json.Unmarshal(out, &doc); err != nil {
+		t.Fatal(err)
+	}
+	rs := doc.Runs[0].Results
+	if len(rs) != 1 || rs[0].RuleID != "name-duplicate" || len(rs[0].RelatedLocations) != 1 {
+		t.Fatalf("want one name-duplicate result with one related location, got %+v", rs)
+	}
+	rel := rs[0].RelatedLocations[0]
+	if rel.PhysicalLocation.Region.StartLine != 3 || rel.PhysicalLocation.Region.StartColumn != 9 || !strings.Contains(rel.Message.Text, "first declared") {
+		t.Errorf("related location %+v, want line 3 column 9, first declared", rel)
+	}
+	js, _ := runCLI(t, "check", "--format", "json", "dup.callouts")
+	if !bytes.Contains(js, []byte(`"related": [`)) || !bytes.Contains(js, []byte(`"line": 3`)) {
+		t.Errorf("JSON finding lacks its related place:\n%s", js)
+	}
+}
+
+// Findings with fixes carry them as SARIF fixes (§3.55: artifactChanges
+// with replacements; an insertion is an empty deleted region), valid
+// against the schema, with whether they are safe in the property bag.
+func TestSARIFFixes(t *testing.T) {
+	sch := compileSARIFSchema(t)
+	t.Chdir(t.TempDir())
+	src := "units mm\nstandard asme-2018\nfeature base plane normal -z at (0, 0, 0)\nfeature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\n" +
+		"datum A on base\nframe base: flatness 0.02\nframe bore: position 0.1 datums A\nframe bor: perpendicularity dia 0.05 datums A\n"
+	if err := os.WriteFile("fix.callouts", []byte(src), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, _ := runCLI(t, "check", "--format", "sarif", "fix.callouts")
+	validateSARIF(t, sch, out)
+	var doc struct {
+		Runs []struct {
+			Results []struct {
+				RuleID string `json:"ruleId"`
+				Fixes  []struct {
+					Description     struct{ Text string } `json:"description"`
+					ArtifactChanges []struct {
+						ArtifactLocation struct{ URI string } `json:"artifactLocation"`
+						Replacements     []struct {
+							DeletedRegion   struct{ StartLine, StartColumn, EndLine, EndColumn int } `json:"deletedRegion"`
+							InsertedContent struct{ Text string }                                    `json:"insertedContent"`
+						} `json:"replacements"`
+					} `json:"artifactChanges"`
+					Properties map[string]any `json:"properties"`
+				} `json:"fixes"`
+			} `json:"results"`
+		} `json:"runs"`
+	}
+	if err := json.Unmarshal(out, &doc); err != nil {
+		t.Fatal(err)
+	}
+	got := map[string]bool{}
+	for _, r := range doc.Runs[0].Results {
+		for _, f := range r.Fixes {
+			rp := f.ArtifactChanges[0].Replacements[0]
+			switch r.RuleID {
+			case "zone-shape":
+				if rp.DeletedRegion.StartLine != 7 || rp.DeletedRegion.StartColumn != 22 || rp.DeletedRegion.EndColumn != 22 || rp.InsertedContent.Text != "dia " || f.Properties["datumlint/safe"] != true {
+					t.Errorf("zone-shape fix %+v", f)
+				}
+			case "name-undefined":
+				if rp.InsertedContent.Text != "bore" || f.Properties["datumlint/safe"] != false || f.ArtifactChanges[0].ArtifactLocation.URI != "fix.callouts" {
+					t.Errorf("name-undefined fix %+v", f)
+				}
+			}
+			got[r.RuleID] = true
+		}
+	}
+	if !got["zone-shape"] || !got["name-undefined"] {
+		t.Errorf("fixes missing: %v", got)
+	}
+}
+
+// TestSARIFMultitoolValidates runs the SARIF SDK's validator (the
+// Sarif.Multitool, npm package @microsoft/sarif-multitool) over the log of
+// every example and test file, fixes included, where it is installed:
+// DATUMLINT_SARIF_MULTITOOL names its executable (.ci/run installs it). A
+// result it reports at error or warning level fails the test.
+func TestSARIFMultitoolValidates(t *testing.T) {
+	tool := os.Getenv("DATUMLINT_SARIF_MULTITOOL")
+	if tool == "" {
+		t.Skip("DATUMLINT_SARIF_MULTITOOL is not set: the SARIF SDK's validator is not installed (the OASIS schema test still runs)")
+	}
+	dir := t.TempDir()
+	var files []string
+	for _, root := range []string{"../../testdata/examples", "../../rules/testdata"} {
+		m, _ := filepath.Glob(filepath.Join(root, "*.callouts"))
+		files = append(files, m...)
+		m, _ = filepath.Glob(filepath.Join(root, "fix", "*.callouts"))
+		files = append(files, m...)
+	}
+	out, _ := runCLI(t, append([]string{"check", "--format", "sarif", "--fail-on", "error"}, files...)...)
+	log := filepath.Join(dir, "in.sarif")
+	if err := os.WriteFile(log, out, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	res := filepath.Join(dir, "validation.sarif")
+	cmd := exec.Command(tool, "validate", log, "--output", res, "--log", "ForceOverwrite")
+	cmd.Env = append(os.Environ(), "DOTNET_SYSTEM_GLOBALIZATION_INVARIANT=1")
+	if msg, err := cmd.CombinedOutput(); err != nil {
+		t.Fatalf("the validator did not run: %v\n%s", err, msg)
+	}
+	b, err := os.ReadFile(res)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Runs []struct {
+			Results []struct {
+				RuleID  string                `json:"ruleId"`
+				Level   string                `json:"level"`
+				Message struct{ Text string } `json:"message"`
+			} `json:"results"`
+		} `json:"runs"`
+	}
+	if err := json.Unmarshal(b, &doc); err != nil {
+		t.Fatal(err)
+	}
+	for _, r := range doc.Runs[0].Results {
+		if r.Level == "error" || r.Level == "warning" || r.Level == "" {
+			t.Errorf("SARIF SDK validator: %s %s: %s", r.Level, r.RuleID, r.Message.Text)
+		}
 	}
 }

@@ -9,6 +9,7 @@ import (
 
 	"github.com/fatih/color"
 
+	"github.com/datumlint/datumlint/grammar/source"
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/lint"
 )
@@ -41,13 +42,11 @@ var (
 
 // writeText prints each finding as file:line:col: severity rule: message,
 // then the source line and a caret underline of the span.
-func writeText(w io.Writer, res lint.Result) error {
-	lines := map[string][]string{}
-	for _, d := range visible(res.Diagnostics) {
-		src, ok := lines[d.File]
-		if !ok {
-			src = readLines(d.File)
-			lines[d.File] = src
+func writeText(w io.Writer, res *lint.Result) error {
+	for _, d := range visible(res.Diagnostics()) {
+		var src *source.File
+		if f := res.File(d.File); f != nil {
+			src = f.Source
 		}
 		sev := sevColor[d.Severity]
 		if sev == nil {
@@ -58,8 +57,11 @@ func writeText(w io.Writer, res lint.Result) error {
 			sev.Sprint(d.Severity.String()),
 			ruleColor.Sprint(d.Rule+":"),
 			d.Message)
-		if d.Span.Start.Line >= 1 && d.Span.Start.Line <= len(src) {
-			line := strings.TrimRight(src[d.Span.Start.Line-1], "\r")
+		if src != nil && d.Span.Start.Line >= 1 && d.Span.Start.Line <= src.Lines() {
+			line := strings.TrimRight(string(src.LineBytes(d.Span.Start.Line)), "\r")
+			if d.Span.Start.Line == 1 {
+				line = strings.TrimPrefix(line, "\ufeff")
+			}
 			if len(line) > 400 || !utf8.ValidString(line) {
 				continue // an overlong or binary line helps no one on a terminal
 			}

@@ -129,6 +129,34 @@ func (s Standard) IsASME() bool { return s == ASME2018 || s == ASME2009 }
 // Characteristic is a geometric characteristic, spelled as in the contract.
 type Characteristic string
 
+// The fourteen geometric characteristics (ASME Y14.5-2018 and ISO 1101:2017
+// symbol tables), spelled as the notation writes them.
+const (
+	Straightness     Characteristic = "straightness"
+	Flatness         Characteristic = "flatness"
+	Circularity      Characteristic = "circularity"
+	Cylindricity     Characteristic = "cylindricity"
+	LineProfile      Characteristic = "line-profile"
+	SurfaceProfile   Characteristic = "surface-profile"
+	Angularity       Characteristic = "angularity"
+	Perpendicularity Characteristic = "perpendicularity"
+	Parallelism      Characteristic = "parallelism"
+	Position         Characteristic = "position"
+	Concentricity    Characteristic = "concentricity"
+	Symmetry         Characteristic = "symmetry"
+	CircularRunout   Characteristic = "circular-runout"
+	TotalRunout      Characteristic = "total-runout"
+)
+
+// Characteristics lists them in the contract's order.
+var Characteristics = []Characteristic{
+	Straightness, Flatness, Circularity, Cylindricity,
+	LineProfile, SurfaceProfile,
+	Angularity, Perpendicularity, Parallelism,
+	Position, Concentricity, Symmetry,
+	CircularRunout, TotalRunout,
+}
+
 // Category groups characteristics as ASME Y14.5-2018 and ISO 1101 do.
 type Category int
 
@@ -143,15 +171,15 @@ const (
 
 func (c Characteristic) Category() Category {
 	switch c {
-	case "straightness", "flatness", "circularity", "cylindricity":
+	case Straightness, Flatness, Circularity, Cylindricity:
 		return Form
-	case "line-profile", "surface-profile":
+	case LineProfile, SurfaceProfile:
 		return Profile
-	case "angularity", "perpendicularity", "parallelism":
+	case Angularity, Perpendicularity, Parallelism:
 		return Orientation
-	case "position", "concentricity", "symmetry":
+	case Position, Concentricity, Symmetry:
 		return Location
-	case "circular-runout", "total-runout":
+	case CircularRunout, TotalRunout:
 		return Runout
 	}
 	return CategoryUnknown

@@ -1,16 +1,17 @@
-// Package model resolves a parsed .callouts file into the part's model:
-// features with their nominal geometry and sizes, pattern members, datums,
-// control frames and dimensions, with every name looked up. Rules and the
-// geometry engines read this model; they never look at raw text.
+// Package model is the part as datumlint checks it: features with their
+// nominal geometry and sizes, pattern members, datums, control frames and
+// dimensions, every name looked up, and every element's span in the file it
+// was read from. It imports no reader's syntax: the callout notation
+// (package grammar) and the QIF reader each build a Part, and the rules,
+// the engines and every output read only the Part.
+//
+// Besides the geometry, a Part records what rules and outputs need of the
+// file as written: problems found while reading, the statements (with the
+// names written in those that did not parse), the written text and
+// precision of values that messages quote, and the suppressions.
 package model
 
-import (
-	"github.com/datumlint/datumlint/grammar"
-	"github.com/datumlint/datumlint/grammar/source"
-)
-
-// Span is a source range.
-type Span = source.Span
+import "github.com/datumlint/datumlint/grammar/source"
 
 // Size is a feature's size or a dimension's tolerance: a nominal with an
 // upper and a lower deviation (limits are stored the same way).
@@ -19,7 +20,9 @@ type Size struct {
 	Upper, Lower float64 // signed deviations
 	Toleranced   bool    // false where only a nominal was written
 	Envelope     bool    // (E): ISO 14405-1 envelope requirement
-	Span         Span
+	Span         source.Span
+	// Text is the size as written, for messages that quote it.
+	Text string
 }
 
 // Max and Min are the limits of size.
@@ -29,14 +32,17 @@ func (s *Size) Min() float64 { return s.Nominal + s.Lower }
 // Feature is one declared feature (a single feature or a whole pattern).
 type Feature struct {
 	Name     string
-	NameSpan Span
-	Span     Span
+	NameSpan source.Span
+	Span     source.Span
 	Kind     Kind
-	Stmt     *grammar.FeatureStmt // nil for a feature recovered from a bad statement
 	Size     *Size
 	// Dir is the unit normal (plane; mid-plane of a width), axis (hole,
 	// pin, cone) or direction (extrusion); zero for spheres and surfaces.
 	Dir Vec
+	// DirDecimals is the number of decimals written in each component of a
+	// direction given as a vector; -1 where none was written (an axis word
+	// such as +z, a reader that gives binary values) or in exponent form.
+	DirDecimals [3]int
 	// HasGeometry is false where the geometry was missing or unreadable.
 	HasGeometry bool
 	// Members holds one entry per member; a single feature has one.
@@ -52,6 +58,10 @@ type Feature struct {
 	// so that references to it do not cascade into more findings.
 	Broken bool
 }
+
+// Known reports whether the feature was read well enough for rules to
+// judge it: declared by a statement that parsed, of a known kind.
+func (f *Feature) Known() bool { return f != nil && !f.Broken && f.Kind != KindUnknown }
 
 // Point returns the feature's (first member's) point.
 func (f *Feature) Point() Vec {
@@ -89,21 +99,35 @@ type Member struct {
 	Feature *Feature
 	Index   int
 	Point   Vec
+	// Decimals is the number of decimals written in each coordinate of the
+	// point; -1 where it was not written in decimals (exponent form, a
+	// reader that gives binary values, a point derived from other
+	// features).
+	Decimals [3]int
+	// Span is where the member's point was written.
+	Span source.Span
 }
 
 // Target is a name as used by a frame, a datum or a dimension, with what it
 // resolved to. Feature is nil when the name is undefined.
 type Target struct {
 	Name    string
-	Span    Span
+	Span    source.Span
 	Feature *Feature
 	Member  *Member // nil: the whole feature (every member of a pattern)
 	// Problem explains why a name did not resolve ("bolts has 4 members").
 	Problem string
+	// Suggestion is the one declared name near an unresolved one, where
+	// exactly one is near (a likely typo); "" otherwise.
+	Suggestion string
 }
 
 // Resolved reports whether the name was found.
 func (t *Target) Resolved() bool { return t != nil && t.Feature != nil }
+
+// Known reports whether the name was found and its feature can be judged
+// (Feature.Known).
+func (t *Target) Known() bool { return t.Resolved() && t.Feature.Known() }
 
 // Points returns the nominal points the target stands for.
 func (t *Target) Points() []Vec {
@@ -128,14 +152,17 @@ func (t *Target) IsPattern() bool {
 // Datum is a datum feature symbol.
 type Datum struct {
 	Letter        string
-	LetterSpan    Span
-	Span          Span
-	Stmt          *grammar.DatumStmt
+	LetterSpan    source.Span
+	Span          source.Span
 	Target        Target
 	Placement     string // "" when not given
-	PlacementSpan Span
+	PlacementSpan source.Span
 	Broken        bool
 }
+
+// Usable reports whether the datum was declared by a statement that parsed
+// and sits on a feature that can be judged.
+func (d *Datum) Usable() bool { return d != nil && !d.Broken && d.Target.Known() }
 
 // DatumRef is one datum reference of a frame segment.
 type DatumRef struct {
@@ -143,8 +170,10 @@ type DatumRef struct {
 	Letters  []string // "A", "B"
 	Datums   []*Datum // parallel to Letters; nil where undefined
 	Material string   // "", "M" (MMB) or "L" (LMB)
-	MatSpan  Span
-	Span     Span
+	MatSpan  source.Span
+	Span     source.Span
+	// FullSpan covers the reference as written, its modifiers included.
+	FullSpan source.Span
 }
 
 // Common reports whether the reference is a common datum (A-B).
@@ -168,24 +197,31 @@ type Modifier struct {
 	// HasValue is false where (P) or (U) was written without its value
 	// (a syntax finding), so that no rule judges a value never written.
 	HasValue bool
-	Span     Span
+	Span     source.Span
 }
 
 // Segment is one segment of a frame: the upper one, or a composite lower one.
 type Segment struct {
 	Composite bool
 	Zone      string // "", "dia" or "sdia"
-	ZoneSpan  Span
+	ZoneSpan  source.Span
+	// ZoneText is the word written in the zone's place, also where it is
+	// not a zone the notation knows (a syntax finding; Zone is then "").
+	ZoneText  string
 	Value     float64
-	ValueSpan Span
+	ValueSpan source.Span
+	// ValueText is the tolerance value as written.
+	ValueText string
 	Modifiers []Modifier
 	Refs      []*DatumRef
-	Span      Span
-	Tree      *grammar.Tolerance
+	// DatumsSpan covers the datum references with the word that
+	// introduces them ("datums A, B(M)"); zero where there are none.
+	DatumsSpan source.Span
+	Span       source.Span
 	// Named is a characteristic written on a composite line in place of a
 	// zone ("composite surface-profile 0.1"); "" where none was.
 	Named     Characteristic
-	NamedSpan Span
+	NamedSpan source.Span
 }
 
 // Modifier returns the modifier with the letter, if present.
@@ -198,25 +234,58 @@ func (s *Segment) Modifier(letter string) (Modifier, bool) {
 	return Modifier{}, false
 }
 
+// RefsSpan covers the segment's datum references.
+func (s *Segment) RefsSpan() source.Span {
+	var sp source.Span
+	for _, r := range s.Refs {
+		sp = sp.Join(r.Span)
+	}
+	return sp
+}
+
 // Frame is a feature control frame.
 type Frame struct {
 	Target         Target
 	Characteristic Characteristic
-	CharSpan       Span
+	CharSpan       source.Span
 	Segments       []*Segment // [0] is the upper segment
-	Span           Span
-	Stmt           *grammar.FrameStmt
+	Span           source.Span
 }
 
 // Upper returns the frame's first segment.
 func (f *Frame) Upper() *Segment { return f.Segments[0] }
+
+// Located reports whether the frame places its zone at a true position
+// given by basic dimensions: position, or a profile with datums (ASME
+// Y14.5-2018, position and profile; ISO 1101:2017, located profile).
+func (f *Frame) Located() bool {
+	return f.Characteristic == Position ||
+		f.Characteristic.Category() == Profile && len(f.Upper().Refs) > 0
+}
+
+// RefersTo reports whether any segment of the frame references the letter
+// (alone or in a common datum).
+func (f *Frame) RefersTo(letter string) bool {
+	for _, seg := range f.Segments {
+		for _, r := range seg.Refs {
+			for _, l := range r.Letters {
+				if l == letter {
+					return true
+				}
+			}
+		}
+	}
+	return false
+}
 
 // Dimension is a basic or a toleranced dimension.
 type Dimension struct {
 	Basic     bool
 	Angle     bool
 	Value     float64
-	ValueSpan Span
+	ValueSpan source.Span
+	// ValueText is the value as written (without deg).
+	ValueText string
 	Tol       *Size // toleranced (dim) only
 	From, To  Target
 	Along     *Vec // unit; nil when absent
@@ -224,8 +293,7 @@ type Dimension struct {
 	// Circle is set for the bolt-circle extension: a basic diameter of the
 	// circle through a pattern's axes about a datum feature's axis.
 	Circle *BoltCircle
-	Span   Span
-	Stmt   grammar.Stmt
+	Span   source.Span
 }
 
 // BoltCircle is a basic diameter through a pattern's axes about an axis.
@@ -239,21 +307,84 @@ type BoltCircle struct {
 type HeaderLine struct {
 	Keyword string
 	Value   string
-	Span    Span
+	Span    source.Span
 }
 
-// Part is the resolved model of one file.
+// ProblemKind says what sort of problem a reader found.
+type ProblemKind int
+
+const (
+	// Syntax: what was written does not follow the format, or a value the
+	// format does not know (a kind, a characteristic, a unit).
+	Syntax ProblemKind = iota + 1
+	// Geometry: nominal geometry that cannot be built (a width between
+	// faces that are not parallel planes).
+	Geometry
+	// Unsupported: something the file says that the model cannot carry
+	// and the reader left out (a construct of an exchange format).
+	Unsupported
+	// Inconsistent: the file contradicts itself or is incomplete (unit
+	// labels that disagree, a reference to no element, a size that is not
+	// its feature's); the reader says what it read instead.
+	Inconsistent
+)
+
+// Problem is a positioned problem found while reading.
+type Problem struct {
+	Kind    ProblemKind
+	Span    source.Span
+	Message string
+}
+
+func (p *Problem) Error() string { return p.Span.Start.String() + ": " + p.Message }
+
+// Statement is one statement of the file (one element of an exchange
+// format), in file order.
+type Statement struct {
+	// Keyword is the statement's leading word as written ("feature",
+	// "frame"; for a statement that did not parse, its first word).
+	Keyword string
+	Span    source.Span
+	// First and Last are the physical lines (1-based, inclusive) it spans.
+	First, Last int
+	// Parsed is false for a statement that did not parse.
+	Parsed bool
+	// Text is the statement as written with comments removed and runs of
+	// white space made one space: what it says, apart from where it
+	// stands (SARIF fingerprints hash it).
+	Text string
+	// Name is the name or letter a statement that did not parse declares,
+	// where it could be read; Words are the names written in it. They keep
+	// one typo from cascading into name-undefined or datum-unused findings.
+	Name  string
+	Words []string
+}
+
+// Suppression is an allow directive: `# datumlint: allow RULE -- reason`.
+type Suppression struct {
+	// Span is the directive's comment; Trailing is true when it ends a
+	// line that also holds a statement.
+	Span     source.Span
+	Trailing bool
+	// Rules are the identifiers it names, with where each is written.
+	Rules     []string
+	RuleSpans []source.Span
+	Reason    string
+	// Stmt is the index in Part.Statements of the statement it applies to
+	// (the one it ends, or the one directly below it), or -1.
+	Stmt int
+}
+
+// Part is the model of one file.
 type Part struct {
-	File     *grammar.File
+	// Source is the file the part was read from.
+	Source   *source.File
 	Title    string
 	Units    Units
 	Standard Standard
 	// Headers lists every header statement in order (for duplicate and
 	// placement checks).
 	Headers []HeaderLine
-	// FirstStmt is the span of the file's first statement (where a missing
-	// header is reported); zero for a file without statements.
-	FirstStmt Span
 
 	Features []*Feature
 	Datums   []*Datum
@@ -264,12 +395,13 @@ type Part struct {
 	Duplicates []*Feature
 	// Refs is every name reference, resolved or not, in file order.
 	Refs []*Target
-	// Errors are value errors found while resolving (unknown kinds,
-	// numbers out of range, geometry that does not fit the kind). They are
-	// reported as syntax findings.
-	Errors []*grammar.SyntaxError
-	// Geometry problems (faces of a width that are not parallel planes).
-	GeometryErrors []*grammar.SyntaxError
+	// Problems are what the reader found wrong or left out, in the order
+	// found.
+	Problems []*Problem
+	// Statements are the file's statements in order.
+	Statements []Statement
+	// Suppressions are the allow directives, in file order.
+	Suppressions []*Suppression
 
 	// Center and Scale describe the part's extent: the centre and the
 	// diagonal of the box around all nominal points (at least 1).
@@ -278,6 +410,23 @@ type Part struct {
 
 	byName   map[string]*Feature
 	byLetter map[string]*Datum
+	framesOn map[*Feature][]*Frame
+	datumsOn map[*Feature][]*Datum
+	widthOf  map[*Feature]*Feature
+}
+
+// FirstStatement returns the span of the first line of the file's first
+// statement (where a missing header is reported), or the first character
+// of the file when it has none.
+func (p *Part) FirstStatement() source.Span {
+	if len(p.Statements) == 0 {
+		return source.Line(1)
+	}
+	sp := p.Statements[0].Span
+	if sp.End.Line != sp.Start.Line {
+		sp.End = source.Pos{Line: sp.Start.Line, Col: sp.Start.Col + 1}
+	}
+	return sp
 }
 
 // Feature returns the first feature declared with the name, or nil.
@@ -287,25 +436,19 @@ func (p *Part) Feature(name string) *Feature { return p.byName[name] }
 func (p *Part) Datum(letter string) *Datum { return p.byLetter[letter] }
 
 // DatumsOn returns the datums whose target is the feature (any member).
-func (p *Part) DatumsOn(f *Feature) []*Datum {
-	var out []*Datum
-	for _, d := range p.Datums {
-		if d.Target.Feature == f {
-			out = append(out, d)
-		}
-	}
-	return out
-}
+func (p *Part) DatumsOn(f *Feature) []*Datum { return p.datumsOn[f] }
 
 // FramesOn returns the frames whose target is the feature or one of its members.
-func (p *Part) FramesOn(f *Feature) []*Frame {
-	var out []*Frame
-	for _, fr := range p.Frames {
-		if fr.Target.Feature == f {
-			out = append(out, fr)
-		}
+func (p *Part) FramesOn(f *Feature) []*Frame { return p.framesOn[f] }
+
+// WidthOfFace returns the width (slot or tab) that names the plane as one
+// of its faces in its 'between', or nil. Unlike FaceOf it is set also where
+// the faces do not make a width (a geometry problem).
+func (p *Part) WidthOfFace(f *Feature) *Feature {
+	if f == nil || f.Kind != Plane {
+		return nil
 	}
-	return out
+	return p.widthOf[f]
 }
 
 // Tolerance returns a length tolerance relative to the part's size, for

@@ -89,7 +89,7 @@ func benchDoc(b *testing.B, s shape, size int) []byte {
 }
 
 func readOnce(b *testing.B, src []byte) {
-	if _, err := Read(source.NewFile("bench.qif", src)); err != nil {
+	if _, err := ReadFile(source.NewFile("bench.qif", src)); err != nil {
 		b.Fatal(err)
 	}
 }

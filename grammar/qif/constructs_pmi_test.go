@@ -417,7 +417,7 @@ var danglingDoc = qdoc{
 func init() {
 	constructs = append(constructs,
 		construct{name: "display", doc: displayDoc, check: func(t *testing.T, res *Result, src string) {
-			if res.Part.Title != "Display test" || res.Part.Headers[0].Keyword != "part" {
+			if h := res.Part.Headers; res.Part.Title != "Display test" || h[len(h)-1].Keyword != "part" {
 				t.Errorf("title %q", res.Part.Title)
 			}
 			wantNotes(t, res,

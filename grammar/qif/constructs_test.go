@@ -110,7 +110,7 @@ var constructs = []construct{
 		if res.Origins.Frames[pos] != 72 || res.Origins.Datums[a] != 10 || res.Origins.Features[bore][0] != 53 {
 			t.Errorf("origins %v", res.Origins)
 		}
-		if len(p.Refs) != 3+4 || p.Headers[0].Keyword != "units" || p.Headers[1].Keyword != "standard" {
+		if len(p.Refs) != 3+4 || p.Headers[0].Keyword != "standard" || p.Headers[1].Keyword != "units" {
 			t.Errorf("refs %d headers %+v", len(p.Refs), p.Headers)
 		}
 	}},

@@ -53,7 +53,7 @@ func (m *mapper) datums() {
 			}
 			broken(fmt.Sprintf("it is on %d features (%s) that are neither a pattern nor one plane, axis or centre, and the model holds a datum on one", len(ts), strings.Join(names, ", ")))
 		}
-		m.part.Datums = append(m.part.Datums, d)
+		m.part.AddDatum(d)
 		m.datumOf[dd.ID] = d
 		m.res.Origins.Datums[d] = dd.ID
 		if d.Target.Resolved() {

@@ -31,11 +31,14 @@ type Value struct {
 	Span   source.Span
 }
 
-// Vec3 is a point or direction as written ("x y z"), with its own unit label.
+// Vec3 is a point or direction as written ("x y z"), with its own unit
+// label and the decimal places it says its coordinates have
+// (decimalPlaces, or xDecimalPlaces ...; -1 where it says none).
 type Vec3 struct {
-	V    model.Vec
-	Unit string
-	Span source.Span
+	V      model.Vec
+	Unit   string
+	Places [3]int
+	Span   source.Span
 }
 
 // Word is an enumerated value (MAXIMUM, ALL_AROUND, ...) or the name of a
@@ -303,6 +306,13 @@ type Document struct {
 	// Notes are what the document layer found unreadable (a number that is
 	// not one, an id that is not one).
 	Notes []Note
+	// Statements are the elements a finding can be about, in file order:
+	// the root's start tag, FileUnits, each standard, datum definition and
+	// target, datum reference frame, feature definition, nominal, item and
+	// zone, characteristic definition, nominal and item, the part and its
+	// PMI displays (model.Statement: Keyword the element's name, Text its
+	// name and id).
+	Statements []model.Statement
 
 	nominals map[ID]*FeatureNominal
 }
@@ -340,7 +350,7 @@ func (r *docReader) span(n *node) source.Span {
 	return source.Span{Start: r.f.Position(n.from), End: r.f.Position(n.to)}
 }
 
-func (r *docReader) notef(k NoteKind, n *node, format string, args ...any) {
+func (r *docReader) notef(k model.ProblemKind, n *node, format string, args ...any) {
 	r.doc.Notes = append(r.doc.Notes, Note{Kind: k, Span: r.span(n), Msg: fmt.Sprintf(format, args...)})
 }
 
@@ -405,11 +415,7 @@ func (r *docReader) value(n *node) *Value {
 	if u, ok := n.attr("angularUnit"); ok {
 		out.Unit = strings.TrimSpace(u)
 	}
-	if p, ok := n.attr("decimalPlaces"); ok {
-		if k, err := strconv.Atoi(strings.TrimSpace(p)); err == nil && k >= 0 && k < 30 {
-			out.Places = k
-		}
-	}
+	out.Places = places(n, "decimalPlaces")
 	return out
 }
 
@@ -429,11 +435,29 @@ func (r *docReader) vec(n *node) *Vec3 {
 		r.notef(Inconsistent, n, "<%s> %q is not three finite numbers: left out", n.name, clip(n.text))
 		return nil
 	}
-	out := &Vec3{V: v, Span: r.span(n)}
+	out := &Vec3{V: v, Span: r.span(n), Places: [3]int{-1, -1, -1}}
 	if u, ok := n.attr("linearUnit"); ok {
 		out.Unit = strings.TrimSpace(u)
 	}
+	all := places(n, "decimalPlaces")
+	for i, a := range []string{"xDecimalPlaces", "yDecimalPlaces", "zDecimalPlaces"} {
+		out.Places[i] = all
+		if k := places(n, a); k >= 0 {
+			out.Places[i] = k
+		}
+	}
 	return out
+}
+
+// places reads a decimal places attribute: -1 where it is absent or not a
+// small count.
+func places(n *node, attr string) int {
+	if p, ok := n.attr(attr); ok {
+		if k, err := strconv.Atoi(strings.TrimSpace(p)); err == nil && k >= 0 && k < 30 {
+			return k
+		}
+	}
+	return -1
 }
 
 func (r *docReader) pair(n *node) ([2]float64, bool) {
@@ -476,24 +500,33 @@ func (r *docReader) document(root *node) {
 	d := r.doc
 	d.Root = r.span(root)
 	d.Version, _ = root.attr("versionQIF")
+	// The root's start tag is a statement of its own: where a finding
+	// about the whole document (no units, no standard) stands.
+	d.Statements = append(d.Statements, model.Statement{Keyword: root.name, Span: d.Root, First: d.Root.Start.Line,
+		Last: d.Root.End.Line, Parsed: true, Text: stmtText(root)})
 	for _, n := range root.kids {
 		switch n.name {
 		case "FileUnits":
+			r.stmt(n)
 			r.units(n)
 		case "StandardsDefinitions":
 			for _, s := range n.children("Standard") {
+				r.stmt(s)
 				r.standard(s)
 			}
 		case "DatumDefinitions":
 			for _, k := range n.children("DatumDefinition") {
+				r.stmt(k)
 				r.datumDef(k)
 			}
 		case "DatumTargetDefinitions":
 			for _, k := range n.children("DatumTarget") {
+				r.stmt(k)
 				r.datumTarget(k)
 			}
 		case "DatumReferenceFrames":
 			for _, k := range n.children("DatumReferenceFrame") {
+				r.stmt(k)
 				r.drf(k)
 			}
 		case "Product":
@@ -502,12 +535,33 @@ func (r *docReader) document(root *node) {
 			r.features(n)
 		case "FeatureZones":
 			for _, k := range n.kids {
+				r.stmt(k)
 				r.zone(k)
 			}
 		case "Characteristics":
 			r.characteristics(n)
 		}
 	}
+	sort.SliceStable(d.Statements, func(i, j int) bool { return d.Statements[i].First < d.Statements[j].First })
+}
+
+// stmt records an element as a statement: the whole element, from its
+// start tag to its end.
+func (r *docReader) stmt(n *node) {
+	end := max(n.end, n.to)
+	last := r.f.Position(max(end-1, n.from)).Line
+	r.doc.Statements = append(r.doc.Statements, model.Statement{Keyword: n.name,
+		Span: source.Span{Start: r.f.Position(n.from), End: r.f.Position(end)}, First: r.f.Position(n.from).Line, Last: last,
+		Parsed: true, Text: stmtText(n)})
+}
+
+// stmtText is a statement's stable description: the element's name and id
+// ("PositionCharacteristicNominal id=3093"), or its name alone.
+func stmtText(n *node) string {
+	if id, ok := n.attr("id"); ok {
+		return n.name + " id=" + strings.TrimSpace(id)
+	}
+	return n.name
 }
 
 func (r *docReader) unit(n *node) *Unit {
@@ -562,6 +616,12 @@ func (r *docReader) standard(n *node) {
 }
 
 func (r *docReader) product(n *node) {
+	if h := n.child("Header"); h != nil {
+		r.stmt(h)
+	}
+	if p := n.path("PartSet", "Part"); p != nil {
+		r.stmt(p)
+	}
 	if v := r.value(n.path("Header", "ScaleCoefficient")); v != nil {
 		r.doc.Scale = v
 	}
@@ -576,6 +636,7 @@ func (r *docReader) product(n *node) {
 		}
 	}
 	for _, k := range n.path("VisualizationSet", "PMIDisplaySet").children("PMIDisplay") {
+		r.stmt(k)
 		ds := &Display{Span: r.span(k)}
 		for _, t := range k.child("Texts").children("Text") {
 			ds.Texts = append(ds.Texts, t.path("Data").str())
@@ -589,12 +650,15 @@ func (r *docReader) product(n *node) {
 
 func (r *docReader) features(n *node) {
 	for _, k := range n.child("FeatureDefinitions").all() {
+		r.stmt(k)
 		r.featureDef(k)
 	}
 	for _, k := range n.child("FeatureNominals").all() {
+		r.stmt(k)
 		r.featureNominal(k)
 	}
 	for _, k := range n.child("FeatureItems").all() {
+		r.stmt(k)
 		id, ok := r.id(k)
 		if !ok {
 			continue
@@ -779,16 +843,20 @@ func (r *docReader) characteristics(n *node) {
 	for _, k := range n.kids {
 		switch k.name {
 		case "FormalStandardId":
+			r.stmt(k)
 		case "CharacteristicDefinitions":
 			for _, c := range k.kids {
+				r.stmt(c)
 				r.charDef(c)
 			}
 		case "CharacteristicNominals":
 			for _, c := range k.kids {
+				r.stmt(c)
 				r.charNominal(c)
 			}
 		case "CharacteristicItems":
 			for _, c := range k.kids {
+				r.stmt(c)
 				id, ok := r.id(c)
 				if !ok {
 					continue
@@ -797,6 +865,7 @@ func (r *docReader) characteristics(n *node) {
 					Nominal: r.ref(c.child("CharacteristicNominalId")), FeatureItems: r.refs(c.child("FeatureItemIds"))})
 			}
 		default:
+			r.stmt(k)
 			r.doc.Sections = append(r.doc.Sections, r.elem(k))
 		}
 	}

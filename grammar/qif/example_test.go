@@ -73,14 +73,14 @@ func summary(p *model.Part) string {
 // The shipped example reads into the same model as its notation twin.
 func TestExampleMatchesNotation(t *testing.T) {
 	res, _ := readPath(t, filepath.Join("..", "..", "testdata", "examples", "bearing-flange.qif"))
-	if len(res.Notes) != 0 {
-		t.Errorf("notes on the example: %v", res.Notes)
+	if len(res.Part.Problems) != 0 {
+		t.Errorf("notes on the example: %v", res.Part.Problems)
 	}
 	f := grammar.Parse("bearing-flange.callouts", []byte(flangeCallouts))
 	if len(f.Errors) > 0 {
 		t.Fatalf("the twin does not parse: %v", f.Errors)
 	}
-	want := summary(model.Resolve(f))
+	want := summary(grammar.Resolve(f))
 	if got := summary(res.Part); got != want {
 		t.Errorf("the QIF example reads as\n%s\nits notation twin as\n%s", got, want)
 	}

@@ -20,13 +20,16 @@ type feat struct {
 	hasDir   bool
 	point    model.Vec
 	hasPoint bool
+	// places and dirPlaces are the decimals the document says the point's
+	// and the direction's coordinates have (model.Member.Decimals).
+	places, dirPlaces [3]int
 	// size is the definition's nominal size (diameter, width), in model units.
 	size     float64
 	hasSize  bool
 	sizeSpan source.Span
 	// why is set where the feature is left out of the model.
 	why       string
-	kindOfWhy NoteKind
+	kindOfWhy model.ProblemKind
 	// group holds the members of a group or pattern nominal.
 	group   []ID
 	isGroup bool
@@ -64,7 +67,7 @@ func needsDir(k model.Kind) bool {
 
 // classify reads a feature nominal's kind and geometry.
 func (m *mapper) classify(n *FeatureNominal) *feat {
-	x := &feat{nom: n}
+	x := &feat{nom: n, kindOfWhy: Unsupported, places: [3]int{-1, -1, -1}, dirPlaces: [3]int{-1, -1, -1}}
 	if groupTypes[n.Type] {
 		x.isGroup = true
 		for _, r := range n.Members {
@@ -180,7 +183,7 @@ func (m *mapper) classify(n *FeatureNominal) *feat {
 // less than half of its full surface has none (our reading).
 func (m *mapper) asSurface(x *feat, what string) {
 	m.note(Unsupported, x.nom.Span, "%s is %s, which has no opposed points: read as a surface, not a feature of size", m.label(x), what)
-	x.kind, x.hasDir, x.dir, x.hasSize = model.Surface, false, model.Vec{}, false
+	x.kind, x.hasDir, x.dir, x.hasSize, x.dirPlaces = model.Surface, false, model.Vec{}, false, [3]int{-1, -1, -1}
 }
 
 // label names a feature nominal in notes.
@@ -196,6 +199,7 @@ func (m *mapper) geometry(x *feat, point, dir string) {
 	if point != "" {
 		if p, ok := n.Points[point]; ok {
 			x.point, x.hasPoint = m.u.point(p)
+			x.places = m.u.decimals(p)
 		}
 	}
 	if dir != "" {
@@ -204,6 +208,9 @@ func (m *mapper) geometry(x *feat, point, dir string) {
 				m.note(Inconsistent, v.Span, "the direction of %s is the zero vector: left out", m.label(x))
 			} else {
 				x.dir, x.hasDir = v.V.Unit(), true
+				if v.V.Norm() == 1 {
+					x.dirPlaces = v.Places // a unit vector as written
+				}
 			}
 		}
 	}
@@ -253,6 +260,7 @@ func (m *mapper) apex(x *feat) {
 	}
 	dist := dia / 2 / math.Tan(half*math.Pi/180)
 	x.point = x.point.Sub(x.dir.Scale(dist))
+	x.places = [3]int{-1, -1, -1} // worked out, not written
 }
 
 // validName is a name the notation accepts.
@@ -283,11 +291,11 @@ func (m *mapper) features() {
 			}
 			continue
 		}
-		f := &model.Feature{Name: names[n.ID], Kind: x.kind, Span: n.Span, NameSpan: n.Span, Dir: x.dir}
+		f := &model.Feature{Name: names[n.ID], Kind: x.kind, Span: n.Span, NameSpan: n.Span, Dir: x.dir, DirDecimals: x.dirPlaces}
 		if n.Name != "" {
 			f.NameSpan = n.NameSpan
 		}
-		f.Members = []*model.Member{{Feature: f, Index: 1, Point: x.point}}
+		f.Members = []*model.Member{{Feature: f, Index: 1, Point: x.point, Decimals: x.places, Span: n.Span}}
 		f.HasGeometry = x.hasPoint && (x.hasDir || !needsDir(x.kind))
 		if x.kind == model.Surface {
 			f.Dir = model.Vec{}
@@ -296,18 +304,18 @@ func (m *mapper) features() {
 			f.Size = &model.Size{Nominal: x.size, Span: x.sizeSpan}
 		}
 		x.f = f
-		m.part.Features = append(m.part.Features, f)
+		m.part.Declare(f)
 		m.res.Origins.Features[f] = []ID{n.ID}
 	}
 }
 
 func (m *mapper) buildPattern(p *pattern, name string) {
 	first := m.feats[p.ids[0]]
-	f := &model.Feature{Name: name, Kind: first.kind, Span: first.nom.Span, NameSpan: first.nom.Span, Dir: first.dir, Pattern: true}
+	f := &model.Feature{Name: name, Kind: first.kind, Span: first.nom.Span, NameSpan: first.nom.Span, Dir: first.dir, DirDecimals: first.dirPlaces, Pattern: true}
 	f.HasGeometry = true
 	for i, id := range p.ids {
 		x := m.feats[id]
-		mem := &model.Member{Feature: f, Index: i + 1, Point: x.point}
+		mem := &model.Member{Feature: f, Index: i + 1, Point: x.point, Decimals: x.places, Span: x.nom.Span}
 		f.Members = append(f.Members, mem)
 		x.f, x.mem = f, mem
 		f.HasGeometry = f.HasGeometry && x.hasPoint && (x.hasDir || !needsDir(x.kind))
@@ -316,7 +324,7 @@ func (m *mapper) buildPattern(p *pattern, name string) {
 		f.Size = &model.Size{Nominal: first.size, Span: first.sizeSpan}
 	}
 	p.f = f
-	m.part.Features = append(m.part.Features, f)
+	m.part.Declare(f)
 	m.res.Origins.Features[f] = append([]ID(nil), p.ids...)
 }
 

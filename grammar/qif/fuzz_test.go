@@ -40,7 +40,7 @@ func FuzzRead(f *testing.F) {
 	}
 	f.Fuzz(func(t *testing.T, src string) {
 		file := source.NewFile("fuzz.qif", []byte(src))
-		res, err := Read(file)
+		res, err := ReadFile(file)
 		if err != nil {
 			var e *Error
 			if !errors.As(err, &e) {
@@ -54,8 +54,8 @@ func FuzzRead(f *testing.F) {
 		if res.Part == nil || res.Doc == nil {
 			t.Fatal("no part")
 		}
-		for _, n := range res.Notes {
-			if !inFile(file, n.Span) || strings.TrimSpace(n.Msg) == "" {
+		for _, n := range res.Part.Problems {
+			if !inFile(file, n.Span) || strings.TrimSpace(n.Message) == "" {
 				t.Fatalf("note outside the file or empty: %v", n)
 			}
 		}

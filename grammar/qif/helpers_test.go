@@ -227,7 +227,7 @@ func target(v string) string { return "<TargetValue>" + v + "</TargetValue>" }
 // read reads a document that must be accepted.
 func read(t *testing.T, src string) *Result {
 	t.Helper()
-	res, err := Read(source.NewFile("t.qif", []byte(src)))
+	res, err := ReadFile(source.NewFile("t.qif", []byte(src)))
 	if err != nil {
 		t.Fatalf("refused: %v\n%s", err, src)
 	}
@@ -238,12 +238,12 @@ func read(t *testing.T, src string) *Result {
 // note of the kinds listed (in the order of the patterns does not matter).
 func wantNotes(t *testing.T, res *Result, patterns ...string) {
 	t.Helper()
-	used := make([]bool, len(res.Notes))
+	used := make([]bool, len(res.Part.Problems))
 	for _, p := range patterns {
 		re := regexp.MustCompile(p)
 		found := false
-		for i, n := range res.Notes {
-			if !used[i] && re.MatchString(n.Kind.String()+": "+n.Msg) {
+		for i, n := range res.Part.Problems {
+			if !used[i] && re.MatchString(kindName(n.Kind)+": "+n.Message) {
 				used[i], found = true, true
 				break
 			}
@@ -252,7 +252,7 @@ func wantNotes(t *testing.T, res *Result, patterns ...string) {
 			t.Errorf("no note matches %q", p)
 		}
 	}
-	for i, n := range res.Notes {
+	for i, n := range res.Part.Problems {
 		if !used[i] {
 			t.Errorf("unexpected note %s", n)
 		}
@@ -302,4 +302,17 @@ func validate(t *testing.T, files []string) {
 	if err != nil {
 		t.Fatalf("xmllint: %v\n%s", err, out)
 	}
+}
+
+// kindName names a problem's kind as the notes of these tests are written.
+func kindName(k model.ProblemKind) string {
+	switch k {
+	case model.Unsupported:
+		return "unsupported"
+	case model.Inconsistent:
+		return "inconsistent"
+	case model.Syntax:
+		return "syntax"
+	}
+	return "geometry"
 }

@@ -57,7 +57,7 @@ func TestRefusesOtherVersions(t *testing.T) {
 }
 
 func TestAcceptsQIF3Minor(t *testing.T) {
-	res, err := Read(source.NewFile("t.qif", []byte(`<QIFDocument xmlns="http://qifstandards.org/xsd/qif3" versionQIF="3.1.0" idMax="1"/>`)))
+	res, err := ReadFile(source.NewFile("t.qif", []byte(`<QIFDocument xmlns="http://qifstandards.org/xsd/qif3" versionQIF="3.1.0" idMax="1"/>`)))
 	if err != nil || res.Doc.Version != "3.1.0" {
 		t.Fatalf("QIF 3.1.0: %v", err)
 	}
@@ -136,7 +136,7 @@ func TestRefusesOtherEncodings(t *testing.T) {
 
 // A byte order mark before the declaration is not text.
 func TestAcceptsByteOrderMark(t *testing.T) {
-	if _, err := Read(source.NewFile("t.qif", []byte("\ufeff<?xml version=\"1.0\"?>\n"+root+"</QIFDocument>"))); err != nil {
+	if _, err := ReadFile(source.NewFile("t.qif", []byte("\ufeff<?xml version=\"1.0\"?>\n"+root+"</QIFDocument>"))); err != nil {
 		t.Fatal(err)
 	}
 }

@@ -29,7 +29,7 @@ func readPath(t *testing.T, path string) (*Result, string) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	res, err := Read(source.NewFile(path, src))
+	res, err := ReadFile(source.NewFile(path, src))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -82,7 +82,7 @@ func kindsText(p *model.Part) string {
 
 // noteWant is how many notes of a kind match a pattern.
 type noteWant struct {
-	kind    NoteKind
+	kind    model.ProblemKind
 	pattern string
 	n       int
 }
@@ -92,13 +92,13 @@ func wantNoteCounts(t *testing.T, res *Result, want []noteWant) {
 	for _, w := range want {
 		re := regexp.MustCompile(w.pattern)
 		n := 0
-		for _, x := range res.Notes {
-			if x.Kind == w.kind && re.MatchString(x.Msg) {
+		for _, x := range res.Part.Problems {
+			if x.Kind == w.kind && re.MatchString(x.Message) {
 				n++
 			}
 		}
 		if n != w.n {
-			t.Errorf("%d %s notes matching %q, want %d", n, w.kind, w.pattern, w.n)
+			t.Errorf("%d %s notes matching %q, want %d", n, kindName(w.kind), w.pattern, w.n)
 		}
 	}
 }
@@ -126,9 +126,9 @@ func (w facts) check(t *testing.T, res *Result) {
 		t.Errorf("features %s\nwant     %s", got, w.kinds)
 	}
 	wantFrames(t, p, w.frames...)
-	if len(res.Notes) != w.notes {
-		t.Errorf("%d notes, want %d", len(res.Notes), w.notes)
-		for _, n := range res.Notes {
+	if len(res.Part.Problems) != w.notes {
+		t.Errorf("%d notes, want %d", len(res.Part.Problems), w.notes)
+		for _, n := range res.Part.Problems {
 			t.Log(n)
 		}
 	}
@@ -281,7 +281,7 @@ func TestNISTFTC06(t *testing.T) {
 	})
 	// Findings point into the file: every span is a start tag.
 	f := source.NewFile("", []byte(src))
-	for _, n := range res.Notes {
+	for _, n := range res.Part.Problems {
 		off := f.Offset(n.Span.Start)
 		if off >= len(src) || src[off] != '<' {
 			t.Errorf("note at %s is not at a start tag: %s", n.Span.Start, n)

@@ -1,6 +1,7 @@
 package qif
 
 import (
+	"errors"
 	"fmt"
 	"sort"
 
@@ -8,38 +9,23 @@ import (
 	"github.com/datumlint/datumlint/grammar/source"
 )
 
-// NoteKind says why a note was made.
-type NoteKind int
-
+// Unsupported and Inconsistent are the kinds of problem the reader records
+// beside syntax: what the model cannot carry (reported by the rule
+// qif-unsupported, info), and where the document contradicts itself or is
+// incomplete (qif-inconsistent, warning). A document the reader refuses is
+// one model.Syntax problem (the rule syntax).
 const (
-	// Unsupported: the document says something the part model cannot hold
-	// yet (a line feature, a datum target, all around); it is left out or
-	// read more simply, as the note says. Proposed rule: qif-unsupported
-	// (info).
-	Unsupported NoteKind = iota
-	// Inconsistent: the document contradicts itself or is incomplete (a
-	// reference to no element, a number that is not one, unit labels that
-	// disagree, a size that disagrees with the feature's nominal). Proposed
-	// rule: qif-inconsistent (warning).
-	Inconsistent
+	Unsupported  = model.Unsupported
+	Inconsistent = model.Inconsistent
 )
 
-func (k NoteKind) String() string {
-	if k == Inconsistent {
-		return "inconsistent"
-	}
-	return "unsupported"
-}
-
-// Note is something the reader could not carry into the model as written,
-// where it is written and what became of it.
+// Note is something the document layer found it could not read as
+// written, where it is written: it becomes a problem of the part.
 type Note struct {
-	Kind NoteKind
+	Kind model.ProblemKind
 	Span source.Span
 	Msg  string
 }
-
-func (n Note) String() string { return n.Span.Start.String() + ": " + n.Kind.String() + ": " + n.Msg }
 
 // Origins give the QIF ids each model element comes from, for an importer
 // that writes them beside the statements.
@@ -51,19 +37,38 @@ type Origins struct {
 }
 
 // Result is a read QIF document: the document layer, the part model built
-// from it, the notes on what the model does not carry, and where each
+// from it (what the model cannot carry is in Part.Problems), and where each
 // model element comes from.
 type Result struct {
 	Doc     *Document
 	Part    *model.Part
-	Notes   []Note // in file order
 	Origins Origins
 }
 
-// Read reads a QIF 3 document into the part model. A document it refuses
-// (not XML, not QIF 3, truncated, over DefaultLimits) gives an *Error and
-// no result.
-func Read(f *source.File) (*Result, error) {
+// Read reads a QIF 3 document into the part model: the reader that
+// rules/lint chooses for .qif files. It never fails: a document it refuses
+// (not XML, not QIF 3, truncated, over DefaultLimits) is a part with one
+// model.Syntax problem at the place of the trouble, and no elements.
+func Read(name string, src []byte) *model.Part {
+	f := source.NewFile(name, src)
+	res, err := ReadFile(f)
+	if err != nil {
+		p := model.NewPart(f)
+		var e *Error
+		if errors.As(err, &e) {
+			p.Problemf(model.Syntax, e.Span, "%s", e.Msg)
+		} else {
+			p.Problemf(model.Syntax, source.Point(source.Pos{Line: 1, Col: 1}), "%v", err)
+		}
+		p.Finish()
+		return p
+	}
+	return res.Part
+}
+
+// ReadFile reads a QIF 3 document with its document layer and origins. A
+// document it refuses gives an *Error and no result.
+func ReadFile(f *source.File) (*Result, error) {
 	doc, err := Decode(f)
 	if err != nil {
 		return nil, err
@@ -73,16 +78,13 @@ func Read(f *source.File) (*Result, error) {
 
 // Map builds the part model of a decoded document.
 func Map(doc *Document) *Result {
-	m := &mapper{doc: doc, part: model.NewPart(), seen: map[noteKey]bool{}, sized: map[*model.Feature]sizedBy{},
+	m := &mapper{doc: doc, part: model.NewPart(doc.File), seen: map[noteKey]bool{}, sized: map[*model.Feature]sizedBy{},
 		res: &Result{Doc: doc, Origins: Origins{Features: map[*model.Feature][]ID{}, Datums: map[*model.Datum]ID{},
 			Frames: map[*model.Frame]ID{}, Dims: map[*model.Dimension]ID{}}}}
 	m.res.Part = m.part
+	m.part.Statements = doc.Statements
 	for _, n := range doc.Notes {
 		m.note(n.Kind, n.Span, "%s", n.Msg)
-	}
-	m.part.FirstStmt = doc.Root
-	if doc.Root.End.Line != doc.Root.Start.Line {
-		m.part.FirstStmt.End = source.Pos{Line: doc.Root.Start.Line, Col: doc.Root.Start.Col + 1}
 	}
 	if doc.Title != "" {
 		m.part.Title = doc.Title
@@ -97,9 +99,11 @@ func Map(doc *Document) *Result {
 	for _, s := range doc.Sections {
 		m.note(Unsupported, s.Span, "<%s> is not read: the model has no default tolerances or characteristic groups", s.Name)
 	}
-	m.part.Index()
-	m.res.Notes = m.notes
-	sort.SliceStable(m.res.Notes, func(i, j int) bool { return m.res.Notes[i].Span.Start.Before(m.res.Notes[j].Span.Start) })
+	sort.SliceStable(m.part.Problems, func(i, j int) bool {
+		return m.part.Problems[i].Span.Start.Before(m.part.Problems[j].Span.Start)
+	})
+	sort.SliceStable(m.part.Headers, func(i, j int) bool { return m.part.Headers[i].Span.Start.Before(m.part.Headers[j].Span.Start) })
+	m.part.Finish()
 	return m.res
 }
 
@@ -110,12 +114,11 @@ type noteKey struct {
 
 // mapper builds the model from the document.
 type mapper struct {
-	doc   *Document
-	part  *model.Part
-	res   *Result
-	notes []Note
-	seen  map[noteKey]bool
-	u     units
+	doc  *Document
+	part *model.Part
+	res  *Result
+	seen map[noteKey]bool
+	u    units
 
 	feats   map[ID]*feat        // feature nominals by id
 	inGroup map[ID]*pattern     // the pattern a nominal belongs to
@@ -131,16 +134,16 @@ type sizedBy struct {
 	nominal float64
 }
 
-// note records a note once per place and message (a datum reference frame
-// shared by many characteristics is reported once).
-func (m *mapper) note(k NoteKind, sp source.Span, format string, args ...any) {
+// note records a problem once per place and message (a datum reference
+// frame shared by many characteristics is reported once).
+func (m *mapper) note(k model.ProblemKind, sp source.Span, format string, args ...any) {
 	msg := fmt.Sprintf(format, args...)
 	key := noteKey{sp.Start, msg}
 	if m.seen[key] {
 		return
 	}
 	m.seen[key] = true
-	m.notes = append(m.notes, Note{Kind: k, Span: sp, Msg: msg})
+	m.part.Problemf(k, sp, "%s", msg)
 }
 
 // standard sets the governing standard from FormalStandardId.

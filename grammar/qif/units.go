@@ -164,6 +164,21 @@ func (u *units) pointScaled(p *Vec3, scale float64) (model.Vec, bool) {
 	return model.Vec{tidy(v[0]), tidy(v[1]), tidy(v[2])}, true
 }
 
+// decimals are the decimal places a point of the Features section says its
+// coordinates have, in the model's unit: as written where it is read
+// without conversion, otherwise -1 (a converted value has no decimals of
+// its own).
+func (u *units) decimals(p *Vec3) [3]int {
+	none := [3]int{-1, -1, -1}
+	if p == nil || u.scale != 1 {
+		return none
+	}
+	if f, ok := u.linearFactor(p.Unit, source.Span{}, false); !ok || !sameFactor(f, u.toSI) {
+		return none
+	}
+	return p.Places
+}
+
 // tolerance converts a length of Characteristics and counts its unit: kind
 // 0 for geometric tolerances, 1 for sizes and dimensions.
 func (u *units) tolerance(v *Value, kind int) (float64, bool) {

@@ -61,6 +61,7 @@ type node struct {
 	long     bool // the text was longer than keptText and was dropped
 	kids     []*node
 	from, to int // the start tag, [from, to)
+	end      int // the end of the element (its end tag, or the empty tag)
 }
 
 func (n *node) attr(name string) (string, bool) {
@@ -276,6 +277,7 @@ func decodeXML(f *source.File, lim Limits) (*decoded, error) {
 			default:
 				n := stack[len(stack)-1]
 				n.text = strings.TrimSpace(n.text)
+				n.end = to
 				stack = stack[:len(stack)-1]
 			}
 			if len(open) == 0 {

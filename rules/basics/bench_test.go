@@ -6,8 +6,9 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/datumlint/datumlint/rules/kinematics"
+
 	"github.com/datumlint/datumlint/grammar"
-	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/basics"
 )
@@ -51,12 +52,12 @@ basic dia 80 through ring about hub
 
 func BenchmarkPlateWithPatterns(b *testing.B) {
 	src := []byte(platePattern())
-	p := model.Resolve(grammar.Parse("plate.callouts", src))
-	facts := rules.NewFacts(p)
+	p := grammar.Read("plate.callouts", src)
+	facts := kinematics.Analyze(p)
 	var qs []basics.Query
 	for _, fr := range p.Frames {
 		for i, seg := range fr.Segments {
-			a := facts.DOF(fr, i)
+			a := facts.Segment(fr, i)
 			q, ok := basics.FrameQuery(fr, seg, a.DRF)
 			if !a.Resolved || !ok {
 				b.Fatalf("frame %s does not resolve", fr.Target.Name)
@@ -83,7 +84,7 @@ func BenchmarkCheckPlate(b *testing.B) {
 	src := []byte(platePattern())
 	lines := strings.Count(string(src), "\n")
 	for b.Loop() {
-		rules.Check("plate.callouts", src, nil)
+		rules.Check(grammar.Read("plate.callouts", src), nil)
 	}
 	b.ReportMetric(float64(lines)*float64(b.N)/b.Elapsed().Seconds(), "lines/s")
 }

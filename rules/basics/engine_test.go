@@ -6,9 +6,10 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/datumlint/datumlint/rules/kinematics"
+
 	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/grammar/model"
-	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/basics"
 )
 
@@ -28,11 +29,11 @@ datum C on left
 // target name and segment ("bore/0"), as readable strings.
 func missing(t *testing.T, src string) map[string][]string {
 	t.Helper()
-	p := model.Resolve(grammar.Parse("t.callouts", []byte(src)))
-	if len(p.Errors) > 0 {
-		t.Fatalf("test file does not resolve: %v", p.Errors[0])
+	p := grammar.Read("t.callouts", []byte(src))
+	if len(p.Problems) > 0 {
+		t.Fatalf("test file does not resolve: %v", p.Problems[0])
 	}
-	facts := rules.NewFacts(p)
+	facts := kinematics.Analyze(p)
 	e := basics.Build(p, nil)
 	out := map[string][]string{}
 	for _, fr := range p.Frames {
@@ -40,7 +41,7 @@ func missing(t *testing.T, src string) map[string][]string {
 			if ask, _ := basics.Asks(fr, seg); !ask {
 				continue
 			}
-			a := facts.DOF(fr, i)
+			a := facts.Segment(fr, i)
 			if !a.Resolved {
 				t.Fatalf("frame %s does not resolve: %s", fr.Target.Name, a.Problem)
 			}
@@ -253,7 +254,7 @@ basic 50 from pins.1 to pins.2
 basic 30 from pins.1 to pins.2 along +x
 basic 41 from pins.1 to pins.2 along +y
 `
-	p := model.Resolve(grammar.Parse("t.callouts", []byte(src)))
+	p := grammar.Read("t.callouts", []byte(src))
 	var got []string
 	for _, m := range basics.Build(p, nil).Mismatches() {
 		v := basics.Num(m.Nominal)
@@ -279,7 +280,7 @@ basic 10 from blob to bore
 basic 5deg from bore to base about bore
 basic dia 40 through bore about base
 `
-	p := model.Resolve(grammar.Parse("t.callouts", []byte(src)))
+	p := grammar.Read("t.callouts", []byte(src))
 	e := basics.Build(p, nil)
 	if got := e.Missing(basics.Query{Target: p.Frames[0].Target}); got != nil {
 		t.Errorf("missing for a surface without geometry: %v", got)
@@ -335,7 +336,7 @@ basic 30deg from face to ramp
 basic dia 80.01 through bolts about hub
 basic 31deg from face to ramp
 `
-	p := model.Resolve(grammar.Parse("t.callouts", []byte(src)))
+	p := grammar.Read("t.callouts", []byte(src))
 	var got []int
 	for _, m := range basics.Build(p, nil).Mismatches() {
 		got = append(got, m.Dim.Span.Start.Line)

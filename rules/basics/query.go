@@ -5,9 +5,10 @@ import (
 	"math"
 	"sync"
 
+	"gonum.org/v1/gonum/mat"
+
 	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/rules/dof"
-	"gonum.org/v1/gonum/mat"
 )
 
 // Query asks what of a frame's target is not fixed by basic dimensions.
@@ -934,84 +935,4 @@ func rowNorm(r row) float64 {
 		t += x.c * x.c
 	}
 	return math.Sqrt(t)
-}
-
-// Asks says what a frame's characteristic asks of basic dimensions for
-// one of its segments: the location and orientation of its zone (position;
-// profile with datums, ASME Y14.5-2018 and ISO 1101:2017, profile located
-// by basic dimensions), or only its orientation (angularity: the basic
-// angle, ASME Y14.5-2018, angularity). Perpendicularity and parallelism
-// carry their angle in their symbol, form floats, and runout is located by
-// the datum axis it turns about, so they ask nothing. Nor does a free-form
-// surface: the notation gives it at most a reference point, and its true
-// profile and place are the model's own (ASME Y14.41-2019, model values are
-// basic), so there is no distance to write.
-func Asks(fr *model.Frame, seg *model.Segment) (ask, orientation bool) {
-	switch {
-	case fr.Target.Resolved() && fr.Target.Feature.Kind == model.Surface:
-		return false, false
-	case fr.Characteristic == "position":
-		return true, false
-	case fr.Characteristic.Category() == model.Profile:
-		return len(seg.Refs) > 0, false
-	case fr.Characteristic == "angularity":
-		return len(seg.Refs) > 0, true
-	}
-	return false, false
-}
-
-// FrameQuery builds the query for one segment of a frame from the
-// kinematic engine's analysis of its datum reference frame. ok is false
-// when a reference names no datum with a target.
-func FrameQuery(fr *model.Frame, seg *model.Segment, drf *dof.DRF) (q Query, ok bool) {
-	_, q.Orientation = Asks(fr, seg)
-	q.Target = fr.Target
-	for _, r := range seg.Refs {
-		var ms []*model.Member
-		for _, d := range r.Datums {
-			if d == nil || !d.Target.Resolved() {
-				return q, false
-			}
-			if d.Target.Member != nil {
-				ms = append(ms, d.Target.Member)
-			} else {
-				ms = append(ms, d.Target.Feature.Members...)
-			}
-		}
-		if w := medianOf(r); w != nil {
-			ms = append(ms, w.Members...)
-		}
-		q.Refs = append(q.Refs, ms)
-	}
-	steps := drf.Steps()
-	if len(steps) != len(q.Refs) {
-		return q, false
-	}
-	for _, st := range steps {
-		var ts []dof.Twist
-		for _, m := range st.Free {
-			ts = append(ts, m.Twist)
-		}
-		q.Free = append(q.Free, ts)
-	}
-	return q, true
-}
-
-// medianOf returns the width whose two faces a common datum's two
-// references are: two opposed parallel planes used as one datum establish
-// their median plane (ISO 5459:2011, common datum of two parallel planes),
-// which is that width's mid-plane; nil otherwise.
-func medianOf(r *model.DatumRef) *model.Feature {
-	if len(r.Datums) != 2 {
-		return nil
-	}
-	a, b := r.Datums[0], r.Datums[1]
-	if a == nil || b == nil || a.Target.Feature == nil || b.Target.Feature == nil {
-		return nil
-	}
-	w := a.Target.Feature.FaceOf
-	if w == nil || w != b.Target.Feature.FaceOf || a.Target.Feature == b.Target.Feature || w.Broken || !w.HasGeometry {
-		return nil
-	}
-	return w
 }

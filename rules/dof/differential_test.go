@@ -7,16 +7,16 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/datumlint/datumlint/rules/kinematics"
+
 	"github.com/rogpeppe/go-internal/txtar"
 
 	"github.com/datumlint/datumlint/grammar"
-	"github.com/datumlint/datumlint/grammar/model"
-	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/dof"
 )
 
 // TestFastMatchesReferenceOnTestdata holds the engine, as the rules reach it
-// through rules.Facts (with its per-file sharing of frames and zones), to
+// through rules/kinematics (with its per-file sharing of frames and zones), to
 // the reference engine of reference_test.go on every frame segment of every
 // .callouts file and every .callouts file inside a txtar script of the
 // repository: the same counts, the same names, and twists equal to
@@ -66,25 +66,25 @@ func TestFastMatchesReferenceOnTestdata(t *testing.T) {
 // many it compared.
 func compareFile(t *testing.T, name string, src []byte) int {
 	t.Helper()
-	part := model.Resolve(grammar.Parse(name, src))
-	facts := rules.NewFacts(part)
+	part := grammar.Read(name, src)
+	facts := kinematics.Analyze(part)
 	frame := dof.Frame{Center: dof.Vec(part.Center), Scale: part.Scale}
 	n := 0
 	for _, fr := range part.Frames {
 		for i, s := range fr.Segments {
-			a := facts.DOF(fr, i)
+			a := facts.Segment(fr, i)
 			if !a.Resolved {
 				continue
 			}
 			ds := make([]dof.Datum, len(s.Refs))
 			for k, r := range s.Refs {
-				ds[k] = rules.RefSurfaces(r)
+				ds[k] = kinematics.RefSurfaces(r)
 			}
 			ref := dof.ReferenceAnalyze(frame, ds)
 			where := name + ": " + fr.Target.Name + " " + string(fr.Characteristic)
 			sameSteps(t, frame, where, a.DRF.Steps(), ref.Steps)
 			sameMotions(t, frame, where+" free", a.DRF.Free(), ref.Free)
-			sameZone(t, frame, where, a.Zone, dof.ReferenceZone(ref, rules.ZoneOf(fr, s)))
+			sameZone(t, frame, where, a.Zone, dof.ReferenceZone(ref, kinematics.ZoneOf(fr)))
 			n++
 		}
 	}

@@ -6,6 +6,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/datumlint/datumlint/rules/kinematics"
+
 	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/rules"
@@ -57,8 +59,8 @@ func BenchmarkResolve(b *testing.B) {
 	b.ResetTimer()
 	for b.Loop() {
 		for _, f := range files {
-			if p := model.Resolve(f); len(p.Errors) > 0 {
-				b.Fatal(p.Errors[0])
+			if p := grammar.Resolve(f); len(p.Problems) > 0 {
+				b.Fatal(p.Problems[0])
 			}
 		}
 	}
@@ -71,15 +73,15 @@ func BenchmarkDOF(b *testing.B) {
 	srcs, lines := plates(sample)
 	var parts []*model.Part
 	for i, src := range srcs {
-		parts = append(parts, model.Resolve(grammar.Parse(fmt.Sprint(i), src)))
+		parts = append(parts, grammar.Read(fmt.Sprint(i), src))
 	}
 	b.ResetTimer()
 	for b.Loop() {
 		for _, p := range parts {
-			facts := rules.NewFacts(p)
+			facts := kinematics.Analyze(p)
 			for _, fr := range p.Frames {
 				for s := range fr.Segments {
-					if d := facts.DOF(fr, s); !d.Resolved {
+					if d := facts.Segment(fr, s); !d.Resolved {
 						b.Fatal(d.Problem)
 					}
 				}
@@ -97,7 +99,7 @@ func BenchmarkCheck(b *testing.B) {
 	b.ResetTimer()
 	for b.Loop() {
 		for i, src := range srcs {
-			rules.Check(fmt.Sprint(i), src, nil)
+			rules.Check(grammar.Read(fmt.Sprint(i), src), nil)
 		}
 	}
 	reportLines(b, lines)
@@ -141,7 +143,7 @@ func BenchmarkBasicRules(b *testing.B) {
 	b.ResetTimer()
 	for b.Loop() {
 		for i, src := range srcs {
-			rules.Check(fmt.Sprint(i), src, only)
+			rules.Check(grammar.Read(fmt.Sprint(i), src), only)
 		}
 	}
 	reportLines(b, lines)
@@ -155,7 +157,7 @@ func BenchmarkCheckRow(b *testing.B) {
 		src := gen.Row(n)
 		b.Run(fmt.Sprintf("holes=%d", n), func(b *testing.B) {
 			for b.Loop() {
-				rules.Check("row.callouts", src, nil)
+				rules.Check(grammar.Read("row.callouts", src), nil)
 			}
 		})
 	}
@@ -173,7 +175,7 @@ func BenchmarkCheckLongFile(b *testing.B) {
 		}
 		b.Run(fmt.Sprintf("plates=%d", n), func(b *testing.B) {
 			for b.Loop() {
-				rules.Check("long.callouts", src, nil)
+				rules.Check(grammar.Read("long.callouts", src), nil)
 			}
 			b.ReportMetric(float64(bytes.Count(src, []byte("\n")))*float64(b.N)/b.Elapsed().Seconds(), "lines/s")
 		})

@@ -3,12 +3,14 @@ package lint
 import (
 	"bytes"
 	"fmt"
-	"github.com/datumlint/datumlint/grammar/source"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 	"unicode/utf8"
+
+	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/source"
 
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/lint/internal/gen"
@@ -132,7 +134,7 @@ func TestHostileFiles(t *testing.T) {
 		t.Fatalf("%d files of %d checked; errors %v", len(res.Files), len(cases), res.Errors)
 	}
 	byFile := map[string][]rules.Diagnostic{}
-	for _, d := range res.Diagnostics {
+	for _, d := range res.Diagnostics() {
 		byFile[d.File] = append(byFile[d.File], d)
 	}
 	for name, h := range cases {
@@ -169,7 +171,7 @@ func summary(ds []rules.Diagnostic) string {
 // at the same positions as the plain file.
 func TestLineEndsAndBOMDoNotChangeFindings(t *testing.T) {
 	bad := strings.Replace(contract, "datums A, B, C\nframe bolts", "datums A, B, Q\nframe bolts", 1)
-	want := rules.Check("f", []byte(bad), nil)
+	want := rules.Check(grammar.Read("f", []byte(bad)), nil)
 	if len(want) == 0 {
 		t.Fatal("the test file has no finding to compare")
 	}
@@ -177,7 +179,7 @@ func TestLineEndsAndBOMDoNotChangeFindings(t *testing.T) {
 		"crlf": strings.ReplaceAll(bad, "\n", "\r\n"),
 		"bom":  "\xef\xbb\xbf" + bad,
 	} {
-		got := rules.Check("f", []byte(src), nil)
+		got := rules.Check(grammar.Read("f", []byte(src)), nil)
 		if fmt.Sprint(got) != fmt.Sprint(want) {
 			t.Errorf("%s: findings differ from the plain file:%s\nwant:%s", name, summary(got), summary(want))
 		}
@@ -202,15 +204,15 @@ func TestTenMegabyteFile(t *testing.T) {
 	if len(res.Errors) > 0 {
 		t.Fatal(res.Errors)
 	}
-	checkPositions(t, b.Bytes(), res.Diagnostics)
+	checkPositions(t, b.Bytes(), res.Diagnostics())
 	dup := 0
-	for _, d := range res.Diagnostics {
+	for _, d := range res.Diagnostics() {
 		if d.Rule == rules.NameDuplicate.ID {
 			dup++
 		}
 	}
 	if dup == 0 {
-		t.Errorf("no name-duplicate finding in a file that declares every plate's names again:%s", summary(res.Diagnostics[:min(10, len(res.Diagnostics))]))
+		t.Errorf("no name-duplicate finding in a file that declares every plate's names again:%s", summary(res.Diagnostics()[:min(10, len(res.Diagnostics()))]))
 	}
 }
 
@@ -222,7 +224,7 @@ func TestSizeLimit(t *testing.T) {
 	os.WriteFile(small, []byte(contract[:40]), 0o644)
 	res := Run([]string{dir}, Options{MaxBytes: 100})
 	var onBig []rules.Diagnostic
-	for _, d := range res.Diagnostics {
+	for _, d := range res.Diagnostics() {
 		if d.File == big {
 			onBig = append(onBig, d)
 		}
@@ -236,7 +238,7 @@ func TestSizeLimit(t *testing.T) {
 		t.Errorf("unclear size-limit finding: %s %s %s", d.Span.Start, d.Severity, d.Message)
 	}
 	small2 := 0
-	for _, d := range res.Diagnostics {
+	for _, d := range res.Diagnostics() {
 		if d.File == small {
 			small2++
 		}
@@ -286,7 +288,7 @@ func TestUnreadablePaths(t *testing.T) {
 	}
 	checked := map[string]bool{}
 	for _, f := range res.Files {
-		checked[f] = true
+		checked[f.Path] = true
 	}
 	for _, f := range []string{good, bad, inner} {
 		if !checked[f] {
@@ -294,11 +296,11 @@ func TestUnreadablePaths(t *testing.T) {
 		}
 	}
 	found := false
-	for _, d := range res.Diagnostics {
+	for _, d := range res.Diagnostics() {
 		found = found || d.File == bad && d.Rule == rules.HeaderMissing.ID
 	}
 	if !found {
-		t.Errorf("the findings of the readable files are missing: %s", summary(res.Diagnostics))
+		t.Errorf("the findings of the readable files are missing: %s", summary(res.Diagnostics()))
 	}
 }
 
@@ -325,7 +327,7 @@ func TestPermissionDenied(t *testing.T) {
 			t.Errorf("%s: want permission denied, got %q", p, errs[p])
 		}
 	}
-	if len(res.Files) == 0 || res.Files[len(res.Files)-1] != open {
+	if len(res.Files) == 0 || res.Files[len(res.Files)-1].Path != open {
 		t.Errorf("the readable file was not checked: %v", res.Files)
 	}
 }

@@ -1,6 +1,8 @@
-// Package lint runs the rules over files and folders: it finds the
-// .callouts files, checks them in parallel (one worker per core) and returns
-// the findings in the same order as a serial run would.
+// Package lint runs the rules over files and folders: it finds the files
+// it has a reader for, reads each into the part model with the reader its
+// extension chooses, checks them in parallel (one worker per core) and
+// returns, per file, what it read and found, in the same order as a serial
+// run would.
 package lint
 
 import (
@@ -14,11 +16,62 @@ import (
 	"strings"
 	"sync"
 
+	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/grammar/source"
 	"github.com/datumlint/datumlint/rules"
 )
 
 // Ext is the extension of callout files.
 const Ext = ".callouts"
+
+// A Reader builds the part model of one file. It never fails: what it
+// cannot read is recorded in the part's Problems.
+type Reader func(name string, src []byte) *model.Part
+
+// readers chooses a reader by file extension (compared in any case), as
+// cmd/shfmt chooses a language by file name.
+var readers = []struct {
+	ext  string
+	read Reader
+}{
+	{Ext, grammar.Read},
+}
+
+// ReaderFor returns the reader for a file name, or nil when no reader
+// knows its extension.
+func ReaderFor(name string) Reader {
+	ext := strings.ToLower(filepath.Ext(name))
+	for _, r := range readers {
+		if r.ext == ext {
+			return r.read
+		}
+	}
+	return nil
+}
+
+// Read reads a file's source into the part model with the reader its
+// extension chooses; a name no reader knows is read as the notation (a
+// file named on the command line, or standard input).
+func Read(name string, src []byte) *model.Part {
+	if r := ReaderFor(name); r != nil {
+		return r(name, src)
+	}
+	return grammar.Read(name, src)
+}
+
+// Exts lists the extensions that folders are walked for.
+func Exts() []string {
+	out := make([]string, len(readers))
+	for i, r := range readers {
+		out[i] = r.ext
+	}
+	return out
+}
+
+// namedLikeFile reports whether a folder's name ends in an extension that
+// a reader knows (a likely mistake).
+func namedLikeFile(name string) bool { return ReaderFor(name) != nil }
 
 // DefaultMaxBytes is the default size limit of one file.
 const DefaultMaxBytes = 16 << 20
@@ -35,6 +88,13 @@ type Options struct {
 	MaxBytes int64
 	// Workers is the number of files checked at once (0: one per core).
 	Workers int
+	// Override gives, by path, text to check in place of the file's (the
+	// text that fixes would leave, for check --fix --diff).
+	Override map[string][]byte
+	// KeepParts keeps every file's source and part model in the result
+	// (the report and the editor need them); otherwise only the source of
+	// files with findings is kept, for outputs that quote it.
+	KeepParts bool
 }
 
 // PathError is a path that could not be read; it is reported and the other
@@ -46,15 +106,51 @@ type PathError struct {
 
 func (e *PathError) Error() string { return fmt.Sprintf("%s: %v", e.Path, e.Err) }
 
-// Result is the outcome of a run.
-type Result struct {
-	Files       []string
+// File is what a run read and found in one file.
+type File struct {
+	Path string
+	// Source is the file as read: kept where it has findings, or with
+	// Options.KeepParts; nil otherwise, and where the file was not read.
+	Source *source.File
+	// Statements are the file's statements, kept with Source.
+	Statements []model.Statement
+	// Part is the model the reader built (with Options.KeepParts only).
+	Part        *model.Part
 	Diagnostics []rules.Diagnostic
-	Errors      []*PathError
+}
+
+// Result is the outcome of a run: one File per checked file, in the order
+// of a serial run, and the paths that could not be read.
+type Result struct {
+	Files  []*File
+	Errors []*PathError
+	byPath map[string]*File
+}
+
+// Diagnostics returns every file's findings, sorted by file, line and
+// column.
+func (r *Result) Diagnostics() []rules.Diagnostic {
+	var out []rules.Diagnostic
+	for _, f := range r.Files {
+		out = append(out, f.Diagnostics...)
+	}
+	rules.Sort(out)
+	return out
+}
+
+// File returns the result of the file with the path, or nil.
+func (r *Result) File(path string) *File {
+	if r.byPath == nil {
+		r.byPath = make(map[string]*File, len(r.Files))
+		for _, f := range r.Files {
+			r.byPath[f.Path] = f
+		}
+	}
+	return r.byPath[path]
 }
 
 // Collect expands paths into the files to check: files as named, folders
-// walked for *.callouts in sorted order. Missing or unreadable paths,
+// walked for the extensions a reader knows, in sorted order. Missing or unreadable paths,
 // permission errors and symbolic link loops become PathErrors.
 func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError) {
 	var files []string
@@ -73,7 +169,7 @@ func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError)
 			errs = append(errs, &PathError{root, friendlyErr(err)})
 			continue
 		}
-		if info.IsDir() && strings.HasSuffix(filepath.Clean(root), Ext) {
+		if info.IsDir() && namedLikeFile(filepath.Clean(root)) {
 			// Named like a file but a folder: report it (exit 2), and
 			// still check what is inside.
 			errs = append(errs, &PathError{root, errors.New("a folder named like a callouts file; the .callouts files inside it are checked")})
@@ -98,14 +194,14 @@ func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError)
 				if p != root && strings.HasPrefix(d.Name(), ".") && d.Name() != "." && d.Name() != ".." {
 					return fs.SkipDir // .git and other hidden folders
 				}
-				if p != root && strings.HasSuffix(d.Name(), Ext) {
+				if p != root && namedLikeFile(d.Name()) {
 					// Likely a mistake (an export that made a folder per part);
 					// say so, and still check the files inside.
 					errs = append(errs, &PathError{p, errors.New("a folder named like a callouts file; the .callouts files inside it are checked")})
 				}
 				return nil
 			}
-			if !strings.HasSuffix(d.Name(), Ext) {
+			if ReaderFor(d.Name()) == nil {
 				return nil
 			}
 			if d.Type()&fs.ModeSymlink != 0 {
@@ -149,7 +245,7 @@ func friendlyErr(err error) error {
 // Run checks every file under paths.
 func Run(paths []string, opt Options) Result {
 	files, errs := Collect(paths, opt.Exclude)
-	res := Result{Files: files, Errors: errs}
+	res := Result{Files: make([]*File, len(files)), Errors: errs}
 	workers := opt.Workers
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
@@ -158,11 +254,7 @@ func Run(paths []string, opt Options) Result {
 	if max <= 0 {
 		max = DefaultMaxBytes
 	}
-	type out struct {
-		diags []rules.Diagnostic
-		err   *PathError
-	}
-	outs := make([]out, len(files))
+	pathErrs := make([]*PathError, len(files))
 	var wg sync.WaitGroup
 	next := make(chan int)
 	for w := 0; w < workers && w < len(files); w++ {
@@ -170,8 +262,7 @@ func Run(paths []string, opt Options) Result {
 		go func() {
 			defer wg.Done()
 			for i := range next {
-				d, err := CheckPath(files[i], opt, max)
-				outs[i] = out{d, err}
+				res.Files[i], pathErrs[i] = CheckPath(files[i], opt, max)
 			}
 		}()
 	}
@@ -180,47 +271,62 @@ func Run(paths []string, opt Options) Result {
 	}
 	close(next)
 	wg.Wait()
-	for _, o := range outs {
-		res.Diagnostics = append(res.Diagnostics, o.diags...)
-		if o.err != nil {
-			res.Errors = append(res.Errors, o.err)
+	for _, e := range pathErrs {
+		if e != nil {
+			res.Errors = append(res.Errors, e)
 		}
 	}
-	rules.Sort(res.Diagnostics)
 	sort.SliceStable(res.Errors, func(i, j int) bool { return res.Errors[i].Path < res.Errors[j].Path })
 	return res
 }
 
-// CheckPath reads and checks one file.
-func CheckPath(path string, opt Options, max int64) ([]rules.Diagnostic, *PathError) {
+// CheckPath reads and checks one file. The File is never nil; where the
+// file could not be read it has no findings and the PathError says why.
+func CheckPath(path string, opt Options, max int64) (*File, *PathError) {
+	out := &File{Path: path}
 	st, err := os.Stat(path)
 	if err != nil {
-		return nil, &PathError{path, friendlyErr(err)}
+		return out, &PathError{path, friendlyErr(err)}
 	}
 	if st.IsDir() {
-		return nil, &PathError{path, errors.New("is a folder")}
+		return out, &PathError{path, errors.New("is a folder")}
 	}
 	settings := opt.Settings
 	if opt.SettingsFor != nil {
 		s, err := opt.SettingsFor(path)
 		if err != nil {
-			return nil, &PathError{path, err}
+			return out, &PathError{path, err}
 		}
 		settings = s
 	}
 	if st.Size() > max {
-		return []rules.Diagnostic{tooBig(path, st.Size(), max)}, nil
+		out.Diagnostics = []rules.Diagnostic{tooBig(path, st.Size(), max)}
+		return out, nil
 	}
-	src, err := os.ReadFile(path)
-	if err != nil {
-		return nil, &PathError{path, friendlyErr(err)}
+	src, ok := opt.Override[path]
+	if !ok {
+		if src, err = os.ReadFile(path); err != nil {
+			return out, &PathError{path, friendlyErr(err)}
+		}
 	}
-	return rules.Check(path, src, settings), nil
+	CheckSource(out, src, settings, opt.KeepParts)
+	return out, nil
+}
+
+// CheckSource reads src with the reader for f.Path and checks it, filling
+// f; the source and the model are kept as Options.KeepParts says.
+func CheckSource(f *File, src []byte, settings *rules.Settings, keep bool) {
+	part := Read(f.Path, src)
+	f.Diagnostics = rules.Check(part, settings)
+	if keep || len(f.Diagnostics) > 0 {
+		f.Source, f.Statements = part.Source, part.Statements
+	}
+	if keep {
+		f.Part = part
+	}
 }
 
 func tooBig(path string, size, max int64) rules.Diagnostic {
-	d := rules.Diagnostic{File: path, Rule: rules.Syntax.ID, Severity: rules.Error,
+	return rules.Diagnostic{File: path, Rule: rules.Syntax.ID, Severity: rules.Error, Span: source.Line(1),
 		Message: fmt.Sprintf("the file is %d bytes, over the size limit of %d bytes; it was not read (raise the limit with --max-bytes if it really is one part)", size, max)}
-	d.Span.Start.Line, d.Span.Start.Col, d.Span.End.Line, d.Span.End.Col = 1, 1, 1, 2
-	return d
 }

@@ -3,9 +3,10 @@ package basicsref
 import (
 	"testing"
 
+	"github.com/datumlint/datumlint/rules/kinematics"
+
 	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/grammar/model"
-	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/basics"
 	"github.com/datumlint/datumlint/rules/lint/internal/gen"
 )
@@ -23,15 +24,15 @@ type benchPlate struct {
 func benchPlates(b *testing.B) []benchPlate {
 	var out []benchPlate
 	for i := range 16 {
-		part := model.Resolve(grammar.Parse("plate.callouts", gen.Plate(i)))
-		facts := rules.NewFacts(part)
+		part := grammar.Read("plate.callouts", gen.Plate(i))
+		facts := kinematics.Analyze(part)
 		bp := benchPlate{part: part}
 		for _, fr := range part.Frames {
 			for k, seg := range fr.Segments {
 				if ask, _ := basics.Asks(fr, seg); !ask {
 					continue
 				}
-				a := facts.DOF(fr, k)
+				a := facts.Segment(fr, k)
 				if !a.Resolved || a.DRF == nil {
 					b.Fatalf("plate %d: frame on %s does not resolve", i, fr.Target.Name)
 				}

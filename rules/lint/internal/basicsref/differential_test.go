@@ -17,11 +17,12 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/datumlint/datumlint/rules/kinematics"
+
 	"github.com/rogpeppe/go-internal/txtar"
 
 	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/grammar/model"
-	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/basics"
 	"github.com/datumlint/datumlint/rules/lint/internal/gen"
 )
@@ -35,8 +36,8 @@ type compared struct{ files, queries, missing, mismatches int }
 // of every segment of every frame and of every written dimension.
 func compareFile(t *testing.T, name string, src []byte, c *compared) {
 	t.Helper()
-	part := model.Resolve(grammar.Parse(name, src))
-	facts := rules.NewFacts(part)
+	part := grammar.Read(name, src)
+	facts := kinematics.Analyze(part)
 	var toleranced []*model.Dimension
 	for _, d := range part.Dims {
 		if !d.Basic {
@@ -48,7 +49,7 @@ func compareFile(t *testing.T, name string, src []byte, c *compared) {
 		ne, oe := basics.Build(part, counted), Build(part, counted)
 		for _, fr := range part.Frames {
 			for i, seg := range fr.Segments {
-				a := facts.DOF(fr, i)
+				a := facts.Segment(fr, i)
 				if !a.Resolved || a.DRF == nil {
 					continue
 				}
@@ -186,14 +187,14 @@ func TestConcurrentQueriesMatchReference(t *testing.T) {
 			}
 			cut = append(cut, l)
 		}
-		part := model.Resolve(grammar.Parse("plate.callouts", bytes.Join(cut, nil)))
-		facts := rules.NewFacts(part)
+		part := grammar.Read("plate.callouts", bytes.Join(cut, nil))
+		facts := kinematics.Analyze(part)
 		ne, oe := basics.Build(part, nil), Build(part, nil)
 		var nqs []basics.Query
 		var want []string
 		for _, fr := range part.Frames {
 			for k, seg := range fr.Segments {
-				a := facts.DOF(fr, k)
+				a := facts.Segment(fr, k)
 				if !a.Resolved || a.DRF == nil {
 					continue
 				}

@@ -3,9 +3,7 @@ package basicsref
 import (
 	"math"
 	"strconv"
-	"strings"
 
-	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/grammar/model"
 )
 
@@ -159,43 +157,24 @@ func newEntity(m *model.Member) *entity {
 // three-decimal coordinates would disagree with its diameter at 1e-6 of the
 // part's size.
 func written(m *model.Member) (h, ah float64) {
-	st := m.Feature.Stmt
-	if st == nil || st.Geometry == nil {
-		return 0, 0
-	}
-	g := st.Geometry
-	if i := m.Index - 1; i >= 0 && i < len(g.Points) {
-		if v := g.Points[i]; v != nil {
-			h = math.Sqrt(3) * math.Max(halfUnit(v.X), math.Max(halfUnit(v.Y), halfUnit(v.Z)))
-		}
-	}
-	if g.Dir != nil && g.Dir.Vector != nil {
-		v := g.Dir.Vector
-		d := math.Max(halfUnit(v.X), math.Max(halfUnit(v.Y), halfUnit(v.Z)))
-		if n := m.Feature.Dir.Norm(); n > 0 {
-			// Each component off by d turns a unit vector by at most about
-			// √2·d radians.
-			ah = math.Sqrt2 * d * 180 / math.Pi
-		}
+	d := m.Decimals
+	h = math.Sqrt(3) * math.Max(halfUnit(d[0]), math.Max(halfUnit(d[1]), halfUnit(d[2])))
+	if fd := m.Feature.DirDecimals; m.Feature.Dir.Norm() > 0 {
+		// Each component off by u turns a unit vector by at most about
+		// √2·u radians.
+		u := math.Max(halfUnit(fd[0]), math.Max(halfUnit(fd[1]), halfUnit(fd[2])))
+		ah = math.Sqrt2 * u * 180 / math.Pi
 	}
 	return h, ah
 }
 
-// halfUnit is half a unit of the last written decimal of a number with
-// three or more decimals, else 0.
-func halfUnit(n *grammar.Number) float64 {
-	if n == nil || strings.ContainsAny(n.Text, "eE") {
+// halfUnit is half a unit of the last written decimal of a number written
+// with three or more decimals, else 0.
+func halfUnit(decimals int) float64 {
+	if decimals < 3 {
 		return 0
 	}
-	i := strings.IndexByte(n.Text, '.')
-	if i < 0 {
-		return 0
-	}
-	d := len(n.Text) - i - 1
-	if d < 3 {
-		return 0
-	}
-	return 0.5 * math.Pow(10, -float64(d))
+	return 0.5 * math.Pow(10, -float64(decimals))
 }
 
 // offset is the vector from a to b that a distance between them measures:

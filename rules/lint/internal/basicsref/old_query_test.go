@@ -4,9 +4,10 @@ import (
 	"fmt"
 	"math"
 
+	"gonum.org/v1/gonum/mat"
+
 	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/rules/dof"
-	"gonum.org/v1/gonum/mat"
 )
 
 // Query asks what of a frame's target is not fixed by basic dimensions.

@@ -7,6 +7,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/datumlint/datumlint/grammar"
+
 	"github.com/datumlint/datumlint/rules"
 )
 
@@ -20,7 +22,7 @@ func TestPlatesAreClean(t *testing.T) {
 	}
 	for i := 0; i < n; i++ {
 		src := Plate(i)
-		for _, d := range rules.Check("plate.callouts", src, nil) {
+		for _, d := range rules.Check(grammar.Read("plate.callouts", src), nil) {
 			t.Errorf("plate %d:%s: %s: %s\n%s", i, d.Span.Start, d.Rule, d.Message, lineOf(src, d.Span.Start.Line))
 		}
 	}
@@ -28,7 +30,7 @@ func TestPlatesAreClean(t *testing.T) {
 
 func TestRowIsClean(t *testing.T) {
 	for _, n := range []int{2, 7, 40} {
-		for _, d := range rules.Check("row.callouts", Row(n), nil) {
+		for _, d := range rules.Check(grammar.Read("row.callouts", Row(n)), nil) {
 			t.Errorf("row of %d:%s: %s: %s", n, d.Span.Start, d.Rule, d.Message)
 		}
 	}

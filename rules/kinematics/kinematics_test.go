@@ -1,4 +1,4 @@
-package rules
+package kinematics
 
 import (
 	"testing"
@@ -10,11 +10,11 @@ import (
 
 func resolveSrc(t testing.TB, src string) *model.Part {
 	t.Helper()
-	f := grammar.Parse("test.callouts", []byte(src))
-	if len(f.Errors) > 0 {
-		t.Fatalf("test source does not parse: %v", f.Errors[0])
+	p := grammar.Read("test.callouts", []byte(src))
+	if len(p.Problems) > 0 {
+		t.Fatalf("test source does not read: %v", p.Problems[0])
 	}
-	return model.Resolve(f)
+	return p
 }
 
 const kinPart = `units mm
@@ -119,19 +119,19 @@ frame face: total-runout 0.05 datums A
 frame bolts: position dia 0.1 datums A
 frame face: flatness 0.01
 `)
-	orient := ZoneOf(p.Frames[0], p.Frames[0].Upper())
+	orient := ZoneOf(p.Frames[0])
 	if !orient.OrientationOnly || len(orient.Surfaces) != 1 || orient.Surfaces[0].Class != dof.Cylinder {
 		t.Errorf("perpendicularity zone %+v, want an orientation-only cylinder", orient)
 	}
-	run := ZoneOf(p.Frames[1], p.Frames[1].Upper())
+	run := ZoneOf(p.Frames[1])
 	if len(run.Extra) != 1 || run.Extra[0].V != (dof.Vec{0, 0, 1}) || run.OrientationOnly {
 		t.Errorf("runout zone %+v, want a slide along the face's normal", run)
 	}
-	pat := ZoneOf(p.Frames[2], p.Frames[2].Upper())
+	pat := ZoneOf(p.Frames[2])
 	if len(pat.Surfaces) != 2 {
 		t.Errorf("pattern zone has %d surfaces, want one per member", len(pat.Surfaces))
 	}
-	form := ZoneOf(p.Frames[3], p.Frames[3].Upper())
+	form := ZoneOf(p.Frames[3])
 	if form.OrientationOnly || len(form.Extra) != 0 || form.Surfaces[0].Class != dof.Plane {
 		t.Errorf("flatness zone %+v, want the plane itself", form)
 	}
@@ -139,18 +139,18 @@ frame face: flatness 0.01
 
 func TestDOFSharesOneAnalysisPerReferenceList(t *testing.T) {
 	p := resolveSrc(t, kinPart)
-	f := newFacts(p)
-	plain, mmb := f.DOF(p.Frames[0], 0), f.DOF(p.Frames[1], 0)
+	f := Analyze(p)
+	plain, mmb := f.Segment(p.Frames[0], 0), f.Segment(p.Frames[1], 0)
 	if !plain.Resolved || !mmb.Resolved {
 		t.Fatalf("frames did not resolve: %q, %q", plain.Problem, mmb.Problem)
 	}
 	if plain.DRF != mmb.DRF {
 		t.Error("A, C and A, C(M) were analysed twice; MMB constrains the same freedoms")
 	}
-	if f.DOF(p.Frames[0], 0) != plain {
+	if f.Segment(p.Frames[0], 0) != plain {
 		t.Error("DOF is not memoised per segment")
 	}
-	upper := f.DOF(p.Frames[2], 0)
+	upper := f.Segment(p.Frames[2], 0)
 	if upper.DRF != plain.DRF {
 		t.Error("the bolts' A, C was analysed again")
 	}
@@ -162,19 +162,19 @@ func TestDOFSharesOneAnalysisPerReferenceList(t *testing.T) {
 	if n := len(plain.Zone.Free); n != 0 {
 		t.Errorf("hub to A, C: zone moves with %v", plain.Zone.Free)
 	}
-	lower := f.DOF(p.Frames[2], 1)
+	lower := f.Segment(p.Frames[2], 1)
 	if !lower.Resolved || lower.Index != 1 || len(lower.DRF.Free()) != 3 {
 		t.Errorf("composite lower segment to A: %+v", lower)
 	}
-	orient := f.DOF(p.Frames[3], 0)
+	orient := f.Segment(p.Frames[3], 0)
 	if len(orient.Zone.Free) != 0 || orient.Zone.PerStep[0] != 2 {
 		t.Errorf("perpendicularity to A: zone %+v, want 2 turning rotations fixed by A", orient.Zone)
 	}
-	bad := f.DOF(p.Frames[4], 0)
+	bad := f.Segment(p.Frames[4], 0)
 	if bad.Resolved || bad.Problem != "datum X is not declared" {
 		t.Errorf("undefined datum: resolved %v, problem %q", bad.Resolved, bad.Problem)
 	}
-	if out := f.DOF(p.Frames[0], 5); out.Resolved {
+	if out := f.Segment(p.Frames[0], 5); out.Resolved {
 		t.Error("an out-of-range segment resolved")
 	}
 }
@@ -182,10 +182,10 @@ func TestDOFSharesOneAnalysisPerReferenceList(t *testing.T) {
 func BenchmarkDOFFile(b *testing.B) {
 	p := resolveSrc(b, kinPart)
 	for b.Loop() {
-		f := newFacts(p)
+		f := Analyze(p)
 		for _, fr := range p.Frames {
 			for i := range fr.Segments {
-				f.DOF(fr, i)
+				f.Segment(fr, i)
 			}
 		}
 	}

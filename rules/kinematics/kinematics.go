@@ -1,4 +1,9 @@
-package rules
+// Package kinematics connects the part model to the kinematic engine
+// rules/dof: it turns datum features and tolerance zones into invariance
+// classes and analyses each distinct datum reference frame of a part once.
+// Its Result is the one kinematic answer per part that the frame rules, the
+// dof command, the review report and the editor's hover all read.
+package kinematics
 
 import (
 	"encoding/binary"
@@ -10,16 +15,11 @@ import (
 	"github.com/datumlint/datumlint/rules/dof"
 )
 
-// This file connects the part model to the kinematic engine rules/dof: it
-// turns datum features and tolerance zones into invariance classes, and
-// analyses each distinct datum reference frame of a file once. The frame
-// rules (frames_dof.go) and the `datumlint dof` command read its results.
-
-// surfaceClass is the invariance class a feature's nominal geometry
+// SurfaceClass is the invariance class a feature's nominal geometry
 // belongs to: the datum it gives in the contract's feature table, with the
 // classes of ISO 5459:2011 (a width's mid-plane is a plane, a hole's or
 // pin's axis a cylinder, a socket's or ball's centre a sphere).
-func surfaceClass(k model.Kind) dof.Class {
+func SurfaceClass(k model.Kind) dof.Class {
 	switch k {
 	case model.Plane, model.Slot, model.Tab:
 		return dof.Plane
@@ -53,7 +53,7 @@ func targetSurfaces(t *model.Target) []dof.Surface {
 	if !t.Resolved() {
 		return nil
 	}
-	class := surfaceClass(t.Feature.Kind)
+	class := SurfaceClass(t.Feature.Kind)
 	points := t.Points()
 	if len(points) == 0 {
 		return nil
@@ -124,8 +124,10 @@ func RefSurfaces(r *model.DatumRef) dof.Datum {
 // For a pattern every member's surface is listed: the zone framework is
 // invariant only under what leaves all of them unchanged (ASME
 // Y14.5-2018, pattern location).
-func ZoneOf(fr *model.Frame, seg *model.Segment) dof.Zone {
-	_ = seg // every segment of a frame controls the same feature with the same zone shape
+//
+// Every segment of a frame controls the same feature with the same zone
+// shape, so the zone is the frame's.
+func ZoneOf(fr *model.Frame) dof.Zone {
 	surfs := targetSurfaces(&fr.Target)
 	z := dof.Zone{Surfaces: surfs}
 	switch fr.Characteristic.Category() {
@@ -139,8 +141,8 @@ func ZoneOf(fr *model.Frame, seg *model.Segment) dof.Zone {
 	return z
 }
 
-// SegmentDOF is the kinematic analysis of one segment of a frame.
-type SegmentDOF struct {
+// Segment is the kinematic analysis of one segment of a frame.
+type Segment struct {
 	Frame   *model.Frame
 	Segment *model.Segment
 	Index   int // 0: the upper segment; 1… composite lower segments
@@ -155,15 +157,44 @@ type SegmentDOF struct {
 	Problem string
 }
 
-// NewFacts returns the per-file facts for a part, for commands that use the
-// engines without running the rules (the dof command).
-func NewFacts(p *model.Part) *Facts { return newFacts(p) }
+// Result is the kinematic analysis of one part: every frame segment's
+// degrees of freedom and what moves its zone, each distinct datum reference
+// list and each distinct zone analysed once. It is built by Analyze and
+// filled on first use; one goroutine uses it at a time.
+type Result struct {
+	part     *model.Part
+	frame    dof.Frame
+	drfs     map[string]*dof.DRF
+	segments map[segmentKey]*Segment
+	prepared map[string]*dof.PreparedZone
+	results  map[zoneInKey]dof.ZoneResult
+	prefixes map[string]bool
+}
 
-// refsKey identifies a datum reference frame by its references' letters in
+type segmentKey struct {
+	frame *model.Frame
+	index int
+}
+
+// Analyze returns the kinematic result of a part. The engine frame is
+// normalised by the part's extent, so that rank decisions do not depend on
+// units or on where the part sits.
+func Analyze(p *model.Part) *Result {
+	return &Result{
+		part:     p,
+		frame:    dof.Frame{Center: dof.Vec(p.Center), Scale: p.Scale},
+		drfs:     map[string]*dof.DRF{},
+		segments: map[segmentKey]*Segment{},
+		prepared: map[string]*dof.PreparedZone{},
+		results:  map[zoneInKey]dof.ZoneResult{},
+	}
+}
+
+// RefsKey identifies a datum reference frame by its references' letters in
 // order; material modifiers are left out because a reference at MMB or LMB
 // constrains the same freedoms as at RMB (ASME Y14.5-2018, datum feature
 // modifiers change the boundary, not the degrees of freedom removed).
-func refsKey(refs []*model.DatumRef) string {
+func RefsKey(refs []*model.DatumRef) string {
 	parts := make([]string, len(refs))
 	for i, r := range refs {
 		parts[i] = strings.Join(r.Letters, "-")
@@ -171,72 +202,94 @@ func refsKey(refs []*model.DatumRef) string {
 	return strings.Join(parts, ",")
 }
 
-// engineFrame normalises by the part's extent so rank decisions do not
-// depend on units or on where the part sits.
-func (f *Facts) engineFrame() dof.Frame {
-	return dof.Frame{Center: dof.Vec(f.part.Center), Scale: f.part.Scale}
-}
-
-// DRFOf analyses a reference list, once per distinct list per file.
-func (f *Facts) DRFOf(refs []*model.DatumRef) *dof.DRF {
-	return Memo(f, "dof.drf:"+refsKey(refs), func() *dof.DRF {
-		ds := make([]dof.Datum, len(refs))
-		for i, r := range refs {
-			ds[i] = RefSurfaces(r)
-		}
-		return f.engineFrame().Analyze(ds)
-	})
-}
-
-// DOF returns the analysis of segment seg of a frame, memoised.
-func (f *Facts) DOF(fr *model.Frame, seg int) *SegmentDOF {
-	if fr == nil || seg < 0 || seg >= len(fr.Segments) {
-		return &SegmentDOF{Frame: fr, Index: seg, Problem: "no such segment"}
+// DRF analyses a reference list, once per distinct list per part.
+func (r *Result) DRF(refs []*model.DatumRef) *dof.DRF {
+	key := RefsKey(refs)
+	if d, ok := r.drfs[key]; ok {
+		return d
 	}
-	return Memo(f, fmt.Sprintf("dof.seg:%p:%d", fr, seg), func() *SegmentDOF {
-		s := fr.Segments[seg]
-		out := &SegmentDOF{Frame: fr, Segment: s, Index: seg}
-		out.Problem = segmentProblem(fr, s)
-		if out.Problem != "" {
-			return out
-		}
-		out.Resolved = true
-		out.DRF = f.DRFOf(s.Refs)
-		out.Zone = f.zoneIn(out.DRF, ZoneOf(fr, s))
-		return out
-	})
+	ds := make([]dof.Datum, len(refs))
+	for i, ref := range refs {
+		ds[i] = RefSurfaces(ref)
+	}
+	d := r.frame.Analyze(ds)
+	r.drfs[key] = d
+	return d
 }
 
-// zoneIn analyses a zone against a frame once per file for each distinct
+// Segment returns the analysis of segment seg of a frame.
+func (r *Result) Segment(fr *model.Frame, seg int) *Segment {
+	if fr == nil || seg < 0 || seg >= len(fr.Segments) {
+		return &Segment{Frame: fr, Index: seg, Problem: "no such segment"}
+	}
+	k := segmentKey{fr, seg}
+	if out, ok := r.segments[k]; ok {
+		return out
+	}
+	s := fr.Segments[seg]
+	out := &Segment{Frame: fr, Segment: s, Index: seg}
+	out.Problem = segmentProblem(fr, s)
+	if out.Problem == "" {
+		out.Resolved = true
+		out.DRF = r.DRF(s.Refs)
+		out.Zone = r.zoneIn(out.DRF, ZoneOf(fr))
+	}
+	r.segments[k] = out
+	return out
+}
+
+// Segments returns the analysis of every segment of a frame, upper first.
+func (r *Result) Segments(fr *model.Frame) []*Segment {
+	out := make([]*Segment, len(fr.Segments))
+	for i := range fr.Segments {
+		out[i] = r.Segment(fr, i)
+	}
+	return out
+}
+
+// RefPrefixes is the set of every leading part of every segment's
+// reference list ("A", "A,B", "A,B,C" for A, B, C) in RefsKey form, built
+// once per part.
+func (r *Result) RefPrefixes() map[string]bool {
+	if r.prefixes != nil {
+		return r.prefixes
+	}
+	out := map[string]bool{}
+	for _, fr := range r.part.Frames {
+		for _, seg := range fr.Segments {
+			k := RefsKey(seg.Refs)
+			for i := range k {
+				if k[i] == ',' {
+					out[k[:i]] = true
+				}
+			}
+			out[k] = true
+		}
+	}
+	r.prefixes = out
+	return out
+}
+
+// zoneIn analyses a zone against a frame once per part for each distinct
 // pair: the zone's invariance once per distinct zone (the upper and lower
 // segments of a composite frame, several frames on one feature), and the
 // result once per frame and zone. Zones are told apart by what they are
 // (see zoneKey), not by which frame asked. Segments that share a result
-// share its slices; rules only read them.
-func (f *Facts) zoneIn(d *dof.DRF, z dof.Zone) dof.ZoneResult {
-	c := Memo(f, "dof.zones", func() *zoneCache {
-		return &zoneCache{prepared: map[string]*dof.PreparedZone{}, results: map[zoneInKey]dof.ZoneResult{}}
-	})
+// share its slices; readers only read them.
+func (r *Result) zoneIn(d *dof.DRF, z dof.Zone) dof.ZoneResult {
 	key := zoneKey(z)
 	k := zoneInKey{d, key}
-	if r, ok := c.results[k]; ok {
-		return r
+	if res, ok := r.results[k]; ok {
+		return res
 	}
-	pz, ok := c.prepared[key]
+	pz, ok := r.prepared[key]
 	if !ok {
-		pz = f.engineFrame().PrepareZone(z)
-		c.prepared[key] = pz
+		pz = r.frame.PrepareZone(z)
+		r.prepared[key] = pz
 	}
-	r := d.ZoneIn(pz)
-	c.results[k] = r
-	return r
-}
-
-// zoneCache holds a file's prepared zones by zoneKey and their results by
-// frame and zoneKey.
-type zoneCache struct {
-	prepared map[string]*dof.PreparedZone
-	results  map[zoneInKey]dof.ZoneResult
+	res := d.ZoneIn(pz)
+	r.results[k] = res
+	return res
 }
 
 type zoneInKey struct {
@@ -299,4 +352,48 @@ func segmentProblem(fr *model.Frame, s *model.Segment) string {
 		}
 	}
 	return ""
+}
+
+// Step is what one datum reference of a segment newly removes.
+type Step struct {
+	Ref *model.DatumRef
+	// Name is the reference without its material modifier ("A", "A-B").
+	Name       string
+	Constrains int
+	Removed    []dof.Motion
+}
+
+// Steps returns, per datum reference in precedence order, what it newly
+// removes; a segment that did not resolve removes nothing.
+func (s *Segment) Steps() []Step {
+	out := make([]Step, len(s.Segment.Refs))
+	var steps []dof.Step
+	if s.Resolved {
+		steps = s.DRF.Steps()
+	}
+	for k, r := range s.Segment.Refs {
+		out[k] = Step{Ref: r, Name: strings.Join(r.Letters, "-")}
+		if k < len(steps) {
+			out[k].Constrains, out[k].Removed = steps[k].Constrains, steps[k].Removed
+		}
+	}
+	return out
+}
+
+// Free returns a basis of the motions the segment's datums leave free (nil
+// when it did not resolve).
+func (s *Segment) Free() []dof.Motion {
+	if !s.Resolved {
+		return nil
+	}
+	return s.DRF.Free()
+}
+
+// ZoneFree returns a basis of the free motions that move the zone (for an
+// orientation tolerance, that turn it).
+func (s *Segment) ZoneFree() []dof.Motion {
+	if !s.Resolved {
+		return nil
+	}
+	return s.Zone.Free
 }

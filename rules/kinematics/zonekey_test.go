@@ -1,4 +1,4 @@
-package rules
+package kinematics
 
 import (
 	"math"
@@ -7,7 +7,7 @@ import (
 	"github.com/datumlint/datumlint/rules/dof"
 )
 
-// TestZoneKeyTellsZonesApart checks the key Facts shares zone analyses by:
+// TestZoneKeyTellsZonesApart checks the key Result shares zone analyses by:
 // copies of a zone share it, and a zone that differs in anything its
 // analysis reads (one bit of one coordinate included) does not.
 func TestZoneKeyTellsZonesApart(t *testing.T) {

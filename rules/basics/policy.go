@@ -1,0 +1,223 @@
+package basics
+
+import (
+	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/rules/dof"
+	"github.com/datumlint/datumlint/rules/kinematics"
+)
+
+// This file is the policy: which quantities a frame needs fixed by basic
+// dimensions (where false positives come from), and the per-part result
+// the rules read. The solver that answers the questions is in query.go and
+// system.go.
+
+// Analysis is the basic-dimension result of one part: the engine, built
+// once on first use, and each frame segment's missing quantities, asked
+// once. One goroutine uses it at a time.
+type Analysis struct {
+	part       *model.Part
+	kin        *kinematics.Result
+	engine     *Engine
+	toleranced []Toleranced
+	tolDone    bool
+	missing    map[segmentKey]missingResult
+}
+
+type segmentKey struct {
+	frame *model.Frame
+	index int
+}
+
+type missingResult struct {
+	ms []Missing
+	ok bool
+}
+
+// Analyze returns the basic-dimension result of a part, given its
+// kinematic result (which motions each frame's datums leave free).
+func Analyze(part *model.Part, kin *kinematics.Result) *Analysis {
+	return &Analysis{part: part, kin: kin, missing: map[segmentKey]missingResult{}}
+}
+
+// Engine returns the part's engine. A toleranced dimension that locates a
+// feature under position or located profile (basic-toleranced's finding)
+// still counts as locating it, so that one problem is not also reported
+// as a missing basic dimension.
+func (a *Analysis) Engine() *Engine {
+	if a.engine == nil {
+		var counted []*model.Dimension
+		for _, t := range a.Toleranced() {
+			counted = append(counted, t.Dim)
+		}
+		a.engine = Build(a.part, counted)
+	}
+	return a.engine
+}
+
+// Missing returns what segment seg of a frame needs that no basic
+// dimension fixes; ok is false when the frame cannot be analysed (an
+// unresolved name, unknown geometry), which other rules report.
+func (a *Analysis) Missing(fr *model.Frame, seg int) ([]Missing, bool) {
+	k := segmentKey{fr, seg}
+	if r, ok := a.missing[k]; ok {
+		return r.ms, r.ok
+	}
+	r := a.ask(fr, seg)
+	a.missing[k] = r
+	return r.ms, r.ok
+}
+
+func (a *Analysis) ask(fr *model.Frame, seg int) missingResult {
+	if seg >= len(fr.Segments) {
+		return missingResult{}
+	}
+	s := fr.Segments[seg]
+	if ask, _ := Asks(fr, s); !ask {
+		return missingResult{ok: true}
+	}
+	an := a.kin.Segment(fr, seg)
+	if !an.Resolved || an.DRF == nil {
+		return missingResult{}
+	}
+	q, ok := FrameQuery(fr, s, an.DRF)
+	if !ok {
+		return missingResult{}
+	}
+	return missingResult{a.Engine().Missing(q), true}
+}
+
+// Located reports whether a frame's datums and basic dimensions fix the
+// place of its target: no free translation moves its zone, and no basic
+// dimension it needs is missing. modifier-illegal asks it of a planar datum
+// feature referenced at MMB or LMB (ASME Y14.5-2018, datum features at MMB
+// applied to surfaces).
+func (a *Analysis) Located(fr *model.Frame) bool {
+	if an := a.kin.Segment(fr, 0); an.Resolved && an.Zone.TranslationMoves {
+		return false
+	}
+	ms, ok := a.Missing(fr, 0)
+	return !ok || len(ms) == 0
+}
+
+// Toleranced is a toleranced dimension that locates a feature whose place
+// is basic: the feature is under position or located profile (Char).
+type Toleranced struct {
+	Dim     *model.Dimension
+	Feature *model.Feature
+	Char    model.Characteristic
+}
+
+// Toleranced returns the toleranced dimensions that locate a feature under
+// position or located profile, in file order.
+func (a *Analysis) Toleranced() []Toleranced {
+	if a.tolDone {
+		return a.toleranced
+	}
+	a.tolDone = true
+	for _, d := range a.part.Dims {
+		if d.Basic || d.Circle != nil {
+			continue
+		}
+		for _, t := range []*model.Target{&d.To, &d.From} {
+			if !t.Resolved() || t.Feature.Broken {
+				continue
+			}
+			if c, ok := locatedBy(a.part, t.Feature); ok {
+				a.toleranced = append(a.toleranced, Toleranced{d, t.Feature, c})
+				break
+			}
+		}
+	}
+	return a.toleranced
+}
+
+// locatedBy returns the characteristic of the first frame that places a
+// feature at a true position (Frame.Located).
+func locatedBy(part *model.Part, f *model.Feature) (model.Characteristic, bool) {
+	for _, fr := range part.FramesOn(f) {
+		if fr.Located() {
+			return fr.Characteristic, true
+		}
+	}
+	return "", false
+}
+
+// Asks says what a frame's characteristic asks of basic dimensions for
+// one of its segments: the location and orientation of its zone (position;
+// profile with datums, ASME Y14.5-2018 and ISO 1101:2017, profile located
+// by basic dimensions), or only its orientation (angularity: the basic
+// angle, ASME Y14.5-2018, angularity). Perpendicularity and parallelism
+// carry their angle in their symbol, form floats, and runout is located by
+// the datum axis it turns about, so they ask nothing. Nor does a free-form
+// surface: the notation gives it at most a reference point, and its true
+// profile and place are the model's own (ASME Y14.41-2019, model values are
+// basic), so there is no distance to write.
+func Asks(fr *model.Frame, seg *model.Segment) (ask, orientation bool) {
+	switch {
+	case fr.Target.Resolved() && fr.Target.Feature.Kind == model.Surface:
+		return false, false
+	case fr.Located():
+		// A composite lower segment of a profile without datums refines
+		// form and orientation only.
+		return fr.Characteristic == model.Position || len(seg.Refs) > 0, false
+	case fr.Characteristic == model.Angularity:
+		return len(seg.Refs) > 0, true
+	}
+	return false, false
+}
+
+// FrameQuery builds the query for one segment of a frame from the
+// kinematic engine's analysis of its datum reference frame. ok is false
+// when a reference names no datum with a target.
+func FrameQuery(fr *model.Frame, seg *model.Segment, drf *dof.DRF) (q Query, ok bool) {
+	_, q.Orientation = Asks(fr, seg)
+	q.Target = fr.Target
+	for _, r := range seg.Refs {
+		var ms []*model.Member
+		for _, d := range r.Datums {
+			if d == nil || !d.Target.Resolved() {
+				return q, false
+			}
+			if d.Target.Member != nil {
+				ms = append(ms, d.Target.Member)
+			} else {
+				ms = append(ms, d.Target.Feature.Members...)
+			}
+		}
+		if w := medianOf(r); w != nil {
+			ms = append(ms, w.Members...)
+		}
+		q.Refs = append(q.Refs, ms)
+	}
+	steps := drf.Steps()
+	if len(steps) != len(q.Refs) {
+		return q, false
+	}
+	for _, st := range steps {
+		var ts []dof.Twist
+		for _, m := range st.Free {
+			ts = append(ts, m.Twist)
+		}
+		q.Free = append(q.Free, ts)
+	}
+	return q, true
+}
+
+// medianOf returns the width whose two faces a common datum's two
+// references are: two opposed parallel planes used as one datum establish
+// their median plane (ISO 5459:2011, common datum of two parallel planes),
+// which is that width's mid-plane; nil otherwise.
+func medianOf(r *model.DatumRef) *model.Feature {
+	if len(r.Datums) != 2 {
+		return nil
+	}
+	a, b := r.Datums[0], r.Datums[1]
+	if a == nil || b == nil || a.Target.Feature == nil || b.Target.Feature == nil {
+		return nil
+	}
+	w := a.Target.Feature.FaceOf
+	if w == nil || w != b.Target.Feature.FaceOf || a.Target.Feature == b.Target.Feature || w.Broken || !w.HasGeometry {
+		return nil
+	}
+	return w
+}
