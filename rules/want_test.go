@@ -11,6 +11,7 @@ import (
 	"github.com/datumlint/datumlint/grammar"
 
 	"github.com/datumlint/datumlint/rules"
+	"github.com/datumlint/datumlint/rules/lint"
 )
 
 // want is one expected finding, written in a test file as a trailing
@@ -163,12 +164,35 @@ func TestRegistry(t *testing.T) {
 			if n := count(r.ID, exampleFile(r.Good)); n != 0 {
 				t.Errorf("good example triggers %s %d times:\n%s", r.ID, n, r.Good)
 			}
+			if isQIF(r.Bad) != isQIF(r.Good) {
+				t.Errorf("one example is a QIF document and the other is not")
+			}
+			if isQIF(r.Good) {
+				for _, d := range rules.Check(lint.Read(exampleName(r.Good), []byte(r.Good)), nil) {
+					t.Errorf("the good QIF example has a finding: %s %s: %s", d.Span.Start, d.Rule, d.Message)
+				}
+			}
 		})
 	}
 }
 
-// exampleFile wraps an example in a header unless it has one of its own.
+// isQIF reports whether an example is a QIF document (a rule about QIF
+// documents as such shows one), which is read as a .qif file.
+func isQIF(ex string) bool { return strings.HasPrefix(strings.TrimSpace(ex), "<") }
+
+func exampleName(ex string) string {
+	if isQIF(ex) {
+		return "example.qif"
+	}
+	return "example.callouts"
+}
+
+// exampleFile wraps an example in a header unless it has one of its own
+// (or is a QIF document).
 func exampleFile(ex string) string {
+	if isQIF(ex) {
+		return ex
+	}
 	for _, l := range strings.Split(ex, "\n") {
 		w := strings.Fields(l)
 		if len(w) > 0 && (w[0] == "units" || w[0] == "standard" || w[0] == "part") {
@@ -180,7 +204,7 @@ func exampleFile(ex string) string {
 
 func count(rule, src string) int {
 	n := 0
-	for _, d := range rules.Check(grammar.Read("example.callouts", []byte(src)), nil) {
+	for _, d := range rules.Check(lint.Read(exampleName(src), []byte(src)), nil) {
 		if d.Rule == rule && !d.Suppressed {
 			n++
 		}
