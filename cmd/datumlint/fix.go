@@ -48,6 +48,13 @@ func runFixes(stdout, stderr io.Writer, f fixFlags, args []string, cfg *configSe
 			part := lint.Read(name, src)
 			return rules.Check(part, settings), part.Source
 		}
+		if !lint.Editable(path) {
+			// Fixes are lines of the notation: a QIF file is never written.
+			if ds, _ := check(path, src); hasFixes(ds) {
+				fmt.Fprintf(stderr, "datumlint: %s: not fixed: datumlint never rewrites a QIF file (its fixes are written in the notation; `datumlint import` writes the part as a .callouts file to work on)\n", path)
+			}
+			continue
+		}
 		var canon func([]byte) ([]byte, bool)
 		if lint.ReaderFor(path) == nil || strings.EqualFold(filepath.Ext(path), lint.Ext) {
 			canon = canonical
@@ -86,6 +93,15 @@ func canonical(src []byte) ([]byte, bool) {
 	}
 	out, err := grammar.Format(f)
 	return out, err == nil
+}
+
+func hasFixes(ds []rules.Diagnostic) bool {
+	for _, d := range ds {
+		if len(d.Fixes) > 0 {
+			return true
+		}
+	}
+	return false
 }
 
 func plural(n int, one, many string) string {

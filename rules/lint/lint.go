@@ -18,6 +18,7 @@ import (
 
 	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/grammar/qif"
 	"github.com/datumlint/datumlint/grammar/source"
 	"github.com/datumlint/datumlint/rules"
 )
@@ -29,25 +30,58 @@ const Ext = ".callouts"
 // cannot read is recorded in the part's Problems.
 type Reader func(name string, src []byte) *model.Part
 
+// QIFExt is the extension of QIF documents.
+const QIFExt = ".qif"
+
 // readers chooses a reader by file extension (compared in any case), as
-// cmd/shfmt chooses a language by file name.
+// cmd/shfmt chooses a language by file name. what names the files in
+// messages; notation is true for the reader whose files the rules' fixes
+// are written for (their edits are lines of the notation): a finding on a
+// file of another format carries no fixes, and check --fix never writes
+// one.
 var readers = []struct {
-	ext  string
-	read Reader
+	ext      string
+	what     string
+	read     Reader
+	notation bool
 }{
-	{Ext, grammar.Read},
+	{Ext, "a callouts file", grammar.Read, true},
+	{QIFExt, "a QIF file", qif.Read, false},
+}
+
+func readerOf(name string) int {
+	ext := strings.ToLower(filepath.Ext(name))
+	for i, r := range readers {
+		if r.ext == ext {
+			return i
+		}
+	}
+	return -1
 }
 
 // ReaderFor returns the reader for a file name, or nil when no reader
 // knows its extension.
 func ReaderFor(name string) Reader {
-	ext := strings.ToLower(filepath.Ext(name))
-	for _, r := range readers {
-		if r.ext == ext {
-			return r.read
-		}
+	if i := readerOf(name); i >= 0 {
+		return readers[i].read
 	}
 	return nil
+}
+
+// Editable reports whether the rules' fixes apply to a file: it is read as
+// the notation (a .callouts file, or a name no reader knows). A QIF file is
+// not: fixes are lines of the notation, and datumlint never writes one.
+func Editable(name string) bool {
+	i := readerOf(name)
+	return i < 0 || readers[i].notation
+}
+
+// like names what a folder's name makes it look like ("a QIF file").
+func like(name string) string {
+	if i := readerOf(name); i >= 0 {
+		return readers[i].what
+	}
+	return "a file"
 }
 
 // Read reads a file's source into the part model with the reader its
@@ -172,7 +206,7 @@ func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError)
 		if info.IsDir() && namedLikeFile(filepath.Clean(root)) {
 			// Named like a file but a folder: report it (exit 2), and
 			// still check what is inside.
-			errs = append(errs, &PathError{root, errors.New("a folder named like a callouts file; the .callouts files inside it are checked")})
+			errs = append(errs, &PathError{root, fmt.Errorf("a folder named like %s; the files inside it are checked", like(root))})
 		}
 		if !info.IsDir() {
 			if !info.Mode().IsRegular() {
@@ -197,7 +231,7 @@ func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError)
 				if p != root && namedLikeFile(d.Name()) {
 					// Likely a mistake (an export that made a folder per part);
 					// say so, and still check the files inside.
-					errs = append(errs, &PathError{p, errors.New("a folder named like a callouts file; the .callouts files inside it are checked")})
+					errs = append(errs, &PathError{p, fmt.Errorf("a folder named like %s; the files inside it are checked", like(d.Name()))})
 				}
 				return nil
 			}
@@ -211,7 +245,7 @@ func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError)
 					return nil
 				}
 				if st.IsDir() {
-					errs = append(errs, &PathError{p, errors.New("a folder named like a callouts file (symbolic link); not followed")})
+					errs = append(errs, &PathError{p, fmt.Errorf("a folder named like %s (symbolic link); not followed", like(d.Name()))})
 					return nil
 				}
 			}
@@ -318,6 +352,11 @@ func CheckPath(path string, opt Options, max int64) (*File, *PathError) {
 func CheckSource(f *File, src []byte, settings *rules.Settings, keep bool) {
 	part := Read(f.Path, src)
 	f.Diagnostics = rules.Check(part, settings)
+	if !Editable(f.Path) {
+		for i := range f.Diagnostics {
+			f.Diagnostics[i].Fixes = nil
+		}
+	}
 	if keep || len(f.Diagnostics) > 0 {
 		f.Source, f.Statements = part.Source, part.Statements
 	}
