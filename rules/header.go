@@ -42,6 +42,9 @@ Y14.5-2018. A drawing states both in its title block; the callout file must too.
 	Bad:    "part \"Bracket BR-7\"\nunits mm",
 	Good:   "part \"Bracket BR-7\"\nunits mm\nstandard asme-2018",
 	Run: func(p *Pass) {
+		if len(p.Part.Statements) == 0 && len(p.Part.Problems) > 0 {
+			return // nothing was read (a QIF document the reader refused): the syntax finding says why
+		}
 		has := map[string]bool{}
 		for _, h := range p.Part.Headers {
 			has[h.Keyword] = true
