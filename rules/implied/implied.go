@@ -1,0 +1,61 @@
+// Package implied adds to a part the basic dimensions its nominal geometry
+// implies, for a model-based definition: in a model, every nominal location
+// and angle is basic (ASME Y14.41-2019, model values are basic, from
+// memory), so a frame asks for no basic dimension a drawing would need.
+//
+// The QIF reader's parts are read this way (rules/lint), and the importer
+// writes the same dimensions as `basic` lines, so that a QIF document and
+// its import give the same findings. It stands in for the notation's model
+// basis statement (issue 13), under which basic-missing itself will have
+// nothing to ask of a model; this package goes when that lands.
+package implied
+
+import (
+	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/rules/basics"
+	"github.com/datumlint/datumlint/rules/kinematics"
+)
+
+// rounds bounds how often the frames are asked again after dimensions were
+// added (one round settles every part seen; a second catches a quantity
+// that the first round's dimensions name differently).
+const rounds = 3
+
+// Basics appends to p.Dims, for every segment of every frame, the basic
+// dimensions that the basic-dimension engine finds missing, each with its
+// nominal value from the model (the dimension basic-missing suggests),
+// placed at the frame's characteristic. It returns the dimensions added, in
+// the order added. Quantities for which no dimension can be written (no
+// suggestion) are left for basic-missing to report.
+func Basics(p *model.Part) []*model.Dimension {
+	var added []*model.Dimension
+	seen := map[string]bool{}
+	for round := 0; round < rounds; round++ {
+		an := basics.Analyze(p, kinematics.Analyze(p))
+		var fresh []*model.Dimension
+		for _, fr := range p.Frames {
+			for i := range fr.Segments {
+				ms, ok := an.Missing(fr, i)
+				if !ok {
+					continue
+				}
+				for _, m := range ms {
+					if m.Suggest == "" || seen[m.Suggest] {
+						continue
+					}
+					seen[m.Suggest] = true
+					if d, err := grammar.ReadDimension(p, m.Suggest, fr.CharSpan); err == nil {
+						fresh = append(fresh, d)
+					}
+				}
+			}
+		}
+		if len(fresh) == 0 {
+			break
+		}
+		p.Dims = append(p.Dims, fresh...)
+		added = append(added, fresh...)
+	}
+	return added
+}
