@@ -118,17 +118,36 @@ func (a *Analysis) Toleranced() []Toleranced {
 		if d.Basic || d.Circle != nil {
 			continue
 		}
-		for _, t := range []*model.Target{&d.To, &d.From} {
+		ends := [2]*model.Target{&d.To, &d.From}
+		for i, t := range ends {
 			if !t.Resolved() || t.Feature.Broken {
 				continue
 			}
-			if c, ok := locatedBy(a.part, t.Feature); ok {
-				a.toleranced = append(a.toleranced, Toleranced{d, t.Feature, c})
-				break
+			c, ok := locatedBy(a.part, t.Feature)
+			if !ok {
+				continue
 			}
+			if other := ends[1-i]; isDatumFeature(a.part, t) && other.Resolved() && !isDatumFeature(a.part, other) {
+				if _, also := locatedBy(a.part, other.Feature); !also {
+					// A toleranced dimension from a datum feature to a
+					// feature nothing else locates locates that feature
+					// from the datum feature; the datum feature's own
+					// place is its frame's (ASME Y14.5-2018, dimensioning
+					// from a datum feature, from memory).
+					continue
+				}
+			}
+			a.toleranced = append(a.toleranced, Toleranced{d, t.Feature, c})
+			break
 		}
 	}
 	return a.toleranced
+}
+
+// isDatumFeature reports whether a datum feature symbol is on the target's
+// feature.
+func isDatumFeature(part *model.Part, t *model.Target) bool {
+	return t.Resolved() && len(part.DatumsOn(t.Feature)) > 0
 }
 
 // locatedBy returns the characteristic of the first frame that places a
