@@ -410,10 +410,8 @@ func (m *mapper) setSize(c *CharNominal, def *CharDef, t tgt) {
 	}
 	if f.Size != nil && c.TargetValue != nil {
 		tol := 1e-6 * math.Max(1, math.Abs(s.Nominal))
-		if p := c.TargetValue.Places; p >= 0 {
-			if x, ok := m.u.length(&Value{V: 0.5 * math.Pow(10, -float64(p)), Unit: c.TargetValue.Unit}, true); ok {
-				tol = math.Max(tol, x*(1+1e-9))
-			}
+		if x, ok := m.halfUnit(c.TargetValue, false); ok {
+			tol = math.Max(tol, x)
 		}
 		if math.Abs(f.Size.Nominal-s.Nominal) > tol {
 			m.note(Inconsistent, c.TargetValue.Span, "%s gives %s the size %s, but its feature definition says %.6g %s: the characteristic's size is read",
@@ -487,15 +485,66 @@ func (m *mapper) dimensions(c *CharNominal, def *CharDef) {
 		along = &u
 	}
 	for _, p := range pairs {
-		d := &model.Dimension{Basic: basic, Angle: angular, Value: value, ValueSpan: c.TargetValue.Span,
+		v := m.unrounded(c.TargetValue, value, p, along, angular)
+		d := &model.Dimension{Basic: basic, Angle: angular, Value: v, ValueSpan: c.TargetValue.Span, ValueText: c.TargetValue.Text,
 			From: p[0].target(), To: p[1].target(), Along: along, Span: c.Span}
 		if tol != nil {
 			t := *tol
+			t.Nominal = v
 			d.Tol = &t
 		}
 		m.addDim(d, c.ID)
 	}
 	m.checkDisplay(c, def)
+}
+
+// unrounded is a dimension's value between two features: the model's
+// nominal where the value is that nominal rounded to the decimal places
+// the document says it is given in (0.56 with decimalPlaces 2 for a
+// nominal 0.5625), else the value as written. In a model-based definition
+// the model's value is the basic one and the value shown is rounded for
+// display (ASME Y14.41-2019, model values and their display precision,
+// from memory), so a rounded display is no disagreement with the model.
+func (m *mapper) unrounded(tv *Value, value float64, p [2]tgt, along *model.Vec, angular bool) float64 {
+	half, ok := m.halfUnit(tv, angular)
+	if !ok || along != nil {
+		return value
+	}
+	if angular {
+		a, b := p[0].f, p[1].f
+		if !a.HasGeometry || !b.HasGeometry || a.Dir.Norm() == 0 || b.Dir.Norm() == 0 {
+			return value
+		}
+		nom := model.AngleBetweenLines(a.Dir, b.Dir)
+		for _, x := range []float64{nom, 180 - nom} {
+			if math.Abs(x-value) <= half {
+				return tidy(x)
+			}
+		}
+		return value
+	}
+	nom, ok := distance(placeOf(p[0]), placeOf(p[1]))
+	if ok && math.Abs(nom-math.Abs(value)) <= half {
+		return tidy(math.Copysign(nom, value))
+	}
+	return value
+}
+
+// halfUnit is half a unit of the last decimal place a value is given in
+// (decimalPlaces), in the model's units; false where it gives none.
+func (m *mapper) halfUnit(v *Value, angular bool) (float64, bool) {
+	if v == nil || v.Places < 0 {
+		return 0, false
+	}
+	q := &Value{V: 0.5 * math.Pow(10, -float64(v.Places)), Unit: v.Unit, Places: -1, Span: v.Span}
+	var x float64
+	var ok bool
+	if angular {
+		x, ok = m.u.angle(q, true)
+	} else {
+		x, ok = m.u.length(q, true)
+	}
+	return x * (1 + 1e-9), ok
 }
 
 func wordText(w *Word) string {
@@ -587,18 +636,8 @@ func (m *mapper) pairs(c *CharNominal, value float64, angular bool) ([][2]tgt, b
 		return distance(placeOf(a), placeOf(b))
 	}
 	tol := 1e-6 * math.Max(1, math.Abs(value))
-	if p := c.TargetValue.Places; p >= 0 {
-		q := &Value{V: 0.5 * math.Pow(10, -float64(p)), Unit: c.TargetValue.Unit}
-		var x float64
-		var ok bool
-		if angular {
-			x, ok = m.u.angle(q, true)
-		} else {
-			x, ok = m.u.length(q, true)
-		}
-		if ok {
-			tol = math.Max(tol, x*(1+1e-9))
-		}
+	if x, ok := m.halfUnit(c.TargetValue, angular); ok {
+		tol = math.Max(tol, x)
 	}
 	at := func(a, b tgt) bool {
 		d, ok := measure(a, b)

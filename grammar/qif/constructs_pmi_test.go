@@ -449,3 +449,33 @@ func init() {
 		}},
 	)
 }
+
+// A basic distance shown rounded: 0.56 with two decimal places for faces
+// 0.5625 apart reads as the model's 0.5625 (the written text is kept); 0.57
+// with two decimals is no rounding of it and stays as written, and 0.56
+// with three decimals (0.560) is not either.
+var roundedDoc = qdoc{
+	units: unitsMMInch,
+	fdefs: planeDef(40),
+	fnoms: plane(50, 40, "lower", "0 0 0", "0 0 -1") + plane(51, 40, "upper", "0 0 14.2875", "0 0 1"),
+	cdefs: basicDef("DistanceBetween", 60),
+	cnoms: nominal("DistanceBetween", 70, 60, `<TargetValue decimalPlaces="2">0.56</TargetValue><AnalysisMode>THREEDIMENSIONAL</AnalysisMode>`, 50, 51) +
+		nominal("DistanceBetween", 71, 60, `<TargetValue decimalPlaces="2">0.57</TargetValue><AnalysisMode>THREEDIMENSIONAL</AnalysisMode>`, 50, 51) +
+		nominal("DistanceBetween", 72, 60, `<TargetValue decimalPlaces="3">0.560</TargetValue><AnalysisMode>THREEDIMENSIONAL</AnalysisMode>`, 50, 51),
+}
+
+func init() {
+	constructs = append(constructs, construct{name: "rounded", doc: roundedDoc, check: func(t *testing.T, res *Result, src string) {
+		wantNotes(t, res)
+		ds := res.Part.Dims
+		if len(ds) != 3 {
+			t.Fatalf("%d dimensions", len(ds))
+		}
+		if ds[0].Value != 0.5625 || ds[0].ValueText != "0.56" {
+			t.Errorf("0.56 of 0.5625 read as %v (%q)", ds[0].Value, ds[0].ValueText)
+		}
+		if ds[1].Value != 0.57 || ds[2].Value != 0.56 {
+			t.Errorf("0.57 and 0.560 read as %v and %v", ds[1].Value, ds[2].Value)
+		}
+	}})
+}
