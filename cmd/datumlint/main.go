@@ -28,8 +28,8 @@ func newRoot(stdout, stderr io.Writer) *cobra.Command {
 		Use:   "datumlint",
 		Short: "Check the geometric tolerancing of a part before the drawing is released",
 		Long: `datumlint reads .callouts files (feature control frames, datum feature symbols and basic
-dimensions in a plain-text notation), builds a model of the part's nominal geometry and
-checks it against ASME Y14.5 or ISO GPS practice.
+dimensions in a plain-text notation) and QIF 3 documents (.qif, model-based definitions), builds
+a model of the part's nominal geometry and checks it against ASME Y14.5 or ISO GPS practice.
 
 datumlint advises; it does not certify. The governing standard edition, the drawing's own
 notes, local codes and qualified engineering judgement decide.`,
@@ -39,7 +39,7 @@ notes, local codes and qualified engineering judgement decide.`,
 	}
 	root.SetOut(stdout)
 	root.SetErr(stderr)
-	root.AddCommand(newCheckCmd(), newDofCmd(), newFmtCmd(), newRulesCmd(), newExplainCmd())
+	root.AddCommand(newCheckCmd(), newDofCmd(), newFmtCmd(), newImportCmd(), newRulesCmd(), newExplainCmd())
 	return root
 }
 

@@ -161,7 +161,17 @@ func (u *units) pointScaled(p *Vec3, scale float64) (model.Vec, bool) {
 		return model.Vec{}, false
 	}
 	v := p.V.Scale(f / u.toSI / scale)
-	return model.Vec{tidy(v[0]), tidy(v[1]), tidy(v[2])}, true
+	return model.Vec{snap(v[0]), snap(v[1]), snap(v[2])}, true
+}
+
+// snap tidies a coordinate and makes one below a nanometre (or a billionth
+// of an inch) zero: CAD systems write a coordinate meant to be zero as
+// 4e-15, the rounding of their arithmetic.
+func snap(x float64) float64 {
+	if math.Abs(x) < 1e-9 {
+		return 0
+	}
+	return tidy(x)
 }
 
 // decimals are the decimal places a point of the Features section says its

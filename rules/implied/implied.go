@@ -22,18 +22,24 @@ import (
 // that the first round's dimensions name differently).
 const rounds = 3
 
+// Implied is a basic dimension added for a frame.
+type Implied struct {
+	Dim   *model.Dimension
+	Frame *model.Frame
+}
+
 // Basics appends to p.Dims, for every segment of every frame, the basic
 // dimensions that the basic-dimension engine finds missing, each with its
 // nominal value from the model (the dimension basic-missing suggests),
 // placed at the frame's characteristic. It returns the dimensions added, in
 // the order added. Quantities for which no dimension can be written (no
 // suggestion) are left for basic-missing to report.
-func Basics(p *model.Part) []*model.Dimension {
-	var added []*model.Dimension
+func Basics(p *model.Part) []Implied {
+	var added []Implied
 	seen := map[string]bool{}
 	for round := 0; round < rounds; round++ {
 		an := basics.Analyze(p, kinematics.Analyze(p))
-		var fresh []*model.Dimension
+		var fresh []Implied
 		for _, fr := range p.Frames {
 			for i := range fr.Segments {
 				ms, ok := an.Missing(fr, i)
@@ -46,7 +52,7 @@ func Basics(p *model.Part) []*model.Dimension {
 					}
 					seen[m.Suggest] = true
 					if d, err := grammar.ReadDimension(p, m.Suggest, fr.CharSpan); err == nil {
-						fresh = append(fresh, d)
+						fresh = append(fresh, Implied{d, fr})
 					}
 				}
 			}
@@ -54,7 +60,9 @@ func Basics(p *model.Part) []*model.Dimension {
 		if len(fresh) == 0 {
 			break
 		}
-		p.Dims = append(p.Dims, fresh...)
+		for _, x := range fresh {
+			p.Dims = append(p.Dims, x.Dim)
+		}
 		added = append(added, fresh...)
 	}
 	return added

@@ -86,6 +86,9 @@ func Editable(name string) bool {
 	return i < 0 || readers[i].notation
 }
 
+// IsQIF reports whether a file is read as a QIF document.
+func IsQIF(name string) bool { return strings.EqualFold(filepath.Ext(name), QIFExt) }
+
 // like names what a folder's name makes it look like ("a QIF file").
 func like(name string) string {
 	if i := readerOf(name); i >= 0 {
