@@ -29,9 +29,10 @@ func newCheckCmd() *cobra.Command {
 	cmd := &cobra.Command{
 		Use:   "check [PATH ...]",
 		Short: "Check .callouts files and folders (folders are walked for *.callouts)",
-		Long: `Check .callouts files and folders. Exit 0: no finding at or above the failing severity;
-1: findings; 2: a usage error or a path that could not be read (the other paths are still
-checked). With no PATH, the current folder is checked.`,
+		Long: `Check .callouts files, QIF 3 documents (.qif, in any case) and folders of them. Exit 0: no
+finding at or above the failing severity; 1: findings; 2: a usage error or a path that could
+not be read (the other paths are still checked). With no PATH, the current folder is checked.
+Findings on a QIF file point at its XML elements and carry no fixes; --fix never writes one.`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			return runCheck(cmd, f, args)
 		},

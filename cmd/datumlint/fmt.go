@@ -29,7 +29,7 @@ func newFmtCmd() *cobra.Command {
 on their own lines, indented), ASCII spellings, single spaces, the name and value columns of a
 block aligned, comments where they were. Formatting never changes a file's findings.
 
-Folders are walked for *.callouts; with no PATH the current folder is used, and "-" reads
+Folders are walked for *.callouts (QIF files are left alone); with no PATH the current folder is used, and "-" reads
 standard input. For one file, stdout is exactly its canonical text; for several, each is
 preceded by a line "==> PATH <==" and followed by a blank line.
 
@@ -100,7 +100,19 @@ func runFmt(stdout, stderr io.Writer, stdin io.Reader, f *fmtFlags, args []strin
 			fmt.Fprintf(stderr, "datumlint: %s\n", e)
 			fail(2)
 		}
+		named := map[string]bool{}
+		for _, p := range paths {
+			named[filepath.Clean(p)] = true
+		}
 		for _, p := range files {
+			if !lint.Editable(p) {
+				// fmt lays out the notation; a QIF file is never rewritten.
+				if named[filepath.Clean(p)] {
+					fmt.Fprintf(stderr, "datumlint: %s: a QIF document, not a callouts file: fmt lays out the notation (datumlint import writes a QIF document's part in it)\n", p)
+					fail(2)
+				}
+				continue
+			}
 			src, err := readCallouts(p)
 			if err != nil {
 				fmt.Fprintf(stderr, "datumlint: %s: %v\n", p, err)
