@@ -28,7 +28,7 @@ func newCheckCmd() *cobra.Command {
 	f := &checkFlags{}
 	cmd := &cobra.Command{
 		Use:   "check [PATH ...]",
-		Short: "Check .callouts files and folders (folders are walked for *.callouts)",
+		Short: "Check .callouts and .qif files and folders (folders are walked for both)",
 		Long: `Check .callouts files, QIF 3 documents (.qif, in any case) and folders of them. Exit 0: no
 finding at or above the failing severity; 1: findings; 2: a usage error or a path that could
 not be read (the other paths are still checked). With no PATH, the current folder is checked.
