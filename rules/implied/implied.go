@@ -37,15 +37,19 @@ type Implied struct {
 func Basics(p *model.Part) []Implied {
 	var added []Implied
 	seen := map[string]bool{}
-	for round := 0; round < rounds; round++ {
+	ask := p.Frames // after the first round, only the frames that still asked
+	for round := 0; round < rounds && len(ask) > 0; round++ {
 		an := basics.Analyze(p, kinematics.Analyze(p))
 		var fresh []Implied
-		for _, fr := range p.Frames {
+		var again []*model.Frame
+		for _, fr := range ask {
+			asked := false
 			for i := range fr.Segments {
 				ms, ok := an.Missing(fr, i)
 				if !ok {
 					continue
 				}
+				asked = asked || len(ms) > 0
 				for _, m := range ms {
 					if m.Suggest == "" || seen[m.Suggest] {
 						continue
@@ -56,7 +60,11 @@ func Basics(p *model.Part) []Implied {
 					}
 				}
 			}
+			if asked {
+				again = append(again, fr)
+			}
 		}
+		ask = again
 		if len(fresh) == 0 {
 			break
 		}
