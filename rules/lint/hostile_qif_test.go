@@ -34,7 +34,7 @@ func TestHostileQIFFiles(t *testing.T) {
 		"billion laughs": {`<?xml version="1.0"?>
 <!DOCTYPE QIFDocument [<!ENTITY a "aaaaaaaaaa"><!ENTITY b "&a;&a;&a;&a;&a;&a;&a;&a;&a;&a;"><!ENTITY c "&b;&b;&b;&b;&b;&b;&b;&b;&b;&b;">]>
 ` + qifRoot + "<QPId>&c;</QPId></QIFDocument>", rules.Syntax.ID, 2},
-		"external entity": {`<!DOCTYPE QIFDocument SYSTEM "file:///etc/passwd">` + qifRoot + "</QIFDocument>", rules.Syntax.ID, 1},
+		"external entity":   {`<!DOCTYPE QIFDocument SYSTEM "file:///etc/passwd">` + qifRoot + "</QIFDocument>", rules.Syntax.ID, 1},
 		"undeclared entity": {qifRoot + "\n<QPId>&x;</QPId></QIFDocument>", rules.Syntax.ID, 2},
 		"deep nesting":      {qifRoot + "\n" + strings.Repeat("<Features>", 100000) + strings.Repeat("</Features>", 100000) + "</QIFDocument>", rules.Syntax.ID, 2},
 		"not XML":           {"part \"Bracket\"\nunits mm\n", rules.Syntax.ID, 1},
