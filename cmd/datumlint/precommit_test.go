@@ -81,7 +81,13 @@ func TestPreCommitHooks(t *testing.T) {
 		t.Fatalf("git init: %v\n%s", err, out)
 	}
 	bad := strings.Replace(precommitClean, "datums A", "datums B", 1)
-	files := map[string]string{"clean.callouts": precommitClean, "bad.callouts": bad}
+	example, err := os.ReadFile(filepath.Join(root, "testdata", "examples", "bearing-flange.qif"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	files := map[string]string{"clean.callouts": precommitClean, "bad.callouts": bad,
+		// a QIF document, named in upper case, that is not QIF 3
+		"PLATE.QIF": strings.Replace(string(example), `versionQIF="3.0.0"`, `versionQIF="2.0.0"`, 1)}
 	for name, src := range files {
 		if err := os.WriteFile(filepath.Join(repo, name), []byte(src), 0o644); err != nil {
 			t.Fatal(err)
@@ -108,6 +114,10 @@ func TestPreCommitHooks(t *testing.T) {
 		}
 		if !strings.Contains(out, "datum-undefined") || !strings.Contains(out, "bad.callouts:11:") {
 			t.Errorf("the failure does not show the datum-undefined finding on line 11:\n%s", out)
+		}
+		out, err = try(t, hook, "PLATE.QIF")
+		if err == nil || !strings.Contains(out, "PLATE.QIF:7:1: error syntax: QIF version 2.0.0") {
+			t.Errorf("the hook does not check a QIF file (%v):\n%s", err, out)
 		}
 	}
 

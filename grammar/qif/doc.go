@@ -16,9 +16,19 @@
 // characteristic, datum definition, datum reference frame or feature
 // nominal it is about.
 //
-// Map builds a model.Part from a Document, with Notes on what the model
-// cannot carry and Origins that give each model element's QIF ids. Read
-// does both.
+// Map builds a model.Part from a Document, with problems on what the model
+// cannot carry and Origins that give each model element's QIF ids.
+// ReadFile does both; Read is the reader rules/lint chooses for .qif files,
+// and records a refused document as one syntax problem.
+//
+// The part's Statements are the elements a finding can be about (the
+// root's start tag, FileUnits, each standard, datum definition, target and
+// reference frame, feature definition, nominal and item, characteristic
+// definition, nominal and item, the part and its PMI displays), each with
+// its lines and a stable text (its element name and id) that SARIF
+// fingerprints hash; Headers are the part's name, units and standard in
+// file order; Member.Decimals are the decimal places a point says it has
+// (decimalPlaces, xDecimalPlaces ...) where it is read unconverted, else -1.
 //
 // # Refused documents and limits
 //
@@ -130,12 +140,12 @@
 // other is at the value from, or consecutive pairs. Reference dimensions
 // are left out with a note until the model has them.
 //
-// # Notes
+// # Problems
 //
 // Nothing the model cannot carry is dropped silently: every such thing is a
-// Note on the element it is written in. Unsupported notes say what the
-// model does not hold yet (proposed rule qif-unsupported, info);
-// Inconsistent notes say where the document contradicts itself or is
-// incomplete (proposed rule qif-inconsistent, warning). A refused document
-// (an *Error) would be a finding of its own (proposed: qif-unreadable).
+// problem on the element it is written in. model.Unsupported problems say
+// what the model does not hold yet (the rule qif-unsupported, info);
+// model.Inconsistent ones say where the document contradicts itself or is
+// incomplete (qif-inconsistent, warning). A refused document (an *Error
+// from ReadFile) is a model.Syntax problem (the rule syntax).
 package qif
