@@ -8,6 +8,7 @@ import (
 	"testing"
 	"unicode/utf8"
 
+	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/grammar/source"
 )
 
@@ -49,6 +50,9 @@ func FuzzRead(f *testing.F) {
 			if !inFile(file, e.Span) || e.Msg == "" {
 				t.Fatalf("error outside the file or empty: %v", e)
 			}
+			if q := Read("fuzz.qif", []byte(src)); len(q.Problems) != 1 || q.Problems[0].Kind != model.Syntax || len(q.Statements) != 0 {
+				t.Fatalf("a refused document reads as %+v", q.Problems)
+			}
 			return
 		}
 		if res.Part == nil || res.Doc == nil {
@@ -89,6 +93,20 @@ func FuzzRead(f *testing.F) {
 			if !inFile(file, d.Span) || !d.From.Resolved() || !d.To.Resolved() {
 				t.Fatalf("dimension %+v", d)
 			}
+		}
+		// Statements are in file order and do not overlap, as SARIF
+		// fingerprints and suppressions read them.
+		for i, st := range p.Statements {
+			if st.First < 1 || st.Last < st.First || st.Last > file.Lines() || st.Text == "" || !inFile(file, st.Span) {
+				t.Fatalf("statement %+v", st)
+			}
+			if i > 0 && st.First < p.Statements[i-1].First {
+				t.Fatalf("statements out of order: %+v after %+v", st, p.Statements[i-1])
+			}
+		}
+		// The lint reader gives the same part, or one syntax problem.
+		if q := Read("fuzz.qif", []byte(src)); len(q.Features) != len(p.Features) || len(q.Frames) != len(p.Frames) {
+			t.Fatal("Read and ReadFile disagree")
 		}
 	})
 }

@@ -152,3 +152,37 @@ func TestImportImpliedAndRefused(t *testing.T) {
 		t.Errorf("a QIF 2 document: %v", err)
 	}
 }
+
+// FuzzImport: whatever the bytes, import refuses them or writes a file
+// that reads without a syntax problem, and checking either never reports an
+// internal error.
+//
+//	go test -run '^$' -fuzz '^FuzzImport$' -fuzztime 3m -fuzzminimizetime 5s ./cmd/datumlint/internal/qifimport/
+func FuzzImport(f *testing.F) {
+	ex, err := os.ReadFile(filepath.Join("..", "..", "..", "..", "testdata", "examples", "bearing-flange.qif"))
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Add(ex)
+	f.Add([]byte("<QIFDocument versionQIF=\"3.0\"/>"))
+	f.Fuzz(func(t *testing.T, src []byte) {
+		for _, d := range rules.Check(lint.Read("f.qif", src), nil) {
+			if d.Rule == rules.InternalRule {
+				t.Fatalf("checking the document: %s", d.Message)
+			}
+		}
+		out, err := Import("f.qif", src)
+		if err != nil {
+			return
+		}
+		p := lint.Read("f.callouts", out)
+		for _, e := range p.Problems {
+			t.Fatalf("the import has a problem %v:\n%s", e, out)
+		}
+		for _, d := range rules.Check(p, nil) {
+			if d.Rule == rules.InternalRule {
+				t.Fatalf("checking the import: %s", d.Message)
+			}
+		}
+	})
+}
