@@ -51,6 +51,12 @@ func fastParse(name string, rs rawStmt) Stmt {
 		st = stmtOrNil(p.basic())
 	case "dim":
 		st = stmtOrNil(p.dim())
+	case "basis":
+		st = stmtOrNil(p.basis())
+	case "target":
+		st = stmtOrNil(p.target())
+	case "ref":
+		st = stmtOrNil(p.ref())
 	}
 	// participle requires the whole statement to be used up.
 	if p.failed || st == nil || p.tok.Type != lexer.EOF {
@@ -126,6 +132,9 @@ func scanNext(s string, i int) (lexer.TokenType, int) {
 		}
 		return tokIdent, scanIdent(s, i)
 	case isDigit(c):
+		if e := scanArea(s, i); e > i {
+			return tokArea, e
+		}
 		return tokNumber, scanNumber(s, i)
 	case c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' || c == '\v':
 		return tokWhitespace, scanWhitespace(s, i)
@@ -436,6 +445,41 @@ func (p *fastParser) feature() *FeatureStmt {
 			return nil
 		}
 	}
+	if p.isWord("thread") {
+		t := &Thread{node: p.open()}
+		p.take()
+		if !p.is(tokString) {
+			p.fail()
+			return nil
+		}
+		t.Designation = p.take()
+		p.close(&t.node)
+		s.Thread = t
+	}
+	if p.isWord("cbore") {
+		c := &Counterbore{node: p.open()}
+		p.take()
+		if c.Diameter = p.size(&sizeNodes{}); c.Diameter == nil || !p.expect("depth") {
+			return nil
+		}
+		if c.Depth = p.size(&sizeNodes{}); c.Depth == nil {
+			return nil
+		}
+		p.close(&c.node)
+		s.Cbore = c
+	}
+	if p.isWord("csink") {
+		c := &Countersink{node: p.open()}
+		p.take()
+		if c.Diameter = p.size(&sizeNodes{}); c.Diameter == nil || !p.expect("angle") {
+			return nil
+		}
+		if c.Angle = p.size(&sizeNodes{}); c.Angle == nil {
+			return nil
+		}
+		p.close(&c.node)
+		s.Csink = c
+	}
 	if p.isGeomWord() {
 		if s.Geometry = p.geometry(b); s.Geometry == nil {
 			return nil
@@ -593,6 +637,21 @@ func (p *fastParser) tolerance(b *toleranceNodes) *Tolerance {
 	if t.Value = p.number(&b.value); t.Value == nil {
 		return nil
 	}
+	if p.isWord("/") {
+		u := &PerUnit{node: p.open()}
+		p.take()
+		switch {
+		case p.is(tokArea):
+			u.Area = p.take()
+		case p.is(tokNumber):
+			u.Length = p.number(&Number{})
+		default:
+			p.fail()
+			return nil
+		}
+		p.close(&u.node)
+		t.PerUnit = u
+	}
 	for p.is(tokModifier) {
 		if len(t.Modifiers) == maxRepeat-1 {
 			p.fail()
@@ -607,6 +666,12 @@ func (p *fastParser) tolerance(b *toleranceNodes) *Tolerance {
 		}
 		p.close(&m.node)
 		t.Modifiers = append(t.Modifiers, m)
+	}
+	if p.isWord("along") {
+		p.take()
+		if t.Along = p.direction(&Direction{}); t.Along == nil {
+			return nil
+		}
 	}
 	if p.isWord("datums") {
 		p.take()
@@ -633,8 +698,40 @@ func (p *fastParser) tolerance(b *toleranceNodes) *Tolerance {
 			p.take()
 		}
 	}
+	for p.isNote() {
+		if len(t.Notes) == maxRepeat-1 {
+			p.fail()
+			return nil
+		}
+		n := &Note{node: p.open()}
+		if p.isWord("between") {
+			p.take()
+			if n.From = p.name(&Name{}); n.From == nil {
+				return nil
+			}
+			if n.To = p.name(&Name{}); n.To == nil {
+				return nil
+			}
+		} else {
+			n.Word = p.take()
+		}
+		p.close(&n.node)
+		t.Notes = append(t.Notes, n)
+	}
 	p.close(&t.node)
 	return t
+}
+
+// isNote reports whether the next token starts a Note.
+func (p *fastParser) isNote() bool {
+	if p.is(lexer.EOF) {
+		return false
+	}
+	switch p.tok.Value {
+	case "all-around", "all-over", "separate", "major-dia", "minor-dia", "pitch-dia", "between":
+		return true
+	}
+	return false
 }
 
 type modifierNodes struct {
@@ -656,6 +753,23 @@ func (p *fastParser) datumRef(r *DatumRef) *DatumRef {
 			return nil
 		}
 		r.Modifiers = append(r.Modifiers, p.refModifier(&RefModifier{}))
+	}
+	for p.is(tokDash) || p.is(tokDir) && p.tok.Value[0] == '-' {
+		if len(r.More) == maxRepeat-1 {
+			p.fail()
+			return nil
+		}
+		m := &RefMember{node: p.open()}
+		m.Name = p.take()
+		for p.is(tokModifier) {
+			if len(m.Modifiers) == maxRepeat-1 {
+				p.fail()
+				return nil
+			}
+			m.Modifiers = append(m.Modifiers, p.refModifier(&RefModifier{}))
+		}
+		p.close(&m.node)
+		r.More = append(r.More, m)
 	}
 	p.close(&r.node)
 	return r
@@ -763,6 +877,157 @@ func (p *fastParser) dim() *DimStmt {
 	if p.isWord("along") {
 		p.take()
 		if s.Along = p.direction(&b.along); s.Along == nil {
+			return nil
+		}
+	}
+	p.close(&s.node)
+	return s
+}
+
+type basisNodes struct {
+	s BasisStmt
+	w Word
+}
+
+// basis: 'basis' @@
+func (p *fastParser) basis() *BasisStmt {
+	b := &basisNodes{}
+	s := &b.s
+	s.node = p.open()
+	if !p.expect("basis") {
+		return nil
+	}
+	if s.Basis = p.word(&b.w); s.Basis == nil {
+		return nil
+	}
+	p.close(&s.node)
+	return s
+}
+
+type targetNodes struct {
+	s         TargetStmt
+	label, on Name
+	shape     Word
+	normal    Direction
+}
+
+// target: 'target' Name Word TargetArea? 'on' Name ( 'at' Vector |
+// 'from' Vector 'to' Vector ) ( 'normal' Direction )?
+func (p *fastParser) target() *TargetStmt {
+	b := &targetNodes{}
+	s := &b.s
+	s.node = p.open()
+	if !p.expect("target") {
+		return nil
+	}
+	if s.Label = p.name(&b.label); s.Label == nil {
+		return nil
+	}
+	if s.Shape = p.word(&b.shape); s.Shape == nil {
+		return nil
+	}
+	switch {
+	case p.isWord("dia") || p.is(tokDia):
+		a := &TargetArea{node: p.open()}
+		a.Dia = p.take()
+		if a.Value = p.number(&Number{}); a.Value == nil {
+			return nil
+		}
+		p.close(&a.node)
+		s.Area = a
+	case p.is(tokArea):
+		a := &TargetArea{node: p.open()}
+		a.Rect = p.take()
+		p.close(&a.node)
+		s.Area = a
+	}
+	if !p.expect("on") {
+		return nil
+	}
+	if s.On = p.name(&b.on); s.On == nil {
+		return nil
+	}
+	switch {
+	case p.isWord("at"):
+		p.take()
+		if s.At = p.vector(); s.At == nil {
+			return nil
+		}
+	case p.isWord("from"):
+		p.take()
+		if s.From = p.vector(); s.From == nil || !p.expect("to") {
+			return nil
+		}
+		if s.To = p.vector(); s.To == nil {
+			return nil
+		}
+	default:
+		p.fail()
+		return nil
+	}
+	if p.isWord("normal") {
+		p.take()
+		if s.Normal = p.direction(&b.normal); s.Normal == nil {
+			return nil
+		}
+	}
+	p.close(&s.node)
+	return s
+}
+
+type refNodes struct {
+	s        RefStmt
+	value    Number
+	from, to Name
+	along    Direction
+	about    Name
+}
+
+// ref: 'ref' ( 'size' Number 'of' Name | Number 'deg'? 'from' Name 'to'
+// Name ('along' Direction)? ('about' Name)? )
+func (p *fastParser) ref() *RefStmt {
+	b := &refNodes{}
+	s := &b.s
+	s.node = p.open()
+	if !p.expect("ref") {
+		return nil
+	}
+	if p.isWord("size") {
+		p.take()
+		if s.Size = p.number(&b.value); s.Size == nil || !p.expect("of") {
+			return nil
+		}
+		if s.Of = p.name(&b.from); s.Of == nil {
+			return nil
+		}
+		p.close(&s.node)
+		return s
+	}
+	if s.Value = p.number(&b.value); s.Value == nil {
+		return nil
+	}
+	if p.isWord("deg") {
+		p.take()
+		s.Deg = true
+	}
+	if !p.expect("from") {
+		return nil
+	}
+	if s.From = p.name(&b.from); s.From == nil || !p.expect("to") {
+		return nil
+	}
+	if s.To = p.name(&b.to); s.To == nil {
+		return nil
+	}
+	if p.isWord("along") {
+		p.take()
+		if s.Along = p.direction(&b.along); s.Along == nil {
+			return nil
+		}
+	}
+	if p.isWord("about") {
+		p.take()
+		if s.About = p.name(&b.about); s.About == nil {
 			return nil
 		}
 	}

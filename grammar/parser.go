@@ -40,6 +40,9 @@ var (
 	frameParser    = build[FrameStmt]()
 	basicParser    = build[BasicStmt]()
 	dimParser      = build[DimStmt]()
+	basisParser    = build[BasisStmt]()
+	targetParser   = build[TargetStmt]()
+	refParser      = build[RefStmt]()
 )
 
 // MaxStmtBytes is the longest statement that the error path (participle)
@@ -47,7 +50,7 @@ var (
 const MaxStmtBytes = 256 << 10
 
 // Keywords lists the words a statement may start with.
-var Keywords = []string{"part", "units", "standard", "feature", "datum", "frame", "basic", "dim"}
+var Keywords = []string{"part", "units", "standard", "basis", "feature", "target", "datum", "frame", "basic", "dim", "ref"}
 
 // Parse reads a whole .callouts file. It never fails: every statement that
 // does not parse becomes a BadStmt with a SyntaxError, and the rest of the
@@ -209,6 +212,12 @@ func parseStmt(name string, rs rawStmt) Stmt {
 		st, err = run(basicParser(), pl())
 	case "dim":
 		st, err = run(dimParser(), pl())
+	case "basis":
+		st, err = run(basisParser(), pl())
+	case "target":
+		st, err = run(targetParser(), pl())
+	case "ref":
+		st, err = run(refParser(), pl())
 	case "composite":
 		return bad(rs, sig, &SyntaxError{Span: first.span,
 			Msg: "a 'composite' line is the lower segment of a frame: put it directly under the 'frame' line it belongs to"})

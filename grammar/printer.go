@@ -282,6 +282,15 @@ func render(st Stmt) (first []cell, rest []string) {
 		if s.Size != nil {
 			w.add("size", size(s.Size))
 		}
+		if s.Thread != nil {
+			w.add("thread", s.Thread.Designation)
+		}
+		if c := s.Cbore; c != nil {
+			w.add("cbore", size(c.Diameter), "depth", size(c.Depth))
+		}
+		if c := s.Csink; c != nil {
+			w.add("csink", size(c.Diameter), "angle", size(c.Angle))
+		}
 		if g := s.Geometry; g != nil {
 			w.add(g.Word.Value)
 			if g.Dir != nil {
@@ -339,6 +348,48 @@ func render(st Stmt) (first []cell, rest []string) {
 			w.add("along", direction(s.Along))
 		}
 		return []cell{{text: "dim"}, {text: size(s.Size), pad: true}, {text: w.String()}}, nil
+	case *BasisStmt:
+		return fixed("basis", s.Basis.Value), nil
+	case *TargetStmt:
+		var w words
+		w.add(s.Shape.Value)
+		if a := s.Area; a != nil {
+			if a.Value != nil {
+				w.add(CanonicalWord(a.Dia), a.Value.Text)
+			} else {
+				w.add(strings.ToLower(a.Rect))
+			}
+		}
+		w.add("on", s.On.Value)
+		if s.At != nil {
+			w.add("at", vector(s.At))
+		} else {
+			w.add("from", vector(s.From), "to", vector(s.To))
+		}
+		if s.Normal != nil {
+			w.add("normal", direction(s.Normal))
+		}
+		return []cell{{text: "target"}, {text: s.Label.Value, pad: true}, {text: w.String()}}, nil
+	case *RefStmt:
+		var w words
+		var value string
+		if s.Size != nil {
+			value = "size " + s.Size.Text
+			w.add("of", s.Of.Value)
+		} else {
+			value = s.Value.Text
+			if s.Deg {
+				value += "deg"
+			}
+			w.add("from", s.From.Value, "to", s.To.Value)
+			if s.Along != nil {
+				w.add("along", direction(s.Along))
+			}
+			if s.About != nil {
+				w.add("about", s.About.Value)
+			}
+		}
+		return []cell{{text: "ref"}, {text: value, pad: true}, {text: w.String()}}, nil
 	}
 	// Format refuses files with bad statements, so this is unreachable; keep
 	// the statement's words rather than lose them.
@@ -398,12 +449,23 @@ func tolerance(t *Tolerance) string {
 	if t.Zone != nil {
 		w.add(CanonicalWord(t.Zone.Value))
 	}
-	w.add(t.Value.Text)
+	value := t.Value.Text
+	if u := t.PerUnit; u != nil {
+		if u.Length != nil {
+			value += "/" + u.Length.Text
+		} else {
+			value += "/" + strings.ToLower(u.Area)
+		}
+	}
+	w.add(value)
 	for _, m := range t.Modifiers {
 		w.add(modifier(m.Symbol))
 		if m.Value != nil {
 			w.add(m.Value.Text)
 		}
+	}
+	if t.Along != nil {
+		w.add("along", direction(t.Along))
 	}
 	if len(t.Datums) > 0 {
 		refs := make([]string, len(t.Datums))
@@ -412,8 +474,21 @@ func tolerance(t *Tolerance) string {
 			for _, m := range d.Modifiers {
 				refs[i] += modifier(m.Symbol)
 			}
+			for _, p := range d.More {
+				refs[i] += p.Name
+				for _, m := range p.Modifiers {
+					refs[i] += modifier(m.Symbol)
+				}
+			}
 		}
 		w.add("datums", strings.Join(refs, ", "))
+	}
+	for _, n := range t.Notes {
+		if n.From != nil {
+			w.add("between", n.From.Value, n.To.Value)
+		} else {
+			w.add(n.Word)
+		}
 	}
 	return w.String()
 }

@@ -67,6 +67,40 @@ basic dia 80 through balls about AB
 dim 40 +-0.1     from floor to slot along +x
 dim 12.5 +0.1 -0 from floor to web
 `,
+		`# The extensions of the notation, canonical as written.
+units mm
+standard asme-2018
+basis model
+
+feature base plane normal -z at (0, 0, 0)
+feature rear plane normal -y at (0, 0, 0)
+feature e1   line along +z at (0, 0, 0)
+feature tip  point at (1, 2, 3)
+feature rim  circle size 25 axis +z at (60, 40, 0)
+feature cb   hole size 6.6 +-0.1 cbore 11 +0.2 -0 depth 6.5 csink 13 angle 90deg axis -z at (20, 20, 10)
+feature tap  hole 2x thread "M8x1.25-6H" axis -z at (10, 10, 0) (20, 10, 0)
+
+target A1  point on base at (10, 10, 0) # a trailing comment
+target A2  area dia 6 on base at (90, 10, 0)
+# a comment inside a block
+target A3  area 10x20 on base at (50, 70, 0) normal +z
+target B12 line on rear from (0, 0, 5) to (80, 0, 5)
+
+datum A on base
+datum B on rear
+
+frame base: flatness 0.005/25x25
+frame e1: straightness 0.01/25
+frame cb: position 0.1 along +x datums A, B
+frame tap: position dia 0.2 (M) datums A, B(M)-A(M) major-dia separate
+frame base: surface-profile 0.5 datums A, B all-around
+    composite 0.1 datums A separate
+frame rim: line-profile 0.5 datums A between tip e1
+
+ref 60      from base to cb
+ref size 25 of rim
+ref 90deg   from base to rear
+`,
 	}
 	for i, src := range canonical {
 		if got := format(t, src); got != src {
@@ -121,6 +155,12 @@ func TestFormatRewrites(t *testing.T) {
 		{"bolt circle and along",
 			"basic ⌀ 80 through bolts about A\nbasic 90 from bolts.1 to bolts.4 along (1,0,0)\n",
 			"basic dia 80 through bolts about A\nbasic 90     from bolts.1 to bolts.4 along (1, 0, 0)\n"},
+		{"extensions respelled",
+			"frame a: flatness 0.005 / 25X25\nframe b: position 1 datums A, H (M) -X (L)\ntarget A1 area ⌀ 6 on b at (0,0,0)\n",
+			"frame a: flatness 0.005/25x25\nframe b: position 1 datums A, H(M)-X(L)\ntarget A1 area dia 6 on b at (0, 0, 0)\n"},
+		{"countersink angle and thread",
+			"feature h hole size 6 thread  \"M8\" csink 12 angle 90 deg axis +z at (0,0,0)\n",
+			"feature h hole size 6 thread \"M8\" csink 12 angle 90deg axis +z at (0, 0, 0)\n"},
 		{"CRLF and a byte-order mark",
 			"\ufeffunits mm\r\nstandard iso\r\n",
 			"units mm\nstandard iso\n"},

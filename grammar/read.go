@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"math"
+	"regexp"
 	"strconv"
 	"strings"
 
@@ -159,10 +160,27 @@ func Resolve(f *File) *model.Part {
 				r.errorf(s.Standard.Span(), msg, w)
 			}
 			p.Headers = append(p.Headers, model.HeaderLine{Keyword: "standard", Value: w, Span: s.Span()})
+		case *BasisStmt:
+			w := s.Basis.Value
+			switch w {
+			case "model":
+				p.Basis = model.ModelBasis
+			case "drawing":
+				p.Basis = model.DrawingBasis
+			default:
+				msg := "unknown basis '%s': write 'basis model' (every nominal location and angle of the model is basic) or 'basis drawing'"
+				if sg := spell.Nearest(w, model.BasisWords); sg != "" {
+					msg = "unknown basis '%s'; did you mean '" + sg + "'?"
+				}
+				r.errorf(s.Basis.Span(), msg, w)
+			}
+			p.Headers = append(p.Headers, model.HeaderLine{Keyword: "basis", Value: w, Span: s.Span()})
 		case *FeatureStmt:
 			p.Declare(r.feature(s))
+		case *TargetStmt:
+			p.Declare(r.targetFeature(s))
 		case *BadStmt:
-			if s.Word == "feature" && s.Name != "" {
+			if (s.Word == "feature" || s.Word == "target") && s.Name != "" {
 				p.Declare(&model.Feature{Name: s.Name, Span: s.Span(), NameSpan: s.Span(), Broken: true})
 			}
 		}
@@ -187,12 +205,16 @@ func Resolve(f *File) *model.Part {
 	}
 	for _, st := range f.Stmts {
 		switch s := st.(type) {
+		case *TargetStmt:
+			r.datumTarget(s)
 		case *FrameStmt:
 			r.frame(s)
 		case *BasicStmt:
 			r.basic(s)
 		case *DimStmt:
 			r.dim(s)
+		case *RefStmt:
+			r.ref(s)
 		}
 	}
 	p.Finish()
@@ -201,6 +223,9 @@ func Resolve(f *File) *model.Part {
 
 // geometry forms allowed per kind (the contract's geometry table).
 var geometryWords = map[model.Kind][]string{
+	model.Point:     {"at"},
+	model.Line:      {"along"},
+	model.Circle:    {"axis"},
 	model.Plane:     {"normal"},
 	model.Slot:      {"normal", "between"},
 	model.Tab:       {"normal", "between"},
@@ -214,6 +239,9 @@ var geometryWords = map[model.Kind][]string{
 }
 
 var geometryExample = map[model.Kind]string{
+	model.Point:     "at (0, 0, 0)",
+	model.Line:      "along +z at (0, 0, 0)",
+	model.Circle:    "axis +z at (0, 0, 0) (its centre)",
 	model.Plane:     "normal +z at (0, 0, 0)",
 	model.Slot:      "normal +x at (0, 0, 0) or between FACE1 FACE2",
 	model.Tab:       "normal +x at (0, 0, 0) or between FACE1 FACE2",
@@ -242,7 +270,7 @@ func (r *resolver) feature(s *FeatureStmt) *model.Feature {
 		return ft
 	}
 	if s.Size != nil {
-		if !ft.Kind.IsFOS() {
+		if !ft.Kind.TakesSize() {
 			r.errorf(s.Size.Span(), "a %s is not a feature of size and takes no size; remove 'size ...' (or declare it as a slot, tab, hole, pin, socket or ball)", ft.Kind)
 		} else {
 			ft.Size = r.size(s.Size)
@@ -251,6 +279,7 @@ func (r *resolver) feature(s *FeatureStmt) *model.Feature {
 			}
 		}
 	}
+	r.holeForms(s, ft)
 	count := 0
 	if s.Count != nil {
 		c := r.num(s.Count.N)
@@ -312,6 +341,135 @@ func (r *resolver) feature(s *FeatureStmt) *model.Feature {
 		ft.Members = []*model.Member{unwritten(ft)}
 	}
 	return ft
+}
+
+// holeForms reads a feature's thread, counterbore and countersink.
+func (r *resolver) holeForms(s *FeatureStmt, ft *model.Feature) {
+	if s.Thread != nil {
+		if !ft.Kind.IsCylinder() {
+			r.errorf(s.Thread.Span(), "a screw thread is a hole's or a pin's; a %s takes no 'thread'", ft.Kind)
+		} else if t, err := strconv.Unquote(s.Thread.Designation); err != nil || strings.TrimSpace(t) == "" {
+			r.errorf(s.Thread.Span(), "write the thread's designation in double quotes, e.g. thread \"M8x1.25-6H\"")
+		} else {
+			ft.Thread, ft.ThreadSpan = t, s.Thread.Span()
+		}
+	}
+	if c := s.Cbore; c != nil {
+		if ft.Kind != model.Hole {
+			r.errorf(c.Span(), "a counterbore is a hole's; a %s takes no 'cbore'", ft.Kind)
+		} else {
+			ft.Counterbore = &model.Counterbore{Diameter: r.size(c.Diameter), Depth: r.size(c.Depth), Span: c.Span()}
+			r.lengthOnly(c.Diameter, "a counterbore's diameter")
+			r.lengthOnly(c.Depth, "a counterbore's depth")
+		}
+	}
+	if c := s.Csink; c != nil {
+		if ft.Kind != model.Hole {
+			r.errorf(c.Span(), "a countersink is a hole's; a %s takes no 'csink'", ft.Kind)
+		} else {
+			ft.Countersink = &model.Countersink{Diameter: r.size(c.Diameter), Angle: r.size(c.Angle), Span: c.Span()}
+			r.lengthOnly(c.Diameter, "a countersink's diameter")
+			if !c.Angle.Deg {
+				r.errorf(c.Angle.Span(), "a countersink's angle is an angle: write it with deg, e.g. angle 90deg")
+			}
+		}
+	}
+}
+
+// lengthOnly reports a length written as an angle.
+func (r *resolver) lengthOnly(s *Size, what string) {
+	if s.Deg {
+		r.errorf(s.Span(), "%s is a length, not an angle", what)
+	}
+}
+
+// targetLabelRE is a datum target's label: its datum's letter and a number.
+var targetLabelRE = regexp.MustCompile(`^([A-Z]{1,2})([0-9]+)$`)
+
+// targetFeature declares the point or line feature a datum target stands
+// for, so that dimensions may name it.
+func (r *resolver) targetFeature(s *TargetStmt) *model.Feature {
+	ft := &model.Feature{Name: s.Label.Value, NameSpan: s.Label.Span(), Span: s.Span(), DirDecimals: [3]int{-1, -1, -1}, HasGeometry: true, Kind: model.Point}
+	pt := s.At
+	if s.From != nil {
+		pt = s.From
+		ft.Kind = model.Line
+		ft.Dir = r.vec(s.To).Sub(r.vec(s.From)).Unit()
+	}
+	ft.Members = []*model.Member{{Feature: ft, Index: 1, Point: r.vec(pt), Decimals: decimals(pt), Span: pt.Span()}}
+	return ft
+}
+
+// datumTarget reads a datum target (its feature is declared in pass 1).
+func (r *resolver) datumTarget(s *TargetStmt) {
+	t := &model.DatumTarget{Label: s.Label.Value, LabelSpan: s.Label.Span(), Span: s.Span()}
+	t.Feature = r.p.Feature(t.Label)
+	if t.Feature == nil || t.Feature.Span != s.Span() {
+		return // the label is declared twice: name-duplicate reports it
+	}
+	t.Feature.DatumTarget = t
+	if m := targetLabelRE.FindStringSubmatch(t.Label); m != nil {
+		t.Letter = m[1]
+	} else {
+		r.errorf(s.Label.Span(), "'%s' is not a datum target's name: name a target by its datum's letter and a number, e.g. A1, A2", t.Label)
+		t.Broken = true
+	}
+	t.Shape = model.ParseTargetShape(s.Shape.Value)
+	switch {
+	case t.Shape == model.TargetShapeUnknown:
+		msg := fmt.Sprintf("unknown datum target '%s': write point, line or area", s.Shape.Value)
+		if sg := spell.Nearest(s.Shape.Value, model.TargetShapeWords); sg != "" {
+			msg = fmt.Sprintf("unknown datum target '%s'; did you mean '%s'?", s.Shape.Value, sg)
+		}
+		r.errorf(s.Shape.Span(), "%s", msg)
+		t.Broken = true
+	case t.Shape == model.TargetArea && s.Area == nil:
+		r.errorf(s.Shape.Span(), "an area target gives its size: area dia 8 (circular) or area 10x20 (rectangular)")
+	case t.Shape != model.TargetArea && s.Area != nil:
+		r.errorf(s.Area.Span(), "only an area target has a size; a %s target is written without one", t.Shape)
+	case t.Shape == model.TargetLine && s.From == nil:
+		r.errorf(s.At.Span(), "a line target runs between two points: write from (x, y, z) to (x, y, z)")
+		t.Broken = true
+	case t.Shape != model.TargetLine && s.From != nil:
+		r.errorf(s.From.Span(), "a %s target is at one point: write at (x, y, z)", t.Shape)
+		t.Broken = true
+	}
+	if a := s.Area; a != nil {
+		if a.Value != nil {
+			t.Dia = r.num(a.Value)
+		} else {
+			t.Width, t.Height = r.area(a.Rect, a.Span())
+		}
+	}
+	if s.From != nil {
+		t.Point, t.End = r.vec(s.From), r.vec(s.To)
+		if t.Point.Sub(t.End).Norm() == 0 {
+			r.errorf(s.To.Span(), "a line target runs between two different points")
+			t.Broken = true
+		}
+	} else {
+		t.Point = r.vec(s.At)
+		t.End = t.Point
+	}
+	if s.Normal != nil {
+		if n, ok := r.dir(s.Normal); ok {
+			t.Normal = n
+		}
+	}
+	t.On = *r.target(s.On)
+	r.p.AddTarget(t)
+}
+
+// area reads WxH: two positive lengths.
+func (r *resolver) area(text string, sp source.Span) (w, h float64) {
+	a, b, _ := strings.Cut(strings.ToLower(text), "x")
+	w, errW := strconv.ParseFloat(a, 64)
+	h, errH := strconv.ParseFloat(b, 64)
+	if errW != nil || errH != nil || math.IsInf(w, 0) || math.IsInf(h, 0) {
+		r.errorf(sp, "the area %s is out of range", text)
+		return 0, 0
+	}
+	return w, h
 }
 
 // statementTexts returns each statement's text as written, its physical
@@ -450,10 +608,12 @@ func (r *resolver) frame(s *FrameStmt) {
 		r.errorf(s.Characteristic.Span(), "%s", msg)
 	}
 	fr.Segments = append(fr.Segments, r.segment(s.Tolerance, false))
+	r.notes(fr, fr.Segments[0], s.Tolerance)
 	for _, cp := range s.Composites {
 		seg := r.segment(cp.Tolerance, true)
 		seg.Span = cp.Span()
 		fr.Segments = append(fr.Segments, seg)
+		r.notes(fr, seg, cp.Tolerance)
 	}
 	r.p.Frames = append(r.p.Frames, fr)
 }
@@ -476,6 +636,21 @@ func (r *resolver) segment(t *Tolerance, composite bool) *model.Segment {
 			seg.Zone = ""
 		}
 	}
+	if u := t.PerUnit; u != nil {
+		seg.PerUnit = &model.PerUnit{Span: u.Span(), Text: strings.TrimPrefix(r.text(u.Span()), "/")}
+		if u.Length != nil {
+			seg.PerUnit.Length = r.num(u.Length)
+		} else {
+			seg.PerUnit.Length, seg.PerUnit.Width = r.area(u.Area, u.Span())
+			seg.PerUnit.Area = true
+		}
+		seg.PerUnit.Text = strings.TrimSpace(seg.PerUnit.Text)
+	}
+	if t.Along != nil {
+		if v, ok := r.dir(t.Along); ok {
+			seg.ZoneDir, seg.ZoneDirSpan = &v, t.Along.Span()
+		}
+	}
 	for _, m := range t.Modifiers {
 		mod := model.Modifier{Letter: ModifierLetter(m.Symbol), Span: m.Span()}
 		if m.Value != nil {
@@ -491,27 +666,82 @@ func (r *resolver) segment(t *Tolerance, composite bool) *model.Segment {
 		r.errorf(t.Datums[3].Span(), "a frame references at most three datums (primary, secondary, tertiary); '%s' is a fourth", t.Datums[3].Name)
 	}
 	for _, d := range t.Datums {
-		ref := &model.DatumRef{Name: d.Name, Span: d.Span()}
-		for _, l := range strings.Split(d.Name, "-") {
+		seg.Refs = append(seg.Refs, r.datumRef(d))
+	}
+	return seg
+}
+
+// datumRef reads one datum reference: its letters, each with its datum and
+// material boundary.
+func (r *resolver) datumRef(d *DatumRef) *model.DatumRef {
+	ref := &model.DatumRef{Span: d.Span()}
+	// material returns the last (M) or (L) of ms; any other letter is a
+	// syntax finding already (grammar/check.go).
+	material := func(ms []*RefModifier) (string, source.Span) {
+		l, sp := "", source.Span{}
+		for _, m := range ms {
+			if ml := ModifierLetter(m.Symbol); ml == "M" || ml == "L" {
+				l, sp = ml, m.Span()
+			}
+		}
+		return l, sp
+	}
+	part := func(name string, ms []*RefModifier) {
+		mat, sp := material(ms)
+		for _, l := range strings.Split(name, "-") {
 			if l == "" {
 				r.errorf(d.Span(), "'%s' is not a datum reference: a common datum joins two letters, e.g. A-B", d.Name)
 				continue
 			}
 			ref.Letters = append(ref.Letters, l)
 			ref.Datums = append(ref.Datums, r.p.Datum(l))
+			ref.Materials = append(ref.Materials, mat)
+			ref.MatSpans = append(ref.MatSpans, sp)
 		}
-		for _, m := range d.Modifiers {
-			// Only (M) and (L) are material boundaries; any other letter is
-			// a syntax finding already (grammar/check.go).
-			if l := ModifierLetter(m.Symbol); l == "M" || l == "L" {
-				ref.Material, ref.MatSpan = l, m.Span()
-			}
-		}
+	}
+	part(d.Name, d.Modifiers)
+	names := []string{d.Name}
+	for _, m := range d.More {
+		part(strings.TrimPrefix(m.Name, "-"), m.Modifiers)
+		names = append(names, strings.TrimPrefix(m.Name, "-"))
+	}
+	ref.Name = strings.Join(names, "-")
+	if len(d.More) == 0 {
+		ref.Material, ref.MatSpan = material(d.Modifiers)
 		// The ref's own span ends at the letters; the modifier is separate.
 		ref.Span = source.Span{Start: d.Span().Start, End: source.Pos{Line: d.Span().Start.Line, Col: d.Span().Start.Col + len([]rune(d.Name))}}
-		seg.Refs = append(seg.Refs, ref)
 	}
-	return seg
+	return ref
+}
+
+// notes reads the notes of a frame's segment: a separate requirement on
+// the segment, and, on the upper segment only, the extent of a profile and
+// the diameter of a screw thread, which are the whole frame's.
+func (r *resolver) notes(fr *model.Frame, seg *model.Segment, t *Tolerance) {
+	for _, n := range t.Notes {
+		word := n.Word
+		if n.From != nil {
+			word = model.Between
+		}
+		switch word {
+		case "separate":
+			seg.Separate, seg.SeparateSpan = true, n.Span()
+			continue
+		}
+		if seg.Composite {
+			r.errorf(n.Span(), "'%s' is the whole frame's: write it on the frame's first line, not on a composite line", word)
+			continue
+		}
+		switch word {
+		case model.AllAround, model.AllOver, model.Between:
+			fr.Extent, fr.ExtentSpan = word, n.Span()
+			if n.From != nil {
+				fr.Between = [2]*model.Target{r.target(n.From), r.target(n.To)}
+			}
+		default:
+			fr.ThreadDiameter, fr.ThreadDiameterSpan = word, n.Span()
+		}
+	}
 }
 
 func (r *resolver) basic(s *BasicStmt) {
@@ -555,6 +785,33 @@ func (r *resolver) dim(s *DimStmt) {
 		if v, ok := r.dir(s.Along); ok {
 			d.Along = &v
 		}
+	}
+	r.p.Dims = append(r.p.Dims, d)
+}
+
+func (r *resolver) ref(s *RefStmt) {
+	d := &model.Dimension{Reference: true, Span: s.Span()}
+	if s.Size != nil {
+		d.Value, d.ValueSpan, d.ValueText = r.num(s.Size), s.Size.Span(), numberText(s.Size)
+		d.SizeOf = r.target(s.Of)
+		r.p.Dims = append(r.p.Dims, d)
+		return
+	}
+	d.Value, d.ValueSpan, d.ValueText, d.Angle = r.num(s.Value), s.Value.Span(), numberText(s.Value), s.Deg
+	d.From, d.To = *r.target(s.From), *r.target(s.To)
+	if s.Along != nil {
+		if v, ok := r.dir(s.Along); ok {
+			d.Along = &v
+		}
+		if d.Angle {
+			r.errorf(s.Along.Span(), "'along' measures a length; an angle takes no 'along'")
+		}
+	}
+	if s.About != nil {
+		if !d.Angle {
+			r.errorf(s.About.Span(), "'about' belongs to an angle about an axis, e.g. ref 45deg from bolts.1 to C about hub")
+		}
+		d.About = r.target(s.About)
 	}
 	r.p.Dims = append(r.p.Dims, d)
 }

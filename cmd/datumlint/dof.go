@@ -196,6 +196,9 @@ func segmentLabel(seg *model.Segment) string {
 		b.WriteString(seg.Zone + " ")
 	}
 	fmt.Fprintf(&b, "%g", seg.Value)
+	if seg.PerUnit != nil {
+		b.WriteString("/" + seg.PerUnit.Text)
+	}
 	for _, m := range seg.Modifiers {
 		b.WriteString(" (" + m.Letter + ")")
 		if m.Letter == "P" || m.Letter == "U" {
@@ -211,12 +214,29 @@ func segmentLabel(seg *model.Segment) string {
 		if k > 0 {
 			b.WriteString(", ")
 		}
-		b.WriteString(strings.Join(r.Letters, "-"))
-		if r.Material != "" {
-			b.WriteString("(" + r.Material + ")")
-		}
+		b.WriteString(refText(r))
 	}
 	return b.String()
+}
+
+// refText writes a datum reference with its modifiers: A-B(M) where the
+// modifier is the whole reference's, H(M)-J(M) where each letter has its own.
+func refText(r *model.DatumRef) string {
+	if r.Material != "" || len(r.Materials) == 0 {
+		s := strings.Join(r.Letters, "-")
+		if r.Material != "" {
+			s += "(" + r.Material + ")"
+		}
+		return s
+	}
+	parts := make([]string, len(r.Letters))
+	for i, l := range r.Letters {
+		parts[i] = l
+		if m, _ := r.Boundary(i); m != "" {
+			parts[i] += "(" + m + ")"
+		}
+	}
+	return strings.Join(parts, "-")
 }
 
 func motionList(ms []dof.Motion) string {
