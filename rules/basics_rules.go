@@ -121,7 +121,9 @@ then disagree about the part. Lengths are compared within about a millionth of t
 angles as the angle or its supplement (lines have no sense). A bolt circle's diameter must pass
 through every member, and a width given between two faces must have their distance as its size.
 Two chains of basic dimensions that define one quantity differently always contain a link that
-disagrees with the model, and it is reported on that line.`,
+disagrees with the model, and it is reported on that line. A reference dimension is checked the
+same way (a reference size against the feature's nominal size), though it locates and
+tolerances nothing (extension).`,
 	Source: "ASME Y14.5-2018, basic dimensions (theoretically exact); ASME Y14.41-2019, agreement of annotation and model; ISO 1101:2017, theoretically exact dimensions",
 	Bad: `feature left plane normal -x at (0, 0, 0)
 feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)
@@ -134,6 +136,18 @@ basic 60 from left to bore`,
 			p.Report(m.Dim.ValueSpan, "%s", mismatchMessage(m))
 		}
 		tol := p.Part.Tolerance()
+		for _, d := range p.Part.Dims {
+			if d.SizeOf == nil || !d.SizeOf.Known() {
+				continue
+			}
+			f := d.SizeOf.Feature
+			switch {
+			case !f.Kind.TakesSize():
+				p.Report(d.SizeOf.Span, "%s is a %s, which has no size: a reference size belongs to a feature of size or a circle", f.Name, f.Kind)
+			case f.Size != nil && math.Abs(f.Size.Nominal-d.Value) > tol:
+				p.Report(d.ValueSpan, "the nominal size of %s is %s, not %s", f.Name, basics.Num(f.Size.Nominal), basics.Num(d.Value))
+			}
+		}
 		for _, f := range p.Part.Features {
 			a, b := f.Faces[0], f.Faces[1]
 			if a == nil || b == nil || !a.Resolved() || !b.Resolved() || !f.HasGeometry || f.Size == nil || f.Broken {

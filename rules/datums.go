@@ -15,11 +15,23 @@ var DatumUndefined = Register(&Rule{
 	Severity: Error,
 	Rationale: `A datum reference in a feature control frame points at a datum feature identified on the
 drawing by a datum feature symbol. A letter with no symbol points at nothing: the inspector
-cannot know which feature to set the part up on.`,
+cannot know which feature to set the part up on. A datum target (A1) names the datum it
+establishes by its letter, which a datum feature symbol must declare too (extension).`,
 	Source: "ASME Y14.5-2018, datum feature symbol and datum references in a feature control frame; ISO 5459:2011",
 	Bad:    "datum A on base\nframe bore: position dia 0.1 datums A, B",
 	Good:   "datum A on base\ndatum B on rear\nframe bore: position dia 0.1 datums A, B",
 	Run: func(p *Pass) {
+		// Extension: a datum target names its datum by its label's letter.
+		for _, t := range p.Part.Targets {
+			if t.Letter == "" || p.Part.Datum(t.Letter) != nil {
+				continue
+			}
+			on := "FEATURE"
+			if t.On.Resolved() {
+				on = t.On.Name
+			}
+			p.Report(t.LabelSpan, "datum target %s is a target of datum %s, which no datum feature symbol declares: add `datum %s on %s`", t.Label, t.Letter, t.Letter, on)
+		}
 		for _, fr := range p.Part.Frames {
 			for _, seg := range fr.Segments {
 				for _, r := range seg.Refs {

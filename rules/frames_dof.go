@@ -290,6 +290,9 @@ func redundantReason(a *kinematics.Segment, k int, tol float64) string {
 // microradian and offsets to tol (about a millionth of the part's size), as
 // the engine decides ranks.
 func sameConstraint(d, e *model.Datum, tol float64) string {
+	if len(d.Targets) > 0 || len(e.Targets) > 0 {
+		return "" // targets remove what they touch, not what their feature would
+	}
 	fd, fe := d.Target.Feature, e.Target.Feature
 	if fd == fe && (d.Target.Member == e.Target.Member) {
 		return "is on the same feature as"
@@ -352,7 +355,7 @@ func joinAnd(s []string) string {
 // cylinder, a cone, or spheres (a common datum of two spheres is an axis).
 func establishesAxis(r *model.DatumRef) bool {
 	for _, d := range r.Datums {
-		if d == nil || !d.Target.Resolved() {
+		if d == nil || !d.Target.Resolved() || len(d.Targets) > 0 {
 			continue
 		}
 		switch k := d.Target.Feature.Kind; {

@@ -62,14 +62,15 @@ var SizeMissing = Register(&Rule{
 	Severity: Error,
 	Rationale: `A feature of size (slot, tab, hole, pin, socket, ball) is controlled first by its size
 tolerance, and its maximum and least material conditions, on which (M) and (L) and the
-envelope rule depend, come from its limits of size. Without a size those cannot be known.`,
+envelope rule depend, come from its limits of size. Without a size those cannot be known. A
+screw thread's designation gives its size (extension: a threaded hole or pin needs no SIZE).`,
 	Source: "ASME Y14.5-2018, features of size and limits of size (Rule #1); ISO 14405-1:2016",
 	Bad:    "feature bore hole axis +z at (60, 40, 0)",
 	Good:   "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)",
 	Run: func(p *Pass) {
 		for _, f := range append(p.Part.Features, p.Part.Duplicates...) {
-			if f.Broken || !f.Kind.IsFOS() || f.Size != nil {
-				continue
+			if f.Broken || !f.Kind.IsFOS() || f.Size != nil || f.Thread != "" {
+				continue // a thread's designation gives its size
 			}
 			p.Report(f.NameSpan, "the %s '%s' is a feature of size but has no size: add one after the kind, e.g. %s",
 				f.Kind, f.Name, sizeExample(f))

@@ -28,7 +28,8 @@ it to at least one of them: orientation, position, profile or runout. For a comm
 each feature of the pair is checked as if it were that datum (common practice).
 
 Checked per use: a letter that is primary in one frame and secondary in another must meet
-both requirements.`,
+both requirements. A datum established by datum targets needs neither: the targets, at their
+basic places, are what the part is set up on (extension).`,
 	Source: "datum feature qualification, common practice; ASME Y14.5-2018, Rule #1 (envelope principle); ISO 8015:2011, independency principle; ISO 14405-1:2016, envelope requirement (E)",
 	Bad: `feature base plane normal -z at (0, 0, 0)
 feature rear plane normal -y at (0, 0, 0)
@@ -83,6 +84,13 @@ func runDatumUnqualified(p *Pass) {
 	for _, d := range p.Part.Datums {
 		f := d.Target.Feature
 		if !d.Usable() || len(uses[d]) == 0 || p.facts.brokenMentions()[f.Name] {
+			continue
+		}
+		if len(d.Targets) > 0 || f.Kind.IsElement() {
+			// A datum established by datum targets is qualified by the
+			// targets' basic places, not by a control of the whole
+			// surface (ASME Y14.5-2018, datum targets; from memory); a
+			// point, line or circle has no frame requirements of its own.
 			continue
 		}
 		var problems []string
