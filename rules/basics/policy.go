@@ -192,8 +192,11 @@ func (a *Analysis) Toleranced() []Toleranced {
 		if d.Basic || d.Circle != nil || d.Reference {
 			continue // a reference dimension locates nothing
 		}
-		for _, t := range []*model.Target{&d.To, &d.From} {
+		for i, t := range []*model.Target{&d.To, &d.From} {
 			if !t.Resolved() || t.Feature.Broken {
+				continue
+			}
+			if fromDatum(a.part, t, []*model.Target{&d.From, &d.To}[i]) {
 				continue
 			}
 			if c, ok := locatedBy(a.part, t.Feature); ok {
@@ -203,6 +206,22 @@ func (a *Analysis) Toleranced() []Toleranced {
 		}
 	}
 	return a.toleranced
+}
+
+// fromDatum reports whether a toleranced dimension between t and other
+// measures from t as a datum feature: t carries a datum, and other is
+// neither located by a frame nor a datum feature itself, so the dimension
+// locates other from the datum (dimensioning from a datum as the origin:
+// common practice) and leaves t's own location, which its frames give,
+// alone.
+func fromDatum(part *model.Part, t, other *model.Target) bool {
+	if len(part.DatumsOn(t.Feature)) == 0 || !other.Resolved() || other.Feature.Broken {
+		return false
+	}
+	if _, ok := locatedBy(part, other.Feature); ok {
+		return false
+	}
+	return len(part.DatumsOn(other.Feature)) == 0
 }
 
 // locatedBy returns the characteristic of the first frame that places a
