@@ -195,7 +195,10 @@ var BasicToleranced = Register(&Rule{
 	Rationale: `Position and located profile already say how far the feature may be from its true position,
 which basic dimensions define. A toleranced location dimension to the same feature adds a
 second, conflicting tolerance on the same location (and the tolerance stack of a chain of
-them): the standards require the location to be basic.`,
+them): the standards require the location to be basic. A toleranced dimension from a datum
+feature to a feature that nothing else locates (no frame, no datum) measures from the datum as
+its origin and locates that other feature, so it is not reported against the datum feature,
+even where the datum feature is itself under a located profile (common practice; extension).`,
 	Source: "ASME Y14.5-2018, position: true position established by basic dimensions; ISO 5458:2018 and ISO 1101:2017, theoretically exact dimensions",
 	Bad: `feature rear plane normal -y at (0, 0, 0)
 feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)
