@@ -360,6 +360,22 @@ func (p *fastParser) part() *PartStmt {
 	return s
 }
 
+// headerWord: KEYWORD @@, a header statement of one word (units,
+// standard, basis); n is the statement's node.
+func (p *fastParser) headerWord(keyword string, n *node, w *Word) *Word {
+	*n = p.open()
+	if !p.isWord(keyword) {
+		p.fail()
+		return nil
+	}
+	p.take()
+	if p.word(w) == nil {
+		return nil
+	}
+	p.close(n)
+	return w
+}
+
 type unitsNodes struct {
 	s UnitsStmt
 	w Word
@@ -368,16 +384,10 @@ type unitsNodes struct {
 // units: 'units' @@
 func (p *fastParser) units() *UnitsStmt {
 	b := &unitsNodes{}
-	s := &b.s
-	s.node = p.open()
-	if !p.expect("units") {
+	if b.s.Unit = p.headerWord("units", &b.s.node, &b.w); b.s.Unit == nil {
 		return nil
 	}
-	if s.Unit = p.word(&b.w); s.Unit == nil {
-		return nil
-	}
-	p.close(&s.node)
-	return s
+	return &b.s
 }
 
 type standardNodes struct {
@@ -388,16 +398,10 @@ type standardNodes struct {
 // standard: 'standard' @@
 func (p *fastParser) standard() *StandardStmt {
 	b := &standardNodes{}
-	s := &b.s
-	s.node = p.open()
-	if !p.expect("standard") {
+	if b.s.Standard = p.headerWord("standard", &b.s.node, &b.w); b.s.Standard == nil {
 		return nil
 	}
-	if s.Standard = p.word(&b.w); s.Standard == nil {
-		return nil
-	}
-	p.close(&s.node)
-	return s
+	return &b.s
 }
 
 type featureNodes struct {
@@ -776,11 +780,55 @@ func (p *fastParser) datumRef(r *DatumRef) *DatumRef {
 }
 
 type basicNodes struct {
-	s        BasicStmt
-	value    Number
+	s     BasicStmt
+	value Number
+	m     measureNodes
+}
+
+// measured points at the fields of a basic or reference distance or
+// angle that follow its value.
+type measured struct {
+	deg      *bool
+	from, to **Name
+	along    **Direction
+	about    **Name
+}
+
+type measureNodes struct {
 	from, to Name
 	along    Direction
 	about    Name
+}
+
+// measure: 'deg'? 'from' Name 'to' Name ('along' Direction)? ('about'
+// Name)?, what follows the value of a basic or a reference dimension.
+func (p *fastParser) measure(m measured, b *measureNodes) bool {
+	if p.isWord("deg") {
+		p.take()
+		*m.deg = true
+	}
+	if !p.expect("from") {
+		return false
+	}
+	if *m.from = p.name(&b.from); *m.from == nil || !p.expect("to") {
+		return false
+	}
+	if *m.to = p.name(&b.to); *m.to == nil {
+		return false
+	}
+	if p.isWord("along") {
+		p.take()
+		if *m.along = p.direction(&b.along); *m.along == nil {
+			return false
+		}
+	}
+	if p.isWord("about") {
+		p.take()
+		if *m.about = p.name(&b.about); *m.about == nil {
+			return false
+		}
+	}
+	return true
 }
 
 type circleNodes struct {
@@ -821,30 +869,8 @@ func (p *fastParser) basic() *BasicStmt {
 	if s.Value = p.number(&b.value); s.Value == nil {
 		return nil
 	}
-	if p.isWord("deg") {
-		p.take()
-		s.Deg = true
-	}
-	if !p.expect("from") {
+	if !p.measure(measured{&s.Deg, &s.From, &s.To, &s.Along, &s.About}, &b.m) {
 		return nil
-	}
-	if s.From = p.name(&b.from); s.From == nil || !p.expect("to") {
-		return nil
-	}
-	if s.To = p.name(&b.to); s.To == nil {
-		return nil
-	}
-	if p.isWord("along") {
-		p.take()
-		if s.Along = p.direction(&b.along); s.Along == nil {
-			return nil
-		}
-	}
-	if p.isWord("about") {
-		p.take()
-		if s.About = p.name(&b.about); s.About == nil {
-			return nil
-		}
 	}
 	p.close(&s.node)
 	return s
@@ -892,16 +918,10 @@ type basisNodes struct {
 // basis: 'basis' @@
 func (p *fastParser) basis() *BasisStmt {
 	b := &basisNodes{}
-	s := &b.s
-	s.node = p.open()
-	if !p.expect("basis") {
+	if b.s.Basis = p.headerWord("basis", &b.s.node, &b.w); b.s.Basis == nil {
 		return nil
 	}
-	if s.Basis = p.word(&b.w); s.Basis == nil {
-		return nil
-	}
-	p.close(&s.node)
-	return s
+	return &b.s
 }
 
 type targetNodes struct {
@@ -976,11 +996,10 @@ func (p *fastParser) target() *TargetStmt {
 }
 
 type refNodes struct {
-	s        RefStmt
-	value    Number
-	from, to Name
-	along    Direction
-	about    Name
+	s     RefStmt
+	value Number
+	of    Name
+	m     measureNodes
 }
 
 // ref: 'ref' ( 'size' Number 'of' Name | Number 'deg'? 'from' Name 'to'
@@ -997,7 +1016,7 @@ func (p *fastParser) ref() *RefStmt {
 		if s.Size = p.number(&b.value); s.Size == nil || !p.expect("of") {
 			return nil
 		}
-		if s.Of = p.name(&b.from); s.Of == nil {
+		if s.Of = p.name(&b.of); s.Of == nil {
 			return nil
 		}
 		p.close(&s.node)
@@ -1006,30 +1025,8 @@ func (p *fastParser) ref() *RefStmt {
 	if s.Value = p.number(&b.value); s.Value == nil {
 		return nil
 	}
-	if p.isWord("deg") {
-		p.take()
-		s.Deg = true
-	}
-	if !p.expect("from") {
+	if !p.measure(measured{&s.Deg, &s.From, &s.To, &s.Along, &s.About}, &b.m) {
 		return nil
-	}
-	if s.From = p.name(&b.from); s.From == nil || !p.expect("to") {
-		return nil
-	}
-	if s.To = p.name(&b.to); s.To == nil {
-		return nil
-	}
-	if p.isWord("along") {
-		p.take()
-		if s.Along = p.direction(&b.along); s.Along == nil {
-			return nil
-		}
-	}
-	if p.isWord("about") {
-		p.take()
-		if s.About = p.name(&b.about); s.About == nil {
-			return nil
-		}
 	}
 	p.close(&s.node)
 	return s

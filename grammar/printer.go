@@ -328,17 +328,7 @@ func render(st Stmt) (first []cell, rest []string) {
 			value = CanonicalWord(c.Zone.Value) + " " + c.Value.Text
 			w.add("through", c.Pattern.Value, "about", c.About.Value)
 		} else {
-			value = s.Value.Text
-			if s.Deg {
-				value += "deg"
-			}
-			w.add("from", s.From.Value, "to", s.To.Value)
-			if s.Along != nil {
-				w.add("along", direction(s.Along))
-			}
-			if s.About != nil {
-				w.add("about", s.About.Value)
-			}
+			value, w = measure(s.Value, s.Deg, s.From, s.To, s.Along, s.About)
 		}
 		return []cell{{text: "basic"}, {text: value, pad: true}, {text: w.String()}}, nil
 	case *DimStmt:
@@ -377,17 +367,7 @@ func render(st Stmt) (first []cell, rest []string) {
 			value = "size " + s.Size.Text
 			w.add("of", s.Of.Value)
 		} else {
-			value = s.Value.Text
-			if s.Deg {
-				value += "deg"
-			}
-			w.add("from", s.From.Value, "to", s.To.Value)
-			if s.Along != nil {
-				w.add("along", direction(s.Along))
-			}
-			if s.About != nil {
-				w.add("about", s.About.Value)
-			}
+			value, w = measure(s.Value, s.Deg, s.From, s.To, s.Along, s.About)
 		}
 		return []cell{{text: "ref"}, {text: value, pad: true}, {text: w.String()}}, nil
 	}
@@ -397,6 +377,24 @@ func render(st Stmt) (first []cell, rest []string) {
 		return fixed(strings.Join(strings.Fields(b.Text), " ")), nil
 	}
 	return fixed(st.Keyword()), nil
+}
+
+// measure writes a basic or reference distance or angle: its value, and
+// the words after it.
+func measure(v *Number, deg bool, from, to *Name, along *Direction, about *Name) (string, words) {
+	var w words
+	value := v.Text
+	if deg {
+		value += "deg"
+	}
+	w.add("from", from.Value, "to", to.Value)
+	if along != nil {
+		w.add("along", direction(along))
+	}
+	if about != nil {
+		w.add("about", about.Value)
+	}
+	return value, w
 }
 
 // words joins tokens with single spaces.

@@ -153,11 +153,7 @@ func Resolve(f *File) *model.Part {
 			case "iso":
 				p.Standard = model.ISO
 			default:
-				msg := "unknown standard '%s': write asme-2018, asme-2009 or iso"
-				if sg := spell.Nearest(w, model.StandardWords); sg != "" {
-					msg = "unknown standard '%s'; did you mean '" + sg + "'?"
-				}
-				r.errorf(s.Standard.Span(), msg, w)
+				r.unknownWord(s.Standard.Span(), "standard", w, "write asme-2018, asme-2009 or iso", model.StandardWords)
 			}
 			p.Headers = append(p.Headers, model.HeaderLine{Keyword: "standard", Value: w, Span: s.Span()})
 		case *BasisStmt:
@@ -168,11 +164,7 @@ func Resolve(f *File) *model.Part {
 			case "drawing":
 				p.Basis = model.DrawingBasis
 			default:
-				msg := "unknown basis '%s': write 'basis model' (every nominal location and angle of the model is basic) or 'basis drawing'"
-				if sg := spell.Nearest(w, model.BasisWords); sg != "" {
-					msg = "unknown basis '%s'; did you mean '" + sg + "'?"
-				}
-				r.errorf(s.Basis.Span(), msg, w)
+				r.unknownWord(s.Basis.Span(), "basis", w, "write 'basis model' (every nominal location and angle of the model is basic) or 'basis drawing'", model.BasisWords)
 			}
 			p.Headers = append(p.Headers, model.HeaderLine{Keyword: "basis", Value: w, Span: s.Span()})
 		case *FeatureStmt:
@@ -219,6 +211,16 @@ func Resolve(f *File) *model.Part {
 	}
 	p.Finish()
 	return p
+}
+
+// unknownWord reports a word that is none of words: the nearest one
+// suggested, or else the hint.
+func (r *resolver) unknownWord(sp source.Span, what, w, hint string, words []string) {
+	if sg := spell.Nearest(w, words); sg != "" {
+		r.errorf(sp, "unknown %s '%s'; did you mean '%s'?", what, w, sg)
+		return
+	}
+	r.errorf(sp, "unknown %s '%s': %s", what, w, hint)
 }
 
 // geometry forms allowed per kind (the contract's geometry table).
@@ -756,22 +758,28 @@ func (r *resolver) basic(s *BasicStmt) {
 		return
 	}
 	d.Value, d.ValueSpan, d.ValueText, d.Angle = r.num(s.Value), s.Value.Span(), numberText(s.Value), s.Deg
-	d.From, d.To = *r.target(s.From), *r.target(s.To)
-	if s.Along != nil {
-		if v, ok := r.dir(s.Along); ok {
+	r.measure(d, s.From, s.To, s.Along, s.About, "basic")
+	r.p.Dims = append(r.p.Dims, d)
+}
+
+// measure reads what a basic or reference distance or angle is measured
+// between, and along or about what.
+func (r *resolver) measure(d *model.Dimension, from, to *Name, along *Direction, about *Name, keyword string) {
+	d.From, d.To = *r.target(from), *r.target(to)
+	if along != nil {
+		if v, ok := r.dir(along); ok {
 			d.Along = &v
 		}
 		if d.Angle {
-			r.errorf(s.Along.Span(), "'along' measures a length; an angle takes no 'along'")
+			r.errorf(along.Span(), "'along' measures a length; an angle takes no 'along'")
 		}
 	}
-	if s.About != nil {
+	if about != nil {
 		if !d.Angle {
-			r.errorf(s.About.Span(), "'about' belongs to an angle about an axis, e.g. basic 45deg from bolts.1 to C about hub")
+			r.errorf(about.Span(), "'about' belongs to an angle about an axis, e.g. %s 45deg from bolts.1 to C about hub", keyword)
 		}
-		d.About = r.target(s.About)
+		d.About = r.target(about)
 	}
-	r.p.Dims = append(r.p.Dims, d)
 }
 
 func (r *resolver) dim(s *DimStmt) {
@@ -798,20 +806,6 @@ func (r *resolver) ref(s *RefStmt) {
 		return
 	}
 	d.Value, d.ValueSpan, d.ValueText, d.Angle = r.num(s.Value), s.Value.Span(), numberText(s.Value), s.Deg
-	d.From, d.To = *r.target(s.From), *r.target(s.To)
-	if s.Along != nil {
-		if v, ok := r.dir(s.Along); ok {
-			d.Along = &v
-		}
-		if d.Angle {
-			r.errorf(s.Along.Span(), "'along' measures a length; an angle takes no 'along'")
-		}
-	}
-	if s.About != nil {
-		if !d.Angle {
-			r.errorf(s.About.Span(), "'about' belongs to an angle about an axis, e.g. ref 45deg from bolts.1 to C about hub")
-		}
-		d.About = r.target(s.About)
-	}
+	r.measure(d, s.From, s.To, s.Along, s.About, "ref")
 	r.p.Dims = append(r.p.Dims, d)
 }

@@ -2,6 +2,7 @@ package dof
 
 import (
 	"math"
+	"slices"
 	"testing"
 )
 
@@ -36,7 +37,7 @@ func TestContactTargets(t *testing.T) {
 	}
 	for _, c := range cases {
 		d := plate.Analyze(c.refs)
-		if got := constrains(d); !equal(got, c.want) {
+		if got := constrains(d); !slices.Equal(got, c.want) {
 			t.Errorf("%s: constrains %v, want %v", c.name, got, c.want)
 		}
 	}
@@ -48,7 +49,7 @@ func TestContactTargets(t *testing.T) {
 func TestContactIsPartOfPlane(t *testing.T) {
 	n, p := Vec{0, 1, 0}, Vec{30, 0, 7}
 	c := plate.Analyze([]Datum{{contact(n, p)}, {plane(n, p)}})
-	if got := constrains(c); !equal(got, []int{1, 2}) {
+	if got := constrains(c); !slices.Equal(got, []int{1, 2}) {
 		t.Errorf("contact then its plane: %v, want [1 2]", got)
 	}
 	if (Surface{Class: Contact, Point: p}).Valid() {
@@ -57,16 +58,4 @@ func TestContactIsPartOfPlane(t *testing.T) {
 	if got := contact(n, p).conditions(plate); len(got) != 1 {
 		t.Errorf("a contact has %d conditions, want 1", len(got))
 	}
-}
-
-func equal(a, b []int) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if a[i] != b[i] {
-			return false
-		}
-	}
-	return true
 }

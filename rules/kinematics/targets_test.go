@@ -2,6 +2,7 @@ package kinematics
 
 import (
 	"math"
+	"slices"
 	"testing"
 
 	"github.com/datumlint/datumlint/rules/dof"
@@ -74,7 +75,7 @@ func TestTargetDatumsRemoveWhatTheyTouch(t *testing.T) {
 		{[]string{"F"}, []int{4}},
 		{[]string{"G"}, []int{1}},
 	} {
-		if got := steps(c.letters...); !equalCounts(got, c.want) {
+		if got := steps(c.letters...); !slices.Equal(got, c.want) {
 			t.Errorf("%v: constrains %v, want %v", c.letters, got, c.want)
 		}
 	}
@@ -120,16 +121,4 @@ frame bore: position dia 0.2 datums A, B
 	if z := ZoneOf(p.Frames[0]); z.Surfaces[0].Class != dof.Plane || z.Surfaces[0].Dir != (dof.Vec{0, 1, 0}) {
 		t.Errorf("directed zone %+v", z.Surfaces[0])
 	}
-}
-
-func equalCounts(a, b []int) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if a[i] != b[i] {
-			return false
-		}
-	}
-	return true
 }
