@@ -111,14 +111,14 @@ func Resolve(f *File) *model.Part {
 		p.Problemf(model.Syntax, e.Span, "%s", e.Msg)
 	}
 	p.Statements = make([]model.Statement, len(f.Stmts))
-	texts := statementTexts(f, p.Source)
 	for i, st := range f.Stmts {
-		ms := model.Statement{Keyword: st.Keyword(), Span: st.Span(), First: f.Extents[i].First, Last: f.Extents[i].Last, Parsed: true, Text: texts[i]}
+		ms := model.Statement{Keyword: st.Keyword(), Span: st.Span(), First: f.Extents[i].First, Last: f.Extents[i].Last, Parsed: true}
 		if bs, ok := st.(*BadStmt); ok {
 			ms.Parsed, ms.Name, ms.Words = false, bs.Name, bs.Words
 		}
 		p.Statements[i] = ms
 	}
+	trailingComments(f, p.Statements)
 	p.Suppressions = directives(f)
 	// Pass 1: headers and feature declarations, so that references may
 	// come before declarations.
@@ -314,33 +314,22 @@ func (r *resolver) feature(s *FeatureStmt) *model.Feature {
 	return ft
 }
 
-// statementTexts returns each statement's text as written, its physical
-// lines with trailing comments cut and runs of white space made one space.
-func statementTexts(f *File, src *source.File) []string {
-	cut := map[int]int{} // line -> column where its trailing comment starts
+// trailingComments gives each statement the trailing comments on its
+// lines (comments and statements are both in file order).
+func trailingComments(f *File, sts []model.Statement) {
+	k := 0
 	for _, c := range f.Comments {
-		if c.Trailing {
-			cut[c.Span.Start.Line] = c.Span.Start.Col
+		if !c.Trailing {
+			continue
+		}
+		l := c.Span.Start.Line
+		for k < len(sts) && sts[k].Last < l {
+			k++
+		}
+		if k < len(sts) && sts[k].First <= l {
+			sts[k].Comments = append(sts[k].Comments, c.Span)
 		}
 	}
-	out := make([]string, len(f.Extents))
-	var b strings.Builder
-	for i, e := range f.Extents {
-		b.Reset()
-		for l := e.First; l <= e.Last; l++ {
-			line := src.LineBytes(l)
-			if col, ok := cut[l]; ok {
-				line = line[:src.Offset(source.Pos{Line: l, Col: col})-src.Offset(source.Pos{Line: l, Col: 1})]
-			}
-			if l == 1 {
-				line = bytes.TrimPrefix(line, []byte("\ufeff"))
-			}
-			b.Write(line)
-			b.WriteByte(' ')
-		}
-		out[i] = strings.Join(strings.Fields(b.String()), " ")
-	}
-	return out
 }
 
 // datumsSpan covers a tolerance's datum references and the word 'datums'

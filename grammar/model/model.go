@@ -11,7 +11,12 @@
 // precision of values that messages quote, and the suppressions.
 package model
 
-import "github.com/datumlint/datumlint/grammar/source"
+import (
+	"bytes"
+	"strings"
+
+	"github.com/datumlint/datumlint/grammar/source"
+)
 
 // Size is a feature's size or a dimension's tolerance: a nominal with an
 // upper and a lower deviation (limits are stored the same way).
@@ -345,15 +350,36 @@ type Statement struct {
 	First, Last int
 	// Parsed is false for a statement that did not parse.
 	Parsed bool
-	// Text is the statement as written with comments removed and runs of
-	// white space made one space: what it says, apart from where it
-	// stands (SARIF fingerprints hash it).
-	Text string
+	// Comments are the trailing comments on the statement's lines (which
+	// StatementText leaves out).
+	Comments []source.Span
 	// Name is the name or letter a statement that did not parse declares,
 	// where it could be read; Words are the names written in it. They keep
 	// one typo from cascading into name-undefined or datum-unused findings.
 	Name  string
 	Words []string
+}
+
+// StatementText is a statement as written with its trailing comments
+// removed and runs of white space made one space: what it says, apart from
+// where it stands (SARIF fingerprints hash it). A byte order mark is not
+// part of the text.
+func StatementText(src *source.File, st Statement) string {
+	var b strings.Builder
+	for l := st.First; l <= st.Last; l++ {
+		line := src.LineBytes(l)
+		for _, c := range st.Comments {
+			if c.Start.Line == l {
+				line = line[:src.Offset(c.Start)-src.Offset(source.Pos{Line: l, Col: 1})]
+			}
+		}
+		if l == 1 {
+			line = bytes.TrimPrefix(line, []byte("\ufeff"))
+		}
+		b.Write(line)
+		b.WriteByte(' ')
+	}
+	return strings.Join(strings.Fields(b.String()), " ")
 }
 
 // Suppression is an allow directive: `# datumlint: allow RULE -- reason`.
