@@ -14,6 +14,7 @@ import (
 
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/lint/internal/gen"
+	"github.com/datumlint/datumlint/rules/longtest"
 )
 
 // Hostile input: each file gives a clear, positioned finding or none, and
@@ -189,9 +190,7 @@ func TestLineEndsAndBOMDoNotChangeFindings(t *testing.T) {
 // A 10 MB file (built here, not committed): every plate of a generated
 // repository in one file, so every name is declared many times over.
 func TestTenMegabyteFile(t *testing.T) {
-	if testing.Short() {
-		t.Skip("builds and checks a 10 MB file")
-	}
+	longtest.Skip(t, "builds and checks a 10 MB file")
 	var b bytes.Buffer
 	for i := 0; b.Len() < 10<<20; i++ {
 		b.Write(gen.Plate(i))
