@@ -33,6 +33,9 @@ that were read are still shown); 2: usage error or an unreadable file.`,
 		},
 	}
 	cmd.Flags().StringVar(&format, "format", "text", "output format: text or json")
+	if err := cmd.RegisterFlagCompletionFunc("format", fixedValues("text", "one table per frame (the default)", "json", "one object per frame")); err != nil {
+		panic(err)
+	}
 	return cmd
 }
 

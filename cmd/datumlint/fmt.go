@@ -95,12 +95,13 @@ func runFmt(stdout, stderr io.Writer, stdin io.Reader, f *fmtFlags, args []strin
 		}
 		results = append(results, r)
 	} else {
-		files, errs := lint.Collect(paths, nil)
-		for _, e := range errs {
+		found := lint.Collect(paths, nil)
+		printWarnings(stderr, found.Warnings)
+		for _, e := range found.Errors {
 			fmt.Fprintf(stderr, "datumlint: %s\n", e)
 			fail(2)
 		}
-		for _, p := range files {
+		for _, p := range found.Files {
 			src, err := readCallouts(p)
 			if err != nil {
 				fmt.Fprintf(stderr, "datumlint: %s: %v\n", p, err)

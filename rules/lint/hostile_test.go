@@ -278,12 +278,18 @@ func TestUnreadablePaths(t *testing.T) {
 		errs[e.Path] = e.Err.Error()
 	}
 	for path, want := range map[string]string{
-		loop1: "", loop2: "", filepath.Join(dir, "dangling"+Ext): "no such file", folder: "folder", missing: "no such file",
+		loop1: "", loop2: "", filepath.Join(dir, "dangling"+Ext): "no such file", missing: "no such file",
 	} {
 		msg, ok := errs[path]
 		if !ok || !strings.Contains(msg, want) {
 			t.Errorf("%s: want an error containing %q, got %q (reported: %v)", filepath.Base(path), want, msg, res.Errors)
 		}
+	}
+	if _, ok := errs[folder]; ok {
+		t.Errorf("the folder named like a file is an error; it should be a warning only: %v", res.Errors)
+	}
+	if len(res.Warnings) != 1 || res.Warnings[0].Path != folder {
+		t.Errorf("warnings %v, want one about %s", res.Warnings, folder)
 	}
 	checked := map[string]bool{}
 	for _, f := range res.Files {
