@@ -256,6 +256,9 @@ type File struct {
 	Stmts    []Stmt
 	Comments []*Comment
 	Errors   []*SyntaxError
+	// Binary is true for a file that holds binary data (a NUL byte near
+	// its start); it has one error and no statements.
+	Binary bool
 	// Lines maps each statement to the physical lines it spans.
 	Extents []Extent
 }

@@ -56,6 +56,7 @@ func Parse(name string, src []byte) *File {
 	f := &File{Name: name, Src: src}
 	body := bytes.TrimPrefix(src, []byte("\xef\xbb\xbf")) // a byte-order mark is not content
 	if looksBinary(body) {
+		f.Binary = true
 		f.Errors = append(f.Errors, &SyntaxError{
 			Span: source.Span{Start: source.Pos{Line: 1, Col: 1}, End: source.Pos{Line: 1, Col: 2}},
 			Msg:  "this file holds binary data (a NUL byte), not callout text; check that the right file was named",

@@ -107,6 +107,7 @@ func (r *resolver) dir(d *Direction) (model.Vec, bool) {
 func Resolve(f *File) *model.Part {
 	p := model.NewPart(source.NewFile(f.Name, f.Src))
 	r := &resolver{p: p}
+	p.NotText = f.Binary
 	for _, e := range f.Errors {
 		p.Problemf(model.Syntax, e.Span, "%s", e.Msg)
 	}

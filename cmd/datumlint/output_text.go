@@ -87,7 +87,7 @@ func writeText(w io.Writer, res *lint.Result) error {
 			if d.Span.Start.Line == 1 {
 				line = strings.TrimPrefix(line, "\ufeff")
 			}
-			if len(line) > 400 || !utf8.ValidString(line) {
+			if len(line) > 400 || !utf8.ValidString(line) || hasControl(line) {
 				continue // an overlong or binary line helps no one on a terminal
 			}
 			fmt.Fprintf(w, "    %s\n", line)
@@ -95,6 +95,17 @@ func writeText(w io.Writer, res *lint.Result) error {
 		}
 	}
 	return nil
+}
+
+// hasControl reports a control character other than a tab, which a
+// terminal would act on rather than show.
+func hasControl(s string) bool {
+	for _, r := range s {
+		if r < 0x20 && r != '\t' || r == 0x7f {
+			return true
+		}
+	}
+	return false
 }
 
 // underline builds "    ^^^^" under columns [from, to) of line, keeping

@@ -98,6 +98,22 @@ func hostileFiles() map[string]hostile {
 	}
 }
 
+// A binary file is one finding, whatever else it seems to lack or hold: a
+// file that is not text is not also reported as missing its header.
+func TestBinaryFileIsOneFinding(t *testing.T) {
+	for name, src := range map[string]string{
+		"executable":         "\x7fELF\x02\x01\x01\x00\x00\x00\x00\x00" + strings.Repeat("\x00\xff\x10", 300),
+		"header, then a NUL": "units mm\nstandard iso\n\x00\x01",
+		"a NUL, no header":   "frame bore: flatness 0.1\n\x00",
+		"with a BOM":         "\xef\xbb\xbf\x00\x00",
+	} {
+		ds := rules.Check(Read("b"+Ext, []byte(src)), nil)
+		if len(ds) != 1 || ds[0].Rule != rules.Syntax.ID || !strings.Contains(ds[0].Message, "binary data") || ds[0].Span.Start != (source.Pos{Line: 1, Col: 1}) {
+			t.Errorf("%s: want one syntax finding at 1:1 about binary data, got %s", name, summary(ds))
+		}
+	}
+}
+
 // checkPositions fails on a finding whose position is not in its file.
 func checkPositions(t *testing.T, src []byte, ds []rules.Diagnostic) {
 	t.Helper()
