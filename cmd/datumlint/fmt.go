@@ -33,7 +33,8 @@ Folders are walked for *.callouts; with no PATH the current folder is used, and 
 standard input. For one file, stdout is exactly its canonical text; for several, each is
 preceded by a line "==> PATH <==" and followed by a blank line.
 
-  -w       rewrite the files that change, atomically (temporary file and rename, mode kept)
+  -w       rewrite the files that change, atomically (temporary file and rename; mode and
+           line ends kept)
   --check  list the files that would change, and exit 1 if there are any
   --diff   print a unified diff (a/PATH, b/PATH) of what would change
 
