@@ -75,15 +75,7 @@ func slip(sig []token, i int) (source.Span, string) {
 	}
 	isNum := func(k int) bool { return k >= 0 && k < len(sig) && sig[k].Type == tokNumber }
 	join := func(a, b int) source.Span { return source.Span{Start: sig[a].span.Start, End: sig[b].span.End} }
-	depth := 0
-	for _, t := range sig[:i] {
-		switch t.Value {
-		case "(":
-			depth++
-		case ")":
-			depth--
-		}
-	}
+	depth := parenDepth(sig[:i])
 
 	// A decimal comma, 0,1: written as one number, outside a point.
 	if at(i) == "," && depth == 0 && isNum(i-1) && isNum(i+1) && isDigits(at(i+1)) &&
@@ -149,6 +141,20 @@ func slip(sig []token, i int) (source.Span, string) {
 // parentheses: (P15), (U0.2), (p 15) lexes apart.
 var glued = regexp.MustCompile(`^([PpUu])(\d+(?:\.\d+)?)$`)
 
+// parenDepth is how many parentheses the tokens leave open.
+func parenDepth(toks []token) int {
+	depth := 0
+	for _, t := range toks {
+		switch t.Value {
+		case "(":
+			depth++
+		case ")":
+			depth--
+		}
+	}
+	return depth
+}
+
 func isDigits(s string) bool {
 	if s == "" {
 		return false
@@ -198,15 +204,7 @@ func expectation(sig []token, i int) string {
 	}
 	kw := sig[0].Value
 	prev := sig[i-1].Value
-	depth := 0
-	for _, t := range sig[:i] {
-		switch t.Value {
-		case "(":
-			depth++
-		case ")":
-			depth--
-		}
-	}
+	depth := parenDepth(sig[:i])
 	if depth > 0 && kw != "frame" {
 		if i < len(sig) && sig[i].Value == ")" {
 			return "a point or vector has three coordinates, (x, y, z)"

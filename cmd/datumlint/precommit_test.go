@@ -20,7 +20,8 @@ import (
 // tried offline against the local module cache (GOPROXY=off) and skipped
 // with a message when that cache does not hold them.
 //
-// A long test (go test -tags long; .ci/run runs it): it takes about 15 s.
+// A long test (go test -tags long; .ci/run runs it): it takes 15 s on an
+// idle two-core machine, nearer a minute on a busy one.
 // Needs pre-commit and git on PATH (Debian: apt-get install pre-commit);
 // skipped otherwise and under -short.
 
