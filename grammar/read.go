@@ -107,6 +107,7 @@ func (r *resolver) dir(d *Direction) (model.Vec, bool) {
 func Resolve(f *File) *model.Part {
 	p := model.NewPart(source.NewFile(f.Name, f.Src))
 	r := &resolver{p: p}
+	p.NotText = f.Binary
 	for _, e := range f.Errors {
 		p.Problemf(model.Syntax, e.Span, "%s", e.Msg)
 	}
@@ -162,7 +163,7 @@ func Resolve(f *File) *model.Part {
 		case *FeatureStmt:
 			p.Declare(r.feature(s))
 		case *BadStmt:
-			if s.Word == "feature" && s.Name != "" {
+			if s.Declares("feature") {
 				p.Declare(&model.Feature{Name: s.Name, Span: s.Span(), NameSpan: s.Span(), Broken: true})
 			}
 		}
@@ -180,7 +181,7 @@ func Resolve(f *File) *model.Part {
 		case *DatumStmt:
 			r.datum(s)
 		case *BadStmt:
-			if s.Word == "datum" && s.Name != "" {
+			if s.Declares("datum") {
 				p.AddDatum(&model.Datum{Letter: s.Name, Span: s.Span(), LetterSpan: s.Span(), Broken: true})
 			}
 		}
@@ -449,6 +450,8 @@ func (r *resolver) frame(s *FrameStmt) {
 		msg := fmt.Sprintf("unknown characteristic '%s': use one of %s", c, strings.Join(CharacteristicWords, ", "))
 		if sg := spell.Nearest(c, CharacteristicWords); sg != "" {
 			msg = fmt.Sprintf("unknown characteristic '%s'; did you mean '%s'?", c, sg)
+		} else if strings.EqualFold(c, "profile") {
+			msg = "'profile' alone names no characteristic: write surface-profile (profile of a surface) or line-profile (profile of a line)"
 		}
 		r.errorf(s.Characteristic.Span(), "%s", msg)
 	}

@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"github.com/datumlint/datumlint/grammar/source"
+	"github.com/datumlint/datumlint/grammar/spell"
 
 	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/rules/basics"
@@ -185,6 +186,32 @@ func All() []*Rule {
 
 // Lookup returns the rule with the identifier, or nil.
 func Lookup(id string) *Rule { return registry[id] }
+
+// IDs returns every rule identifier, sorted.
+func IDs() []string {
+	all := All()
+	out := make([]string, len(all))
+	for i, r := range all {
+		out[i] = r.ID
+	}
+	return out
+}
+
+// Suggest returns the rule identifier that an unknown one probably meant,
+// or "": the same words in another case or joined by '_' or spaces
+// (Basic-Missing, basic_missing), or a typo of at most two edits
+// (basic-missng). Every place that takes a rule identifier (explain,
+// --enable and --disable, allow comments, .datumlint.toml) offers it.
+func Suggest(id string) string {
+	norm := strings.NewReplacer("_", "-", " ", "-").Replace(strings.ToLower(strings.TrimSpace(id)))
+	if Lookup(norm) != nil {
+		return norm
+	}
+	if norm == "" {
+		return ""
+	}
+	return spell.Nearest(norm, IDs())
+}
 
 // Validate reports what is missing from a rule's documentation.
 func Validate(r *Rule) error {

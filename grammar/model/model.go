@@ -424,6 +424,11 @@ type Part struct {
 	Statements []Statement
 	// Suppressions are the allow directives, in file order.
 	Suppressions []*Suppression
+	// NotText marks a file that is not text in the reader's format at all
+	// (binary data): its one Syntax problem says so, and nothing is said
+	// of what such a file lacks (no header-missing), so that it gets one
+	// finding.
+	NotText bool
 
 	// Center and Scale describe the part's extent: the centre and the
 	// diagonal of the box around all nominal points (at least 1).
