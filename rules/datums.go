@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"fmt"
 	"regexp"
 	"slices"
 	"strings"
@@ -133,4 +134,128 @@ func badLetters(s string) string {
 		}
 	}
 	return strings.Join(out, " and ")
+}
+
+// DatumSameFeature reports one feature designated by two datum letters.
+var DatumSameFeature = Register(&Rule{
+	ID:       "datum-same-feature",
+	Summary:  "one feature (or pattern member) designated by two datum letters",
+	Severity: Warning,
+	Rationale: `A datum feature symbol identifies a feature as a datum feature, and its letter is how frames
+refer to it. Two letters on one feature give the same datum two names: a reader cannot tell
+whether frames that use different letters mean different setups, each letter must be
+qualified on its own, and a frame that references both references one datum twice. Use one
+letter and reference it wherever the datum is meant. A width and one of its faces, or a
+pattern and one of its members, are different features and are not reported.`,
+	Source: "ASME Y14.5-2018, datum feature symbol (a datum feature is identified by a letter; from memory, section 6); common practice",
+	Bad:    "feature base plane normal -z at (0, 0, 0)\ndatum A on base\ndatum D on base",
+	Good:   "feature base plane normal -z at (0, 0, 0)\ndatum A on base",
+	Run: func(p *Pass) {
+		type key struct {
+			f *model.Feature
+			m *model.Member
+		}
+		first := map[key]*model.Datum{}
+		for _, d := range p.Part.Datums {
+			if !d.Usable() {
+				continue
+			}
+			k := key{d.Target.Feature, d.Target.Member}
+			f := first[k]
+			switch {
+			case f == nil:
+				first[k] = d
+			case f.Letter != d.Letter: // the same letter twice is datum-duplicate's
+				p.ReportRelated(d.LetterSpan, []Related{{f.LetterSpan, "datum " + f.Letter + " is on the same feature"}},
+					"'%s' is already datum %s (line %d): one feature takes one datum letter; remove this symbol and reference %s where %s is used",
+					d.Target.Name, f.Letter, f.LetterSpan.Start.Line, f.Letter, d.Letter)
+			}
+		}
+	},
+})
+
+// DatumSelfReference reports a frame on a datum feature that references
+// the datum that feature alone establishes.
+var DatumSelfReference = Register(&Rule{
+	ID:       "datum-self-reference",
+	Summary:  "a frame on a datum feature that references the datum that feature alone establishes",
+	Severity: Error,
+	Rationale: `A tolerance relates the feature it is on to the datums it references. A datum feature's own
+datum is simulated from that very feature, so a frame on it that references its own letter
+relates the feature to itself: perpendicularity of the back face to A, B with B on the back
+face asks nothing of B (only of A), and runout of a journal to its own axis reads nothing
+but the journal's form. It is a slip for the datum meant (often the primary alone, or the
+common datum of two journals), or for a form tolerance. A datum feature controlled to a
+common datum that it is one of is right and not reported: runout of journals A and B to
+A-B is the standard's way of relating two coaxial journals to the axis they establish
+together. A form frame with datums is datums-forbidden's finding alone.`,
+	Source: "ASME Y14.5-2018, datum reference frames and datum feature controls (a datum feature is related to other datums, or to a common datum it helps establish: coaxial journals to A-B; from memory, sections 7 and 12); ISO 5459:2011, datums and common datums",
+	Bad: `feature base plane normal -z at (0, 0, 0)
+feature back plane normal -y at (0, 0, 0)
+datum A on base
+datum B on back
+frame back: perpendicularity 0.05 datums A, B`,
+	Good: `feature base plane normal -z at (0, 0, 0)
+feature back plane normal -y at (0, 0, 0)
+datum A on base
+datum B on back
+frame back: perpendicularity 0.05 datums A`,
+	Run: func(p *Pass) {
+		for _, fr := range p.Part.Frames {
+			if !fr.Target.Known() || fr.Characteristic.Category() == model.Form || fr.Characteristic.Category() == model.CategoryUnknown {
+				continue // a form frame with datums is datums-forbidden's finding
+			}
+			if r, d := selfReference(fr); r != nil {
+				p.Report(r.Span, "%s", selfReferenceMessage(fr, r, d))
+			}
+		}
+	},
+})
+
+// selfReference returns the first reference of the frame (in any segment)
+// to a single datum established by the frame's own target, or nil. A
+// common datum the target is one of (journal A to A-B) is not one.
+func selfReference(fr *model.Frame) (*model.DatumRef, *model.Datum) {
+	for _, seg := range fr.Segments {
+		for _, r := range seg.Refs {
+			if r.Common() || len(r.Datums) != 1 || !r.Datums[0].Usable() {
+				continue
+			}
+			d := r.Datums[0]
+			if d.Target.Feature == fr.Target.Feature && d.Target.Member == fr.Target.Member {
+				return r, d
+			}
+		}
+	}
+	return nil, nil
+}
+
+func selfReferenceMessage(fr *model.Frame, r *model.DatumRef, d *model.Datum) string {
+	head := fmt.Sprintf("'%s' establishes datum %s itself, so this %s relates it to itself", fr.Target.Name, d.Letter, fr.Characteristic)
+	var seg *model.Segment
+	for _, s := range fr.Segments {
+		for _, sr := range s.Refs {
+			if sr == r {
+				seg = s
+			}
+		}
+	}
+	var rest []string
+	for _, o := range seg.Refs {
+		if o != r {
+			rest = append(rest, o.Name+materialText(o))
+		}
+	}
+	if len(rest) > 0 {
+		return fmt.Sprintf("%s: remove %s from the references (`datums %s`)", head, d.Letter, strings.Join(rest, ", "))
+	}
+	return fmt.Sprintf("%s: reference the datum it must be related to instead of %s (another feature's datum, or a common datum it is one of, such as the axis of two coaxial journals); if only its form was meant, use a form tolerance without datums", head, d.Letter)
+}
+
+// materialText writes a reference's material boundary as the notation does.
+func materialText(r *model.DatumRef) string {
+	if r.Material == "" {
+		return ""
+	}
+	return "(" + r.Material + ")"
 }
