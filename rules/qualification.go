@@ -157,7 +157,10 @@ var formChars = map[model.Kind]struct {
 
 // hasFormControl reports whether the target carries a form control for its
 // kind. Frames that reference the datum's own letter do not count (a
-// feature cannot be controlled relative to itself).
+// feature cannot be controlled relative to itself: datum-self-reference),
+// except form frames: a form tolerance wrongly given datums still controls
+// form, and datums-forbidden alone reports the datums (one mistake, one
+// finding).
 func hasFormControl(part *model.Part, t *model.Target, letter string) bool {
 	fc, ok := formChars[t.Feature.Kind]
 	if !ok {
@@ -165,7 +168,7 @@ func hasFormControl(part *model.Part, t *model.Target, letter string) bool {
 	}
 	have := map[model.Characteristic]bool{}
 	for _, fr := range framesOnDatum(part, t) {
-		if letter != "" && fr.RefersTo(letter) {
+		if letter != "" && fr.RefersTo(letter) && fr.Characteristic.Category() != model.Form {
 			continue
 		}
 		have[fr.Characteristic] = true
