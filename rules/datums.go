@@ -202,44 +202,58 @@ datum B on back
 frame back: perpendicularity 0.05 datums A`,
 	Run: func(p *Pass) {
 		for _, fr := range p.Part.Frames {
-			if !fr.Target.Known() || fr.Characteristic.Category() == model.Form || fr.Characteristic.Category() == model.CategoryUnknown {
+			c := fr.Characteristic
+			if !fr.Target.Known() || c.Category() == model.Form || c.Category() == model.CategoryUnknown {
 				continue // a form frame with datums is datums-forbidden's finding
 			}
-			if r, d := selfReference(fr); r != nil {
-				p.Report(r.Span, "%s", selfReferenceMessage(fr, r, d))
+			if withdrawn(p.Part, c) {
+				continue // characteristic-withdrawn reports the frame
 			}
+			r, d, seg, k := selfReference(fr)
+			if r == nil {
+				continue
+			}
+			if a := p.Kinematics().Segment(fr, seg); a.Resolved && k < len(a.DRF.Steps()) && a.DRF.Steps()[k].Constrains == 0 {
+				continue // it removes nothing: datum-redundant's finding, which says why
+			}
+			p.Report(r.Span, "%s", selfReferenceMessage(fr, fr.Segments[seg], r, d))
 		}
 	},
 })
 
-// selfReference returns the first reference of the frame (in any segment)
-// to a single datum established by the frame's own target, or nil. A
-// common datum the target is one of (journal A to A-B) is not one.
-func selfReference(fr *model.Frame) (*model.DatumRef, *model.Datum) {
-	for _, seg := range fr.Segments {
-		for _, r := range seg.Refs {
-			if r.Common() || len(r.Datums) != 1 || !r.Datums[0].Usable() {
-				continue
-			}
-			d := r.Datums[0]
-			if d.Target.Feature == fr.Target.Feature && d.Target.Member == fr.Target.Member {
-				return r, d
-			}
-		}
-	}
-	return nil, nil
+// withdrawn reports whether the edition has no such characteristic
+// (characteristic-withdrawn's finding, which other rules leave alone).
+func withdrawn(part *model.Part, c model.Characteristic) bool {
+	return part.Standard == model.ASME2018 && (c == model.Concentricity || c == model.Symmetry)
 }
 
-func selfReferenceMessage(fr *model.Frame, r *model.DatumRef, d *model.Datum) string {
-	head := fmt.Sprintf("'%s' establishes datum %s itself, so this %s relates it to itself", fr.Target.Name, d.Letter, fr.Characteristic)
-	var seg *model.Segment
-	for _, s := range fr.Segments {
-		for _, sr := range s.Refs {
-			if sr == r {
-				seg = s
+// selfReference returns the first reference of the frame (in any segment)
+// to a single datum established by the frame's own target, with the
+// segment's and the reference's index, or nil. A common datum the target
+// is one of (journal A to A-B) is not one.
+func selfReference(fr *model.Frame) (*model.DatumRef, *model.Datum, int, int) {
+	for i, seg := range fr.Segments {
+		for k, r := range seg.Refs {
+			if isSelfReference(fr, r) {
+				return r, r.Datums[0], i, k
 			}
 		}
 	}
+	return nil, nil, 0, 0
+}
+
+// isSelfReference reports whether the reference is a single datum that the
+// frame's own target establishes.
+func isSelfReference(fr *model.Frame, r *model.DatumRef) bool {
+	if r.Common() || len(r.Datums) != 1 || !r.Datums[0].Usable() {
+		return false
+	}
+	t := r.Datums[0].Target
+	return t.Feature == fr.Target.Feature && t.Member == fr.Target.Member
+}
+
+func selfReferenceMessage(fr *model.Frame, seg *model.Segment, r *model.DatumRef, d *model.Datum) string {
+	head := fmt.Sprintf("'%s' establishes datum %s itself, so this %s relates it to itself", fr.Target.Name, d.Letter, fr.Characteristic)
 	var rest []string
 	for _, o := range seg.Refs {
 		if o != r {
