@@ -128,7 +128,10 @@ var ZoneShape = Register(&Rule{
 a width's mid-plane or a form tolerance of a surface has a zone between two parallel planes
 or surfaces, and a sphere's centre a spherical zone (sdia). Conversely, the position of a
 hole or pin is nearly always meant as a cylindrical zone; without dia it is a zone between
-two parallel planes, in one direction only.`,
+two parallel planes, in one direction only. Two cases are characteristic-mismatch's finding
+instead, so that one mistake gives one finding: dia on the orientation of a feature without
+an axis, and any zone of a form characteristic on a kind it does not apply to (flatness dia
+on a pin).`,
 	Source: "ASME Y14.5-2018, tolerance zones (diameter symbol, spherical diameter); ISO 1101:2017, tolerance zone shapes",
 	Bad:    "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position 0.1 datums A, B, C",
 	Good:   "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position dia 0.1 datums A, B, C",
@@ -138,6 +141,9 @@ two parallel planes, in one direction only.`,
 				continue
 			}
 			k := fr.Target.Feature.Kind
+			if formMismatch(fr.Characteristic, k) != "" {
+				continue // the characteristic itself is wrong: characteristic-mismatch
+			}
 			for _, seg := range fr.Segments {
 				if seg.ZoneText != "" && seg.Zone == "" {
 					continue // the word in the zone's place is reported already
@@ -168,7 +174,8 @@ func zoneProblem(c model.Characteristic, k model.Kind, zone string) string {
 			return fmt.Sprintf("%s has a zone between two surfaces, not a cylinder: remove dia", c)
 		case c == model.Straightness && !axial:
 			return fmt.Sprintf("straightness of a %s's surface lines has a zone between two lines: remove dia (dia applies to the axis of a hole or pin)", k)
-		case !axial && k != model.KindUnknown && (cat == model.Location || cat == model.Orientation):
+		case !axial && k != model.KindUnknown && cat == model.Location:
+			// (On orientation it is characteristic-mismatch's finding.)
 			return fmt.Sprintf("a %s has no axis, so its %s zone cannot be a cylinder: remove dia (the zone is two parallel planes)", k, c)
 		}
 	case "sdia":
