@@ -108,23 +108,47 @@ var DatumLetter = Register(&Rule{
 	ID:       "datum-letter",
 	Summary:  "a datum letter the standard does not use (I, O, Q), or one that is not one or two capitals",
 	Severity: Error,
-	Rationale: `The letters I, O and Q are not used to identify datum features because they are easily
-read as the digits 1 and 0. When the single letters are used up, double letters follow
-(AA, AB, ...). Lower case letters and longer names are not datum feature identifiers.`,
-	Source: "ASME Y14.5-2018, datum feature symbol letters (I, O and Q not used; from memory, section 7); ISO 5459:2011",
-	Bad:    "datum O on base",
-	Good:   "datum A on base",
+	Rationale: `ASME Y14.5 does not use the letters I, O and Q to identify datum features, because they are
+easily read as the digits 1 and 0; when the single letters are used up, double letters follow
+(AA, AB, ...). Lower case letters and longer names are not datum feature identifiers.
+
+ISO 5459 identifies datums by capital letters too. Whether it excludes the same three letters
+datumlint could not check against the text: from memory it gives no such list. datumlint keeps
+the conservative reading and applies the ASME exclusion under iso as well (a letter that reads
+as a digit misleads on any drawing), and its message says which standard the rule comes from.`,
+	Source: "ASME Y14.5-2018 and -2009, datum feature symbol letters (I, O and Q not used; from memory, 2018 section 6); ISO 5459:2011, datum letters are capitals (no exclusion list as far as datumlint knows, from memory)",
+	Bad:  "datum O on base",
+	Good: "datum A on base",
 	Run: func(p *Pass) {
 		for _, d := range p.Part.Datums {
 			switch {
 			case !letterRE.MatchString(d.Letter):
-				p.Report(d.LetterSpan, "'%s' is not a datum letter: use one or two capital letters, A to Z, then AA, AB, ...", d.Letter)
+				p.Report(d.LetterSpan, "'%s' is not a datum letter: %s identify datum features by one or two capital letters, A to Z, then AA, AB, ...; use one", d.Letter, letterStandard(p.Part.Standard))
 			case strings.ContainsAny(d.Letter, "IOQ"):
-				p.Report(d.LetterSpan, "datum letter %s uses %s, which the standard does not use (it reads as a digit); choose another letter", d.Letter, badLetters(d.Letter))
+				p.Report(d.LetterSpan, "datum letter %s uses %s, %s; choose another letter", d.Letter, badLetters(d.Letter), excludedBy(p.Part.Standard))
 			}
 		}
 	},
 })
+
+// letterStandard names the standards whose datum letters the part uses.
+func letterStandard(s model.Standard) string {
+	if s.IsASME() {
+		return editionName(s)
+	}
+	return "ISO 5459 and ASME Y14.5"
+}
+
+// excludedBy says which standard excludes I, O and Q, for the message.
+func excludedBy(s model.Standard) string {
+	switch s {
+	case model.ISO:
+		return "which ASME Y14.5 does not use in datum letters (I, O and Q read as the digits 1 and 0) (ISO 5459 asks for capital letters and, as far as datumlint knows, lists no exclusion; datumlint applies the ASME rule under ISO too)"
+	case model.ASME2018, model.ASME2009:
+		return "which " + editionName(s) + " does not use in datum letters (I, O and Q read as the digits 1 and 0)"
+	}
+	return "which ASME Y14.5 does not use in datum letters (I, O and Q read as the digits 1 and 0)"
+}
 
 func badLetters(s string) string {
 	var out []string
