@@ -143,7 +143,7 @@ func letterStandard(s model.Standard) string {
 func excludedBy(s model.Standard) string {
 	switch s {
 	case model.ISO:
-		return "which ASME Y14.5 does not use in datum letters (I, O and Q read as the digits 1 and 0) (ISO 5459 asks for capital letters and, as far as datumlint knows, lists no exclusion; datumlint applies the ASME rule under ISO too)"
+		return "which ASME Y14.5 does not use in datum letters (I, O and Q read as the digits 1 and 0; ISO 5459 asks for capital letters and, as far as datumlint knows, lists no exclusion, so datumlint applies the ASME rule under ISO too)"
 	case model.ASME2018, model.ASME2009:
 		return "which " + editionName(s) + " does not use in datum letters (I, O and Q read as the digits 1 and 0)"
 	}
