@@ -117,8 +117,8 @@ datumlint could not check against the text: from memory it gives no such list. d
 the conservative reading and applies the ASME exclusion under iso as well (a letter that reads
 as a digit misleads on any drawing), and its message says which standard the rule comes from.`,
 	Source: "ASME Y14.5-2018 and -2009, datum feature symbol letters (I, O and Q not used; from memory, 2018 section 6); ISO 5459:2011, datum letters are capitals (no exclusion list as far as datumlint knows, from memory)",
-	Bad:  "datum O on base",
-	Good: "datum A on base",
+	Bad:    "datum O on base",
+	Good:   "datum A on base",
 	Run: func(p *Pass) {
 		for _, d := range p.Part.Datums {
 			switch {
