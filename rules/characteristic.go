@@ -53,7 +53,7 @@ func runCharacteristicMismatch(p *Pass) {
 		}
 		f, c, seg := fr.Target.Feature, fr.Characteristic, fr.Upper()
 		if msg := formMismatch(c, f.Kind); msg != "" {
-			p.Report(fr.CharSpan, "%s", msg)
+			p.Report(fr.CharSpan, "%s: use %s", msg, formFor(f.Kind, seg.Zone))
 			continue
 		}
 		switch c.Category() {
@@ -82,28 +82,31 @@ func formMismatch(c model.Characteristic, k model.Kind) string {
 		if k.IsCylinder() || k == model.Extrusion || k == model.Surface || k == model.KindUnknown {
 			return ""
 		}
-		return fmt.Sprintf("cylindricity applies to a cylinder (a hole or pin), and a %s is not one: use %s", k, formFor(k))
+		return fmt.Sprintf("cylindricity applies to a cylinder (a hole or pin), and a %s is not one", k)
 	case model.Circularity:
 		if k == model.Plane || k.IsWidth() {
-			return fmt.Sprintf("circularity applies to a feature of revolution (a hole, pin, cone or sphere), and a %s has no circular elements: use %s", k, formFor(k))
+			return fmt.Sprintf("circularity applies to a feature of revolution (a hole, pin, cone or sphere), and a %s has no circular elements", k)
 		}
 	case model.Flatness:
 		if k.IsCylinder() || k.IsSphere() || k == model.Cone {
-			return fmt.Sprintf("flatness applies to a plane or a width's median plane, and a %s is not flat: use %s", k, formFor(k))
+			return fmt.Sprintf("flatness applies to a plane or a width's median plane, and a %s is not flat", k)
 		}
 	}
 	return ""
 }
 
-// formFor names the form control that suits a kind, for a message.
-func formFor(k model.Kind) string {
+// formFor names the form control that suits a kind, for a message, and
+// says to drop a dia that the control would not take.
+func formFor(k model.Kind, zone string) string {
 	switch {
-	case k == model.Plane || k.IsWidth():
-		return "flatness"
+	case k.IsCylinder() && zone == "dia":
+		return "straightness dia for its axis (or cylindricity, without dia, for its surface)"
 	case k.IsCylinder():
 		return "cylindricity (or straightness dia for its axis)"
+	case zone == "dia":
+		return string(formCharFor(k)) + " without dia"
 	}
-	return "circularity"
+	return string(formCharFor(k))
 }
 
 // element is a feature's geometric element for orientation: a plane (a

@@ -287,7 +287,21 @@ func selfReferenceMessage(fr *model.Frame, seg *model.Segment, r *model.DatumRef
 	if len(rest) > 0 {
 		return fmt.Sprintf("%s: remove %s from the references (`datums %s`)", head, d.Letter, strings.Join(rest, ", "))
 	}
-	return fmt.Sprintf("%s: reference the datum it must be related to instead of %s (another feature's datum, or a common datum it is one of, such as the axis of two coaxial journals); if only its form was meant, use a form tolerance without datums", head, d.Letter)
+	return fmt.Sprintf("%s: reference the datum it must be related to instead of %s (another feature's datum, or a common datum it is one of, such as the axis of two coaxial journals), or, if only its form was meant, write a form tolerance without datums, e.g. `frame %s: %s %s`",
+		head, d.Letter, fr.Target.Name, formCharFor(fr.Target.Feature.Kind), seg.ValueText)
+}
+
+// formCharFor is the form characteristic that suits a kind on its own.
+func formCharFor(k model.Kind) model.Characteristic {
+	switch {
+	case k == model.Plane || k.IsWidth():
+		return model.Flatness
+	case k.IsCylinder():
+		return model.Cylindricity
+	case k.IsSphere() || k == model.Cone:
+		return model.Circularity
+	}
+	return model.SurfaceProfile
 }
 
 // materialText writes a reference's material boundary as the notation does.
