@@ -31,7 +31,11 @@ keeps dia on other characteristics). Runout applies to surfaces constructed arou
 axis and to faces at right angles to it: the runout of a plane whose normal is not along the
 datum axis is read on a surface that swings as the part turns, and profile is the control for
 it. The angle is checked against the primary datum (for runout, the axis the datums give),
-allowing for the rounding of directions written with three or more decimals.`,
+allowing for the rounding of directions written with three or more decimals. Where the angle to
+the primary is an implied 0 or 90 degrees, a later datum of the frame may carry the relation
+(perpendicularity to A, B of a hole that lies parallel to A and across B), which is not
+reported; and angularity is information only where it is at 0 or 90 degrees to every datum it
+references (at another angle to a secondary datum it is a compound angle, angularity's own).`,
 	Source: "ASME Y14.5-2018, form tolerances (flatness, circularity, cylindricity: the features each applies to), orientation tolerances (parallelism, perpendicularity, angularity at a basic angle) and runout (surfaces around or at right angles to the datum axis), from memory, sections 8, 9 and 12; ISO 1101:2017, the same characteristics",
 	Bad: `feature base plane normal -z at (0, 0, 0)
 feature top plane normal +z at (0, 0, 10)
@@ -182,46 +186,82 @@ func dirSlack(f *model.Feature) float64 {
 }
 
 // orientationMismatch reports perpendicularity, parallelism or angularity
-// that the nominal angle to the primary datum contradicts.
+// that the nominal angle to the primary datum contradicts. A later datum
+// may carry the relation when the primary's angle is an implied 0 or 90
+// degrees (a hole parallel to A and perpendicular to B under
+// perpendicularity to A, B orients its zone by both; ASME Y14.5-2018,
+// orientation tolerances with more than one datum, from memory), so that
+// is not reported; and angularity is reported as information only where
+// every datum it references is at 0 or 90 degrees (at another angle to a
+// secondary datum it is a compound angle, which is angularity's).
 func orientationMismatch(p *Pass, fr *model.Frame) {
 	refs := fr.Upper().Refs
 	if len(refs) == 0 {
 		return // datums-required
 	}
-	fe, de := elementOf(fr.Target.Feature), refElement(refs[0])
-	if !fe.exists || !de.exists || fe.of == de.of {
-		return // a self-reference is datum-self-reference's
+	fe := elementOf(fr.Target.Feature)
+	if !fe.exists {
+		return
 	}
-	ang, slack := fe.angleTo(de), fe.slack+de.slack
-	parallel, perpendicular := ang <= slack, ang >= 90-slack
+	type rel struct{ parallel, perpendicular bool }
+	var rels []rel
+	var ang float64
+	for i, r := range refs {
+		de := refElement(r)
+		if !de.exists || de.of == fe.of {
+			if i == 0 {
+				return // a self-reference is datum-self-reference's
+			}
+			continue
+		}
+		a, slack := fe.angleTo(de), fe.slack+de.slack
+		if i == 0 {
+			ang = a
+		}
+		rels = append(rels, rel{a <= slack, a >= 90-slack})
+	}
+	primary := rels[0]
+	implied := primary.parallel || primary.perpendicular
+	holds := func(perpendicular bool) bool {
+		for i, r := range rels {
+			if (i == 0 || implied) && (perpendicular && r.perpendicular || !perpendicular && r.parallel) {
+				return true
+			}
+		}
+		return false
+	}
 	f, c := fr.Target.Feature, fr.Characteristic
 	how := fmt.Sprintf("at %s degrees to", trimFloat(ang))
 	switch {
-	case parallel:
+	case primary.parallel:
 		how = "parallel to"
-	case perpendicular:
+	case primary.perpendicular:
 		how = "perpendicular to"
 	}
 	what := fmt.Sprintf("the %s '%s' is %s datum %s in the model", kindWord(f), fr.Target.Name, how, refs[0].Name)
 	switch c {
 	case model.Perpendicularity, model.Parallelism:
-		want := map[model.Characteristic]bool{model.Perpendicularity: perpendicular, model.Parallelism: parallel}[c]
-		if want {
+		if holds(c == model.Perpendicularity) {
 			return
 		}
 		switch {
-		case parallel:
+		case primary.parallel:
 			p.Report(fr.CharSpan, "%s, so %s cannot hold: write `%s`", what, c, frameText(fr, model.Parallelism))
-		case perpendicular:
+		case primary.perpendicular:
 			p.Report(fr.CharSpan, "%s, so %s cannot hold: write `%s`", what, c, frameText(fr, model.Perpendicularity))
 		default:
 			p.Report(fr.CharSpan, "%s, so %s cannot hold: write `%s`, at the basic angle of %s degrees", what, c, frameText(fr, model.Angularity), trimFloat(ang))
 		}
 	case model.Angularity:
+		for _, r := range rels {
+			if !r.parallel && !r.perpendicular {
+				return
+			}
+		}
 		switch {
-		case parallel:
+		case primary.parallel:
 			p.Inform(fr.CharSpan, nil, "%s: at a nominal 0 degrees parallelism says this directly, `%s`", what, frameText(fr, model.Parallelism))
-		case perpendicular:
+		case primary.perpendicular:
 			p.Inform(fr.CharSpan, nil, "%s: at a nominal 90 degrees perpendicularity says this directly, `%s`", what, frameText(fr, model.Perpendicularity))
 		}
 	}
