@@ -343,6 +343,20 @@ func statementTexts(f *File, src *source.File) []string {
 	return out
 }
 
+// datumsSpan covers a tolerance's datum references and the word 'datums'
+// before them (the tree does not keep the keyword: it is the last
+// 'datums' between the segment's start and its first reference).
+func (r *resolver) datumsSpan(t *Tolerance) source.Span {
+	src := r.p.Source
+	first, last := t.Datums[0].Span(), t.Datums[len(t.Datums)-1].Span()
+	from, to := src.Offset(t.Span().Start), src.Offset(first.Start)
+	sp := source.Span{Start: first.Start, End: last.End}
+	if i := bytes.LastIndex(src.Src[from:to], []byte("datums")); i >= 0 {
+		sp.Start = src.Position(from + i)
+	}
+	return sp
+}
+
 // unwritten is the one member of a feature whose point was not written
 // (a width between two faces gets its point in pass 2).
 func unwritten(ft *model.Feature) *model.Member {
@@ -512,7 +526,11 @@ func (r *resolver) segment(t *Tolerance, composite bool) *model.Segment {
 		}
 		// The ref's own span ends at the letters; the modifier is separate.
 		ref.Span = source.Span{Start: d.Span().Start, End: source.Pos{Line: d.Span().Start.Line, Col: d.Span().Start.Col + len([]rune(d.Name))}}
+		ref.FullSpan = d.Span()
 		seg.Refs = append(seg.Refs, ref)
+	}
+	if len(t.Datums) > 0 {
+		seg.DatumsSpan = r.datumsSpan(t)
 	}
 	return seg
 }

@@ -220,3 +220,14 @@ func TestReaderRecordsTheFileAsWritten(t *testing.T) {
 		t.Error("frames and datums are indexed by feature")
 	}
 }
+
+func TestDatumsSpans(t *testing.T) {
+	p := grammar.Read("t", []byte("units mm\nstandard iso\nfeature a plane normal +z at (0,0,0)\nframe a: flatness 0.1 datums A, B (M)\n"))
+	seg := p.Frames[0].Upper()
+	if sp := seg.DatumsSpan; sp.Start.Col != 23 || sp.End.Col != 38 {
+		t.Errorf("datums span %v, want 4:23-4:38", sp)
+	}
+	if sp := seg.Refs[1].FullSpan; sp.Start.Col != 33 || sp.End.Col != 38 {
+		t.Errorf("B (M) span %v", sp)
+	}
+}

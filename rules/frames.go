@@ -18,6 +18,7 @@ tolerance.`,
 	Source: "ASME Y14.5-2018, form tolerances (not related to datums); ISO 1101:2017, form tolerances have no datum",
 	Bad:    "frame base: flatness 0.02 datums A",
 	Good:   "frame base: flatness 0.02",
+	Fix:    "remove the datum references",
 	Run: func(p *Pass) {
 		for _, fr := range p.Part.Frames {
 			if fr.Characteristic.Category() != model.Form {
@@ -25,7 +26,9 @@ tolerance.`,
 			}
 			for _, seg := range fr.Segments {
 				if len(seg.Refs) > 0 {
-					p.Report(seg.RefsSpan(), "%s is a form tolerance and takes no datums: remove 'datums ...' (add a separate orientation or location frame if the feature must relate to a datum)", fr.Characteristic)
+					p.ReportDiagnostic(Diagnostic{Span: seg.RefsSpan(),
+						Message: fmt.Sprintf("%s is a form tolerance and takes no datums: remove 'datums ...' (add a separate orientation or location frame if the feature must relate to a datum)", fr.Characteristic),
+						Fixes:   []Fix{{Message: "remove the datum references", Edits: []Edit{deleteWithBlankBefore(p.Part.Source, seg.DatumsSpan)}}}})
 				}
 			}
 		}
@@ -70,6 +73,7 @@ both.`,
 	Source: "ASME Y14.5-2018, foreword and section 1 (concentricity and symmetry removed); ISO 1101:2017 keeps them",
 	Bad:    "standard asme-2018\nframe hub: concentricity dia 0.05 datums A",
 	Good:   "standard asme-2018\nframe hub: position dia 0.05 datums A",
+	Fix:    "write position in its place, with dia for the coaxiality of a cylinder",
 	Run: func(p *Pass) {
 		if p.Part.Standard != model.ASME2018 {
 			return
@@ -77,9 +81,17 @@ both.`,
 		for _, fr := range p.Part.Frames {
 			switch fr.Characteristic {
 			case model.Concentricity:
-				p.Report(fr.CharSpan, "ASME Y14.5-2018 has no concentricity: use position (dia zone) for coaxiality, or circular runout, to the same datums")
+				edits := []Edit{replace(fr.CharSpan, string(model.Position))}
+				if up := fr.Upper(); up.Zone == "" && up.ZoneText == "" && fr.Target.Known() && fr.Target.Feature.Kind.IsCylinder() {
+					edits = append(edits, insertAt(up.ValueSpan.Start, "dia "))
+				}
+				p.ReportDiagnostic(Diagnostic{Span: fr.CharSpan,
+					Message: "ASME Y14.5-2018 has no concentricity: use position (dia zone) for coaxiality, or circular runout, to the same datums",
+					Fixes:   []Fix{{Message: "use position to the same datums", Edits: edits}}})
 			case model.Symmetry:
-				p.Report(fr.CharSpan, "ASME Y14.5-2018 has no symmetry: use position of the width (its mid-plane) or profile to the same datums")
+				p.ReportDiagnostic(Diagnostic{Span: fr.CharSpan,
+					Message: "ASME Y14.5-2018 has no symmetry: use position of the width (its mid-plane) or profile to the same datums",
+					Fixes:   []Fix{{Message: "use position of the width to the same datums", Edits: []Edit{replace(fr.CharSpan, string(model.Position))}}}})
 			}
 		}
 	},
@@ -132,9 +144,11 @@ two parallel planes, in one direction only. Two cases are characteristic-mismatc
 instead, so that one mistake gives one finding: dia on the orientation of a feature without
 an axis, and any zone of a form characteristic on a kind it does not apply to (flatness dia
 on a pin).`,
-	Source: "ASME Y14.5-2018, tolerance zones (diameter symbol, spherical diameter); ISO 1101:2017, tolerance zone shapes",
-	Bad:    "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position 0.1 datums A, B, C",
-	Good:   "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position dia 0.1 datums A, B, C",
+	Source:  "ASME Y14.5-2018, tolerance zones (diameter symbol, spherical diameter); ISO 1101:2017, tolerance zone shapes",
+	Bad:     "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position 0.1 datums A, B, C",
+	Good:    "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position dia 0.1 datums A, B, C",
+	Fix:     "write dia (or sdia) where the zone must be one, remove it where it cannot be",
+	FixSafe: true,
 	Run: func(p *Pass) {
 		for _, fr := range p.Part.Frames {
 			if !fr.Target.Resolved() || fr.Target.Feature.Broken {
@@ -148,46 +162,58 @@ on a pin).`,
 				if seg.ZoneText != "" && seg.Zone == "" {
 					continue // the word in the zone's place is reported already
 				}
-				if msg := zoneProblem(fr.Characteristic, k, seg.Zone); msg != "" {
+				if msg, to := zoneProblem(fr.Characteristic, k, seg.Zone); msg != "" {
 					sp := seg.ZoneSpan
-					if sp.IsZero() {
-						sp = seg.ValueSpan
+					var e Edit
+					switch {
+					case sp.IsZero():
+						sp, e = seg.ValueSpan, insertAt(seg.ValueSpan.Start, to+" ")
+					case to == "":
+						e = deleteWithBlankAfter(p.Part.Source, sp)
+					default:
+						e = replace(sp, to)
 					}
-					p.Report(sp, "%s", msg)
+					fix := "write " + to
+					if to == "" {
+						fix = "remove " + seg.Zone
+					}
+					p.ReportDiagnostic(Diagnostic{Span: sp, Message: msg, Fixes: []Fix{{Message: fix, Safe: true, Edits: []Edit{e}}}})
 				}
 			}
 		}
 	},
 })
 
-func zoneProblem(c model.Characteristic, k model.Kind, zone string) string {
+// zoneProblem says what is wrong with a segment's zone word, and the word
+// that would be right in its place ("" for none).
+func zoneProblem(c model.Characteristic, k model.Kind, zone string) (msg, to string) {
 	cat := c.Category()
 	axial := k.IsCylinder() || k == model.Cone
 	switch zone {
 	case "dia":
 		switch {
 		case k.IsSphere() && cat == model.Location:
-			return fmt.Sprintf("the centre of a %s has a spherical zone: write sdia instead of dia", k)
+			return fmt.Sprintf("the centre of a %s has a spherical zone: write sdia instead of dia", k), "sdia"
 		case cat == model.Runout || cat == model.Profile:
-			return fmt.Sprintf("%s has no cylindrical zone: remove dia", c)
+			return fmt.Sprintf("%s has no cylindrical zone: remove dia", c), ""
 		case c == model.Flatness || c == model.Circularity || c == model.Cylindricity:
-			return fmt.Sprintf("%s has a zone between two surfaces, not a cylinder: remove dia", c)
+			return fmt.Sprintf("%s has a zone between two surfaces, not a cylinder: remove dia", c), ""
 		case c == model.Straightness && !axial:
-			return fmt.Sprintf("straightness of a %s's surface lines has a zone between two lines: remove dia (dia applies to the axis of a hole or pin)", k)
+			return fmt.Sprintf("straightness of a %s's surface lines has a zone between two lines: remove dia (dia applies to the axis of a hole or pin)", k), ""
 		case !axial && k != model.KindUnknown && cat == model.Location:
 			// (On orientation it is characteristic-mismatch's finding.)
-			return fmt.Sprintf("a %s has no axis, so its %s zone cannot be a cylinder: remove dia (the zone is two parallel planes)", k, c)
+			return fmt.Sprintf("a %s has no axis, so its %s zone cannot be a cylinder: remove dia (the zone is two parallel planes)", k, c), ""
 		}
 	case "sdia":
 		if !(k.IsSphere() && cat == model.Location) {
-			return fmt.Sprintf("a spherical zone (sdia) belongs to the position of a sphere's centre, not to %s of a %s", c, k)
+			return fmt.Sprintf("a spherical zone (sdia) belongs to the position of a sphere's centre, not to %s of a %s", c, k), ""
 		}
 	case "":
 		if c == model.Position && axial && k != model.Cone {
-			return fmt.Sprintf("the position of a %s is normally a cylindrical zone about its axis: write dia before the value (without it the zone is two parallel planes)", k)
+			return fmt.Sprintf("the position of a %s is normally a cylindrical zone about its axis: write dia before the value (without it the zone is two parallel planes)", k), "dia"
 		}
 	}
-	return ""
+	return "", ""
 }
 
 // ModifierIllegal reports a modifier where the standard does not allow it.
@@ -213,8 +239,8 @@ allows the maximum material requirement on coaxiality and symmetry datums, and A
 Y14.5-2018 has neither characteristic, so those are not reported. Orientation, position and
 profile may reference datums at MMB or LMB in every edition (ASME Y14.5-2018, datum feature
 modifiers; ISO 2692:2014).`,
-	Source: "ASME Y14.5-2018, material condition modifiers, runout (RFS and RMB only; from memory, section 12), datum features at MMB/LMB; ASME Y14.5-2009, concentricity and symmetry (RFS and RMB only; from memory); ISO 2692:2014; ISO 1101:2017",
-	Bad:    "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02 (M)",
+	Source:  "ASME Y14.5-2018, material condition modifiers, runout (RFS and RMB only; from memory, section 12), datum features at MMB/LMB; ASME Y14.5-2009, concentricity and symmetry (RFS and RMB only; from memory); ISO 2692:2014; ISO 1101:2017",
+	Bad:     "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02 (M)",
 	Good:   "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02",
 	Run:    runModifierIllegal,
 })

@@ -17,12 +17,17 @@ attaches the annotation to nothing, and none of its checks can run.`,
 	Source: "common practice (every annotation is associated with a feature: ASME Y14.41-2019, annotation association)",
 	Bad:    "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bor: position dia 0.1 datums A",
 	Good:   "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position dia 0.1 datums A",
+	Fix:    "write the one declared name near the typo, where exactly one is near",
 	Run: func(p *Pass) {
 		for _, t := range p.Part.Refs {
 			if t.Resolved() {
 				continue
 			}
-			p.Report(t.Span, "'%s' names nothing: %s", t.Name, t.Problem)
+			d := Diagnostic{Span: t.Span, Message: fmt.Sprintf("'%s' names nothing: %s", t.Name, t.Problem)}
+			if t.Suggestion != "" {
+				d.Fixes = []Fix{{Message: "write " + t.Suggestion, Edits: []Edit{replace(t.Span, t.Suggestion)}}}
+			}
+			p.ReportDiagnostic(d)
 		}
 	},
 })

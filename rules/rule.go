@@ -60,7 +60,24 @@ type Rule struct {
 	Source    string   // the published source (or "common practice", "from memory")
 	Bad, Good string   // callout examples: Bad triggers the rule, Good does not
 	Severity  Severity // default severity
-	Run       func(*Pass)
+	// Fix says what the rule's suggested fix does, "" where it offers
+	// none; FixSafe whether that fix keeps the meaning the rule cares
+	// about (check --fix applies it) or needs review (--fix-all).
+	Fix     string
+	FixSafe bool
+	Run     func(*Pass)
+}
+
+// FixText describes a rule's fix for documentation: what it does and how
+// it is applied, or that there is none.
+func (r *Rule) FixText() string {
+	switch {
+	case r.Fix == "":
+		return "none"
+	case r.FixSafe:
+		return r.Fix + " (safe: `check --fix` applies it)"
+	}
+	return r.Fix + " (needs review: `check --fix-all` applies it)"
 }
 
 // Diagnostic is one finding: plain data, as go/analysis has it, so that

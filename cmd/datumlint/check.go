@@ -21,6 +21,7 @@ type checkFlags struct {
 	workers  int
 	config   string
 	over     config.Overrides
+	fixes    fixFlags
 }
 
 func newCheckCmd() *cobra.Command {
@@ -44,6 +45,9 @@ checked). With no PATH, the current folder is checked.`,
 	fl.StringVar(&f.config, "config", "", "use this configuration file for every checked file instead of the "+config.FileName+" files found above them")
 	fl.StringSliceVar(&f.over.Enable, "enable", nil, "run these rules (RULE[,RULE]) even where the configuration turns them off")
 	fl.StringSliceVar(&f.over.Disable, "disable", nil, "do not run these rules (RULE[,RULE])")
+	fl.BoolVar(&f.fixes.fix, "fix", false, "apply the safe suggested fixes in place, then report what remains")
+	fl.BoolVar(&f.fixes.all, "fix-all", false, "apply every suggested fix, also those that change what the drawing says and need review")
+	fl.BoolVar(&f.fixes.diff, "diff", false, "with --fix or --fix-all: print the fixes as a unified diff and write nothing")
 	return cmd
 }
 
@@ -76,8 +80,23 @@ func runCheck(cmd *cobra.Command, f *checkFlags, args []string) error {
 	if err := setColor(f.color); err != nil {
 		return &exitError{2, err.Error()}
 	}
-	res := lint.Run(args, lint.Options{SettingsFor: cfg.settingsFor, Exclude: cfg.exclude, MaxBytes: f.maxBytes, Workers: f.workers})
+	if f.fixes.diff && !f.fixes.on() {
+		return &exitError{2, "--diff shows what --fix or --fix-all would change: add one of them"}
+	}
 	stdout := cmd.OutOrStdout()
+	opt := lint.Options{SettingsFor: cfg.settingsFor, Exclude: cfg.exclude, MaxBytes: f.maxBytes, Workers: f.workers}
+	if f.fixes.on() {
+		fixed, err := runFixes(stdout, cmd.ErrOrStderr(), f.fixes, args, cfg, f.maxBytes)
+		if err != nil {
+			return &exitError{2, err.Error()}
+		}
+		if f.fixes.diff {
+			// Nothing was written: the exit code tells what would remain.
+			opt.Override = fixed
+			out = func(io.Writer, *lint.Result) error { return nil }
+		}
+	}
+	res := lint.Run(args, opt)
 	if err := out(stdout, &res); err != nil {
 		return &exitError{2, err.Error()}
 	}

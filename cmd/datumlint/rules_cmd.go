@@ -55,6 +55,7 @@ func Explain(r *rules.Rule) string {
 	fmt.Fprintf(&b, "%s\n\n", strings.ReplaceAll(r.Summary, "`", ""))
 	fmt.Fprintf(&b, "%s\n\n", r.Rationale)
 	fmt.Fprintf(&b, "Source: %s\n\n", r.Source)
+	fmt.Fprintf(&b, "Fix: %s\n\n", strings.ReplaceAll(r.FixText(), "`", ""))
 	fmt.Fprintf(&b, "Bad:\n%s\n\n", indent(r.Bad))
 	fmt.Fprintf(&b, "Good:\n%s\n\n", indent(r.Good))
 	b.WriteString(disclaimer + "\n")

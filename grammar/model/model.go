@@ -119,6 +119,9 @@ type Target struct {
 	Member  *Member // nil: the whole feature (every member of a pattern)
 	// Problem explains why a name did not resolve ("bolts has 4 members").
 	Problem string
+	// Suggestion is the one declared name near an unresolved one, where
+	// exactly one is near (a likely typo); "" otherwise.
+	Suggestion string
 }
 
 // Resolved reports whether the name was found.
@@ -171,6 +174,8 @@ type DatumRef struct {
 	Material string   // "", "M" (MMB) or "L" (LMB)
 	MatSpan  source.Span
 	Span     source.Span
+	// FullSpan covers the reference as written, its modifiers included.
+	FullSpan source.Span
 }
 
 // Common reports whether the reference is a common datum (A-B).
@@ -211,7 +216,10 @@ type Segment struct {
 	ValueText string
 	Modifiers []Modifier
 	Refs      []*DatumRef
-	Span      source.Span
+	// DatumsSpan covers the datum references with the word that
+	// introduces them ("datums A, B(M)"); zero where there are none.
+	DatumsSpan source.Span
+	Span       source.Span
 	// Named is a characteristic written on a composite line in place of a
 	// zone ("composite surface-profile 0.1"); "" where none was.
 	Named     Characteristic

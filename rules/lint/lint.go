@@ -88,6 +88,9 @@ type Options struct {
 	MaxBytes int64
 	// Workers is the number of files checked at once (0: one per core).
 	Workers int
+	// Override gives, by path, text to check in place of the file's (the
+	// text that fixes would leave, for check --fix --diff).
+	Override map[string][]byte
 	// KeepParts keeps every file's source and part model in the result
 	// (the report and the editor need them); otherwise only the source of
 	// files with findings is kept, for outputs that quote it.
@@ -300,9 +303,11 @@ func CheckPath(path string, opt Options, max int64) (*File, *PathError) {
 		out.Diagnostics = []rules.Diagnostic{tooBig(path, st.Size(), max)}
 		return out, nil
 	}
-	src, err := os.ReadFile(path)
-	if err != nil {
-		return out, &PathError{path, friendlyErr(err)}
+	src, ok := opt.Override[path]
+	if !ok {
+		if src, err = os.ReadFile(path); err != nil {
+			return out, &PathError{path, friendlyErr(err)}
+		}
 	}
 	CheckSource(out, src, settings, opt.KeepParts)
 	return out, nil
