@@ -47,7 +47,9 @@ feature top plane normal +z at (0, 0, 10)
 datum A on base
 frame base: flatness 0.02
 frame top: parallelism 0.05 datums A`,
-	Run: runCharacteristicMismatch,
+	Fix:     "remove dia from the orientation zone of a feature without an axis",
+	FixSafe: true,
+	Run:     runCharacteristicMismatch,
 })
 
 func runCharacteristicMismatch(p *Pass) {
@@ -63,7 +65,9 @@ func runCharacteristicMismatch(p *Pass) {
 		switch c.Category() {
 		case model.Orientation:
 			if seg.Zone == "dia" && !hasAxis(f.Kind) {
-				p.Report(seg.ZoneSpan, "a %s has no axis, so its %s zone cannot be a cylinder: remove dia (the zone is two parallel planes)", f.Kind, c)
+				p.ReportDiagnostic(Diagnostic{Span: seg.ZoneSpan,
+					Message: fmt.Sprintf("a %s has no axis, so its %s zone cannot be a cylinder: remove dia (the zone is two parallel planes)", f.Kind, c),
+					Fixes:   []Fix{{Message: "remove dia", Safe: true, Edits: []Edit{deleteWithBlankAfter(p.Part.Source, seg.ZoneSpan)}}}})
 			}
 			orientationMismatch(p, fr)
 		case model.Runout:

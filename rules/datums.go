@@ -224,6 +224,7 @@ feature back plane normal -y at (0, 0, 0)
 datum A on base
 datum B on back
 frame back: perpendicularity 0.05 datums A`,
+	Fix: "remove the reference to the feature's own datum, where the frame has others",
 	Run: func(p *Pass) {
 		for _, fr := range p.Part.Frames {
 			c := fr.Characteristic
@@ -240,7 +241,12 @@ frame back: perpendicularity 0.05 datums A`,
 			if a := p.Kinematics().Segment(fr, seg); a.Resolved && k < len(a.DRF.Steps()) && a.DRF.Steps()[k].Constrains == 0 {
 				continue // it removes nothing: datum-redundant's finding, which says why
 			}
-			p.Report(r.Span, "%s", selfReferenceMessage(fr, fr.Segments[seg], r, d))
+			sg := fr.Segments[seg]
+			diag := Diagnostic{Span: r.Span, Message: selfReferenceMessage(fr, sg, r, d)}
+			if len(sg.Refs) > 1 {
+				diag.Fixes = []Fix{{Message: "remove datum " + d.Letter + " from the frame", Edits: []Edit{dropRef(p.Part.Source, sg, k)}}}
+			}
+			p.ReportDiagnostic(diag)
 		}
 	},
 })

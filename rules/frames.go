@@ -241,8 +241,10 @@ profile may reference datums at MMB or LMB in every edition (ASME Y14.5-2018, da
 modifiers; ISO 2692:2014).`,
 	Source:  "ASME Y14.5-2018, material condition modifiers, runout (RFS and RMB only; from memory, section 12), datum features at MMB/LMB; ASME Y14.5-2009, concentricity and symmetry (RFS and RMB only; from memory); ISO 2692:2014; ISO 1101:2017",
 	Bad:     "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02 (M)",
-	Good:   "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02",
-	Run:    runModifierIllegal,
+	Good:    "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02",
+	Fix:     "remove (M) or (L) from a datum reference of runout (and of concentricity or symmetry under asme-2009), which applies regardless of material boundary anyway",
+	FixSafe: true,
+	Run:     runModifierIllegal,
 })
 
 func runModifierIllegal(p *Pass) {
@@ -290,7 +292,9 @@ func runModifierIllegal(p *Pass) {
 					continue
 				}
 				if why := boundaryForbidden(p.Part, c); why != "" {
-					p.Report(r.MatSpan, "%s: remove (%s) from datum %s", why, r.Material, r.Name)
+					p.ReportDiagnostic(Diagnostic{Span: r.MatSpan,
+						Message: fmt.Sprintf("%s: remove (%s) from datum %s", why, r.Material, r.Name),
+						Fixes:   []Fix{{Message: "remove (" + r.Material + ")", Safe: true, Edits: []Edit{deleteWithBlankBefore(p.Part.Source, r.MatSpan)}}}})
 					continue
 				}
 				for _, d := range r.Datums {

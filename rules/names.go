@@ -103,9 +103,11 @@ nothing and is not an ASME symbol. It is harmless, so the finding is information
 file may have been written for ISO, or copied from an ISO drawing, and the standard header is
 worth a look. (Where the drawing's notes override Rule #1, the envelope is meant and (E)
 records it.)`,
-	Source: "ASME Y14.5-2018, Rule #1, limits of size and the envelope principle (from memory, section 5.8); ASME Y14.5-2009, Rule #1; ISO 14405-1:2016, envelope requirement (E); ISO 8015:2011, independency principle",
-	Bad:    "feature pilot pin size 20 -0.007 -0.02 (E) axis +z at (0, 0, 0)",
-	Good:   "feature pilot pin size 20 -0.007 -0.02 axis +z at (0, 0, 0)",
+	Source:  "ASME Y14.5-2018, Rule #1, limits of size and the envelope principle (from memory, section 5.8); ASME Y14.5-2009, Rule #1; ISO 14405-1:2016, envelope requirement (E); ISO 8015:2011, independency principle",
+	Bad:     "feature pilot pin size 20 -0.007 -0.02 (E) axis +z at (0, 0, 0)",
+	Good:    "feature pilot pin size 20 -0.007 -0.02 axis +z at (0, 0, 0)",
+	Fix:     "remove (E), which Rule #1 already gives",
+	FixSafe: true,
 	Run: func(p *Pass) {
 		if !p.Part.Standard.IsASME() {
 			return
@@ -114,11 +116,14 @@ records it.)`,
 			if f.Broken || f.Size == nil || !f.Size.Envelope {
 				continue
 			}
-			sp := f.Size.EnvelopeSpan
-			if sp.IsZero() {
-				sp = f.Size.Span
+			d := Diagnostic{Span: f.Size.EnvelopeSpan,
+				Message: fmt.Sprintf("under %s Rule #1 already bounds the form of '%s' by its envelope at MMC, so (E) adds nothing (it is how ISO 14405-1 asks for the envelope, where independency is the default): remove it, or if the file follows ISO, write `standard iso`", p.Part.Standard, f.Name)}
+			if d.Span.IsZero() {
+				d.Span = f.Size.Span // a reader that does not say where (E) is
+			} else {
+				d.Fixes = []Fix{{Message: "remove (E)", Safe: true, Edits: []Edit{deleteWithBlankBefore(p.Part.Source, d.Span)}}}
 			}
-			p.Report(sp, "under %s Rule #1 already bounds the form of '%s' by its envelope at MMC, so (E) adds nothing (it is how ISO 14405-1 asks for the envelope, where independency is the default): remove it, or if the file follows ISO, write `standard iso`", p.Part.Standard, f.Name)
+			p.ReportDiagnostic(d)
 		}
 	},
 })
