@@ -361,6 +361,9 @@ func (r *resolver) text(sp source.Span) string {
 
 func (r *resolver) size(s *Size) *model.Size {
 	out := &model.Size{Nominal: r.num(s.Nominal), Span: s.Span(), Envelope: s.Envelope != nil, Text: r.text(s.Span())}
+	if s.Envelope != nil {
+		out.EnvelopeSpan = s.Envelope.Span()
+	}
 	switch {
 	case s.PlusMinus != nil:
 		t := math.Abs(r.num(s.PlusMinus))

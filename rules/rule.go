@@ -151,14 +151,26 @@ func (p *Pass) ReportRelated(sp source.Span, related []Related, format string, a
 	p.ReportDiagnostic(Diagnostic{Span: sp, Related: related, Message: fmt.Sprintf(format, args...)})
 }
 
+// Inform records a finding at info severity, whatever the rule's default:
+// an advisory finding of a rule whose other findings are warnings or
+// errors (a refinement that is legal but unusual). The configuration can
+// lower it further or turn the rule off, never raise it above info.
+func (p *Pass) Inform(sp source.Span, related []Related, format string, args ...any) {
+	p.ReportDiagnostic(Diagnostic{Span: sp, Related: related, Severity: Info, Message: fmt.Sprintf(format, args...)})
+}
+
 // ReportDiagnostic records a finding given as data (with related places
-// and fixes); the file, rule and severity are the pass's.
+// and fixes); the file and rule are the pass's. Its severity is the
+// rule's default unless the rule set a lower one (see Inform).
 func (p *Pass) ReportDiagnostic(d Diagnostic) {
 	sp := d.Span
 	if sp.End.Line == 0 || sp.End.Before(sp.Start) {
 		sp.End = source.Pos{Line: sp.Start.Line, Col: sp.Start.Col + 1}
 	}
-	d.Span, d.File, d.Rule, d.Severity = sp, p.Part.Source.Name, p.Rule.ID, p.Rule.Severity
+	if d.Severity == Off || d.Severity > p.Rule.Severity {
+		d.Severity = p.Rule.Severity
+	}
+	d.Span, d.File, d.Rule = sp, p.Part.Source.Name, p.Rule.ID
 	*p.out = append(*p.out, d)
 }
 

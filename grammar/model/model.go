@@ -25,6 +25,8 @@ type Size struct {
 	Upper, Lower float64 // signed deviations
 	Toleranced   bool    // false where only a nominal was written
 	Envelope     bool    // (E): ISO 14405-1 envelope requirement
+	// EnvelopeSpan is where (E) was written, where a reader knows it.
+	EnvelopeSpan source.Span
 	Span         source.Span
 	// Text is the size as written, for messages that quote it.
 	Text string
