@@ -13,9 +13,11 @@ var AllowUnused = Register(&Rule{
 Without a reason the next checker cannot judge the decision; one that silences nothing is
 left over from an earlier version of the file and would hide a future finding by accident.
 A malformed suppression silences nothing.`,
-	Source: "common practice (as linters treat their ignore directives)",
-	Bad:    "frame base: flatness 0.02  # datumlint: allow tolerance-value",
-	Good:   "frame base: flatness 0  # datumlint: allow tolerance-value -- zero flatness is agreed with the supplier, ref. Q-112",
+	Source:  "common practice (as linters treat their ignore directives)",
+	Bad:     "frame base: flatness 0.02  # datumlint: allow tolerance-value",
+	Good:    "frame base: flatness 0  # datumlint: allow tolerance-value -- zero flatness is agreed with the supplier, ref. Q-112",
+	Fix:     "remove the allow comment, or only the rules in it that silence nothing",
+	FixSafe: true,
 	Run: func(p *Pass) {
 		for _, d := range p.Part.Suppressions {
 			switch {
@@ -26,8 +28,11 @@ A malformed suppression silences nothing.`,
 			default:
 				for _, id := range d.Rules {
 					if Lookup(id) == nil {
-						msg := "unknown rule '%s' in an allow comment: `datumlint rules` lists them"
-						p.Report(d.Span, msg, id)
+						if sg := Suggest(id); sg != "" {
+							p.Report(d.Span, "unknown rule '%s' in an allow comment; did you mean '%s'?", id, sg)
+						} else {
+							p.Report(d.Span, "unknown rule '%s' in an allow comment: `datumlint rules` lists them", id)
+						}
 					}
 				}
 			}

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/grammar/source"
 )
 
 // DatumsForbidden reports a form tolerance with datums.
@@ -20,6 +21,7 @@ tolerance.`,
 	Source: "ASME Y14.5-2018, form tolerances (not related to datums); ISO 1101:2017, form tolerances have no datum",
 	Bad:    "frame base: flatness 0.02 datums A",
 	Good:   "frame base: flatness 0.02",
+	Fix:    "remove the datum references",
 	Run: func(p *Pass) {
 		for _, fr := range p.Part.Frames {
 			if fr.Characteristic.Category() != model.Form {
@@ -27,7 +29,9 @@ tolerance.`,
 			}
 			for _, seg := range fr.Segments {
 				if len(seg.Refs) > 0 {
-					p.Report(seg.RefsSpan(), "%s is a form tolerance and takes no datums: remove 'datums ...' (add a separate orientation or location frame if the feature must relate to a datum)", fr.Characteristic)
+					p.ReportDiagnostic(Diagnostic{Span: seg.RefsSpan(),
+						Message: fmt.Sprintf("%s is a form tolerance and takes no datums: remove 'datums ...' (add a separate orientation or location frame if the feature must relate to a datum)", fr.Characteristic),
+						Fixes:   []Fix{{Message: "remove the datum references", Edits: []Edit{deleteWithBlankBefore(p.Part.Source, seg.DatumsSpan)}}}})
 				}
 			}
 		}
@@ -72,6 +76,7 @@ both.`,
 	Source: "ASME Y14.5-2018, foreword and section 1 (concentricity and symmetry removed); ISO 1101:2017 keeps them",
 	Bad:    "standard asme-2018\nframe hub: concentricity dia 0.05 datums A",
 	Good:   "standard asme-2018\nframe hub: position dia 0.05 datums A",
+	Fix:    "write position in its place, with dia for the coaxiality of a cylinder",
 	Run: func(p *Pass) {
 		if p.Part.Standard != model.ASME2018 {
 			return
@@ -79,9 +84,17 @@ both.`,
 		for _, fr := range p.Part.Frames {
 			switch fr.Characteristic {
 			case model.Concentricity:
-				p.Report(fr.CharSpan, "ASME Y14.5-2018 has no concentricity: use position (dia zone) for coaxiality, or circular runout, to the same datums")
+				edits := []Edit{replace(fr.CharSpan, string(model.Position))}
+				if up := fr.Upper(); up.Zone == "" && up.ZoneText == "" && fr.Target.Known() && fr.Target.Feature.Kind.IsCylinder() {
+					edits = append(edits, insertAt(up.ValueSpan.Start, "dia "))
+				}
+				p.ReportDiagnostic(Diagnostic{Span: fr.CharSpan,
+					Message: "ASME Y14.5-2018 has no concentricity: use position (dia zone) for coaxiality, or circular runout, to the same datums",
+					Fixes:   []Fix{{Message: "use position to the same datums", Edits: edits}}})
 			case model.Symmetry:
-				p.Report(fr.CharSpan, "ASME Y14.5-2018 has no symmetry: use position of the width (its mid-plane) or profile to the same datums")
+				p.ReportDiagnostic(Diagnostic{Span: fr.CharSpan,
+					Message: "ASME Y14.5-2018 has no symmetry: use position of the width (its mid-plane) or profile to the same datums",
+					Fixes:   []Fix{{Message: "use position of the width to the same datums", Edits: []Edit{replace(fr.CharSpan, string(model.Position))}}}})
 			}
 		}
 	},
@@ -136,10 +149,15 @@ hole or pin is nearly always meant as a cylindrical zone; without dia it is a zo
 two parallel planes, in one direction only. That is right where the frame says which direction
 (bidirectional positional tolerancing: one frame per direction, each written with
 'along DIR', a direction across the axis), and such a frame is not reported; a direction on a
-cylindrical zone, on another characteristic or across the wrong line is.`,
-	Source: "ASME Y14.5-2018, tolerance zones (diameter symbol, spherical diameter); ISO 1101:2017, tolerance zone shapes; bidirectional positional tolerancing (ASME Y14.5-2018, from memory)",
-	Bad:    "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position 0.1 datums A, B, C",
-	Good:   "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position dia 0.1 datums A, B, C",
+cylindrical zone, on another characteristic or across the wrong line is. Two cases are
+characteristic-mismatch's finding instead, so that one mistake gives one finding: dia on the
+orientation of a feature without an axis, and any zone of a form characteristic on a kind it
+does not apply to (flatness dia on a pin).`,
+	Source:  "ASME Y14.5-2018, tolerance zones (diameter symbol, spherical diameter); ISO 1101:2017, tolerance zone shapes; bidirectional positional tolerancing (ASME Y14.5-2018, from memory)",
+	Bad:     "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position 0.1 datums A, B, C",
+	Good:    "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position dia 0.1 datums A, B, C",
+	Fix:     "write dia (or sdia) where the zone must be one, remove it where it cannot be",
+	FixSafe: true,
 	Run: func(p *Pass) {
 		for _, fr := range p.Part.Frames {
 			if !fr.Target.Resolved() || fr.Target.Feature.Broken {
@@ -148,6 +166,9 @@ cylindrical zone, on another characteristic or across the wrong line is.`,
 			k := fr.Target.Feature.Kind
 			if k.IsElement() {
 				continue // a point, line or circle has no frame requirements of its own
+			}
+			if formMismatch(fr.Characteristic, k) != "" {
+				continue // the characteristic itself is wrong: characteristic-mismatch
 			}
 			for _, seg := range fr.Segments {
 				if seg.ZoneText != "" && seg.Zone == "" {
@@ -159,45 +180,58 @@ cylindrical zone, on another characteristic or across the wrong line is.`,
 					}
 					continue
 				}
-				if msg := zoneProblem(fr.Characteristic, k, seg.Zone); msg != "" {
+				if msg, to := zoneProblem(fr.Characteristic, k, seg.Zone); msg != "" {
 					sp := seg.ZoneSpan
-					if sp.IsZero() {
-						sp = seg.ValueSpan
+					var e Edit
+					switch {
+					case sp.IsZero():
+						sp, e = seg.ValueSpan, insertAt(seg.ValueSpan.Start, to+" ")
+					case to == "":
+						e = deleteWithBlankAfter(p.Part.Source, sp)
+					default:
+						e = replace(sp, to)
 					}
-					p.Report(sp, "%s", msg)
+					fix := "write " + to
+					if to == "" {
+						fix = "remove " + seg.Zone
+					}
+					p.ReportDiagnostic(Diagnostic{Span: sp, Message: msg, Fixes: []Fix{{Message: fix, Safe: true, Edits: []Edit{e}}}})
 				}
 			}
 		}
 	},
 })
 
-func zoneProblem(c model.Characteristic, k model.Kind, zone string) string {
+// zoneProblem says what is wrong with a segment's zone word, and the word
+// that would be right in its place ("" for none).
+func zoneProblem(c model.Characteristic, k model.Kind, zone string) (msg, to string) {
 	cat := c.Category()
 	axial := k.IsCylinder() || k == model.Cone
 	switch zone {
 	case "dia":
 		switch {
 		case k.IsSphere() && cat == model.Location:
-			return fmt.Sprintf("the centre of a %s has a spherical zone: write sdia instead of dia", k)
+			return fmt.Sprintf("the centre of a %s has a spherical zone: write sdia instead of dia", k), "sdia"
 		case cat == model.Runout || cat == model.Profile:
-			return fmt.Sprintf("%s has no cylindrical zone: remove dia", c)
+			return fmt.Sprintf("%s has no cylindrical zone: remove dia", c), ""
 		case c == model.Flatness || c == model.Circularity || c == model.Cylindricity:
-			return fmt.Sprintf("%s has a zone between two surfaces, not a cylinder: remove dia", c)
+			return fmt.Sprintf("%s has a zone between two surfaces, not a cylinder: remove dia", c), ""
 		case c == model.Straightness && !axial:
-			return fmt.Sprintf("straightness of a %s's surface lines has a zone between two lines: remove dia (dia applies to the axis of a hole or pin)", k)
-		case !axial && k != model.KindUnknown && (cat == model.Location || cat == model.Orientation):
-			return fmt.Sprintf("a %s has no axis, so its %s zone cannot be a cylinder: remove dia (the zone is two parallel planes)", k, c)
+			return fmt.Sprintf("straightness of a %s's surface lines has a zone between two lines: remove dia (dia applies to the axis of a hole or pin)", k), ""
+		case !axial && k != model.KindUnknown && cat == model.Location:
+			// (On orientation it is characteristic-mismatch's finding.)
+			return fmt.Sprintf("a %s has no axis, so its %s zone cannot be a cylinder: remove dia (the zone is two parallel planes)", k, c), ""
 		}
 	case "sdia":
 		if !(k.IsSphere() && cat == model.Location) {
-			return fmt.Sprintf("a spherical zone (sdia) belongs to the position of a sphere's centre, not to %s of a %s", c, k)
+			return fmt.Sprintf("a spherical zone (sdia) belongs to the position of a sphere's centre, not to %s of a %s", c, k), ""
 		}
 	case "":
 		if c == model.Position && axial && k != model.Cone {
-			return fmt.Sprintf("the position of a %s is normally a cylindrical zone about its axis: write dia before the value, or, for a zone between two parallel planes, give its direction with `along DIR` after the value (bidirectional positional tolerancing)", k)
+			return fmt.Sprintf("the position of a %s is normally a cylindrical zone about its axis: write dia before the value (without it the zone is two parallel planes), or give the direction of that two-plane zone with `along DIR` after the value (bidirectional positional tolerancing)", k), "dia"
 		}
 	}
-	return ""
+	return "", ""
 }
 
 // zoneDirProblem says what is wrong with a segment's zone direction (a
@@ -241,16 +275,28 @@ profile tolerance to datums of higher precedence. Circularity and cylindricity c
 material condition; (U) belongs to profile, and a projected zone (P) to the orientation or
 location of a feature of size.
 
+Datum references at MMB or LMB, by characteristic: runout's datums never take them, under any
+edition, since the part is turned about a datum axis that is established regardless of
+material boundary (ASME Y14.5-2009 and -2018, from memory; under ISO datumlint reads ISO 1101
+run-out and ISO 2692 the same way, also from memory). Under ASME Y14.5-2009 concentricity and
+symmetry are regardless of feature size and of material boundary, datums included. ISO 2692
+allows the maximum material requirement on coaxiality and symmetry datums, and ASME
+Y14.5-2018 has neither characteristic, so those are not reported. Orientation, position and
+profile may reference datums at MMB or LMB in every edition (ASME Y14.5-2018, datum feature
+modifiers; ISO 2692:2014).
+
 Extension: each member of a common datum may carry its own modifier (H(M)-J(M)), and each is
 checked as above. The extents all-around and between belong to profile, all-over to surface
 profile; a separate requirement to position and profile, the only characteristics with a
 simultaneous requirement; a thread's diameter (major-dia, minor-dia) to a threaded feature; a
 tolerance per unit length to straightness and the orientation tolerances, per unit area to
 flatness.`,
-	Source: "ASME Y14.5-2018, material condition modifiers, runout (RFS only), datum features at MMB/LMB, profile extents (all around, all over, between), simultaneous requirements, screw threads, per unit length and area (the last four from memory); ISO 2692:2014; ISO 1101:2017",
-	Bad:    "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02 (M)",
-	Good:   "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02",
-	Run:    runModifierIllegal,
+	Source:  "ASME Y14.5-2018, material condition modifiers, runout (RFS and RMB only; from memory, section 12), datum features at MMB/LMB, profile extents (all around, all over, between), simultaneous requirements, screw threads, per unit length and area (the last four from memory); ASME Y14.5-2009, concentricity and symmetry (RFS and RMB only; from memory); ISO 2692:2014; ISO 1101:2017",
+	Bad:     "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02 (M)",
+	Good:    "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02",
+	Fix:     "remove (M) or (L) from a datum reference of runout (and of concentricity or symmetry under asme-2009), which applies regardless of material boundary anyway",
+	FixSafe: true,
+	Run:     runModifierIllegal,
 })
 
 func runModifierIllegal(p *Pass) {
@@ -295,6 +341,22 @@ func runModifierIllegal(p *Pass) {
 			}
 			for _, r := range seg.Refs {
 				if !r.AnyBoundary() || !r.Resolved() {
+					continue
+				}
+				if why := boundaryForbidden(p.Part, c); why != "" {
+					// Each modifier written once: A-B(M) has one for both
+					// letters, H(M)-J(M) one each.
+					done := map[source.Span]bool{}
+					for i := range r.Letters {
+						mat, sp := r.Boundary(i)
+						if mat == "" || done[sp] {
+							continue
+						}
+						done[sp] = true
+						p.ReportDiagnostic(Diagnostic{Span: sp,
+							Message: fmt.Sprintf("%s: remove (%s) from datum %s", why, mat, r.Name),
+							Fixes:   []Fix{{Message: "remove (" + mat + ")", Safe: true, Edits: []Edit{deleteWithBlankBefore(p.Part.Source, sp)}}}})
+					}
 					continue
 				}
 				for i, d := range r.Datums {
@@ -359,6 +421,41 @@ func frameNoteProblems(p *Pass, fr *model.Frame, known bool) {
 	if fr.ThreadDiameter != "" && known && fr.Target.Feature.Thread == "" {
 		p.Report(fr.ThreadDiameterSpan, "'%s' says which diameter of a screw thread the tolerance applies to; %s is not threaded: remove it, or give the feature its thread (thread \"...\")", fr.ThreadDiameter, fr.Target.Name)
 	}
+}
+
+// boundaryForbidden says why the characteristic takes no datum reference
+// at MMB or LMB under the part's edition, or "". Runout is read while the
+// part turns about its datum axis, which is established regardless of
+// material boundary (ASME Y14.5-2009 and -2018, runout; from memory, 2018
+// section 12; ISO 1101:2017 run-out and ISO 2692:2014, which applies the
+// material requirements to derived features, not to a run-out setup).
+// Concentricity and symmetry under ASME Y14.5-2009 apply regardless of
+// feature size and of material boundary (from memory, 2009 sections 7.6.4
+// and 7.7.2); ISO 2692 allows the maximum material requirement on
+// coaxiality and symmetry, and asme-2018 has neither characteristic
+// (characteristic-withdrawn), so those are left alone. Every other
+// characteristic that takes datums may reference them at MMB or LMB.
+func boundaryForbidden(part *model.Part, c model.Characteristic) string {
+	switch {
+	case c.Category() == model.Runout:
+		return fmt.Sprintf("%s is read while the part turns about its datum axis, which is established regardless of material boundary (%s, runout)", c, editionName(part.Standard))
+	case (c == model.Concentricity || c == model.Symmetry) && part.Standard == model.ASME2009:
+		return fmt.Sprintf("%s is controlled regardless of feature size and its datums regardless of material boundary (ASME Y14.5-2009)", c)
+	}
+	return ""
+}
+
+// editionName names the governing edition in a message.
+func editionName(s model.Standard) string {
+	switch s {
+	case model.ASME2018:
+		return "ASME Y14.5-2018"
+	case model.ASME2009:
+		return "ASME Y14.5-2009"
+	case model.ISO:
+		return "ISO 1101"
+	}
+	return "ASME Y14.5 and ISO 1101"
 }
 
 // boundaryAllowed decides whether a surface datum feature may be referenced

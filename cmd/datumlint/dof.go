@@ -33,13 +33,19 @@ that were read are still shown); 2: usage error or an unreadable file.`,
 		},
 	}
 	cmd.Flags().StringVar(&format, "format", "text", "output format: text or json")
+	if err := cmd.RegisterFlagCompletionFunc("format", fixedValues("text", "one table per frame (the default)", "json", "one object per frame")); err != nil {
+		panic(err)
+	}
 	return cmd
 }
 
-// dofRef is one datum reference in `dof --format json`.
+// dofRef is one datum reference in `dof --format json`: the contract's
+// keys, and the motions it removes (an extension: docs/notation.md, "The
+// dof output"), named as in free and zone_free.
 type dofRef struct {
-	Ref        string `json:"ref"`
-	Constrains int    `json:"constrains"`
+	Ref        string   `json:"ref"`
+	Constrains int      `json:"constrains"`
+	Removes    []string `json:"removes"`
 }
 
 // dofSegment is a composite lower segment (an extension of version 0:
@@ -139,7 +145,7 @@ func describeSegment(a *kinematics.Segment) dofSegment {
 		out.Error = a.Problem
 	}
 	for _, st := range a.Steps() {
-		out.Datums = append(out.Datums, dofRef{Ref: st.Name, Constrains: st.Constrains})
+		out.Datums = append(out.Datums, dofRef{Ref: st.Name, Constrains: st.Constrains, Removes: names(st.Removed)})
 	}
 	return out
 }
@@ -214,34 +220,20 @@ func segmentLabel(seg *model.Segment) string {
 		if k > 0 {
 			b.WriteString(", ")
 		}
-		b.WriteString(refText(r))
+		b.WriteString(r.Label())
 	}
 	return b.String()
 }
 
-// refText writes a datum reference with its modifiers: A-B(M) where the
-// modifier is the whole reference's, H(M)-J(M) where each letter has its own.
-func refText(r *model.DatumRef) string {
-	if r.Material != "" || len(r.Materials) == 0 {
-		s := strings.Join(r.Letters, "-")
-		if r.Material != "" {
-			s += "(" + r.Material + ")"
-		}
-		return s
-	}
-	parts := make([]string, len(r.Letters))
-	for i, l := range r.Letters {
-		parts[i] = l
-		if m, _ := r.Boundary(i); m != "" {
-			parts[i] += "(" + m + ")"
-		}
-	}
-	return strings.Join(parts, "-")
-}
-
+// motionList names motions for the text table, in its words
+// (dof.Phrase: "translation along x", "rotation about z through ...").
 func motionList(ms []dof.Motion) string {
 	if len(ms) == 0 {
 		return "none"
 	}
-	return strings.Join(names(ms), ", ")
+	out := make([]string, len(ms))
+	for i, m := range ms {
+		out[i] = dof.Phrase(m.Name)
+	}
+	return strings.Join(out, ", ")
 }

@@ -20,6 +20,24 @@ type jsonFinding struct {
 	// Related (an extension of the contract's object, present only where
 	// a finding speaks of another place).
 	Related []jsonRelated `json:"related,omitempty"`
+	// Fixes (an extension, present only where the finding offers one):
+	// edits that would clear it, and whether they keep the meaning the
+	// rule cares about (safe) or need the drafter's review.
+	Fixes []jsonFix `json:"fixes,omitempty"`
+}
+
+type jsonFix struct {
+	Message string     `json:"message"`
+	Safe    bool       `json:"safe"`
+	Edits   []jsonEdit `json:"edits"`
+}
+
+type jsonEdit struct {
+	Line      int    `json:"line"`
+	Column    int    `json:"column"`
+	EndLine   int    `json:"end_line"`
+	EndColumn int    `json:"end_column"`
+	NewText   string `json:"new_text"`
 }
 
 type jsonRelated struct {
@@ -43,6 +61,14 @@ func writeJSON(w io.Writer, res *lint.Result) error {
 		for _, r := range d.Related {
 			f.Related = append(f.Related, jsonRelated{Line: r.Span.Start.Line, Column: r.Span.Start.Col,
 				EndLine: r.Span.End.Line, EndColumn: r.Span.End.Col, Message: r.Message})
+		}
+		for _, fx := range d.Fixes {
+			jf := jsonFix{Message: fx.Message, Safe: fx.Safe, Edits: []jsonEdit{}}
+			for _, e := range fx.Edits {
+				jf.Edits = append(jf.Edits, jsonEdit{Line: e.Span.Start.Line, Column: e.Span.Start.Col,
+					EndLine: e.Span.End.Line, EndColumn: e.Span.End.Col, NewText: e.NewText})
+			}
+			f.Fixes = append(f.Fixes, jf)
 		}
 		out = append(out, f)
 	}

@@ -13,6 +13,7 @@ import (
 	"strings"
 	"unicode"
 
+	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/grammar/source"
 
 	"github.com/datumlint/datumlint/rules"
@@ -66,7 +67,7 @@ type sarifText struct {
 
 type sarifRule struct {
 	ID                   string         `json:"id"`
-	Name                 string         `json:"name"`
+	Name                 string         `json:"name,omitempty"`
 	ShortDescription     sarifText      `json:"shortDescription"`
 	FullDescription      sarifText      `json:"fullDescription"`
 	Help                 sarifText      `json:"help"`
@@ -97,6 +98,7 @@ type sarifResult struct {
 	Message             sarifText          `json:"message"`
 	Locations           []sarifLocation    `json:"locations"`
 	RelatedLocations    []sarifLocation    `json:"relatedLocations,omitempty"`
+	Fixes               []sarifFix         `json:"fixes,omitempty"`
 	PartialFingerprints map[string]string  `json:"partialFingerprints"`
 	Suppressions        []sarifSuppression `json:"suppressions,omitempty"`
 }
@@ -124,6 +126,28 @@ type sarifRegion struct {
 	StartColumn int `json:"startColumn"`
 	EndLine     int `json:"endLine"`
 	EndColumn   int `json:"endColumn"`
+}
+
+// sarifFix is a proposed fix (§3.55): the edits of one artifact, each a
+// replacement of a region (empty for an insertion) by new text.
+type sarifFix struct {
+	Description     sarifText      `json:"description"`
+	ArtifactChanges []sarifChange  `json:"artifactChanges"`
+	Properties      map[string]any `json:"properties,omitempty"`
+}
+
+type sarifChange struct {
+	ArtifactLocation sarifArtifactLoc   `json:"artifactLocation"`
+	Replacements     []sarifReplacement `json:"replacements"`
+}
+
+type sarifReplacement struct {
+	DeletedRegion   sarifRegion      `json:"deletedRegion"`
+	InsertedContent *sarifArtContent `json:"insertedContent,omitempty"`
+}
+
+type sarifArtContent struct {
+	Text string `json:"text"`
 }
 
 type sarifSuppression struct {
@@ -192,7 +216,7 @@ func writeSARIF(w io.Writer, res *lint.Result) error {
 			idx = len(run.Tool.Driver.Rules)
 			index[d.Rule] = idx
 			run.Tool.Driver.Rules = append(run.Tool.Driver.Rules, sarifRule{
-				ID: d.Rule, Name: ruleName(d.Rule),
+				ID: d.Rule, Name: friendlyName(d.Rule),
 				ShortDescription:     sarifText{Text: d.Rule},
 				FullDescription:      sarifText{Text: d.Rule},
 				Help:                 sarifText{Text: d.Rule, Markdown: d.Rule},
@@ -204,6 +228,18 @@ func writeSARIF(w io.Writer, res *lint.Result) error {
 			RuleID: d.Rule, RuleIndex: idx, Level: sarifLevel(d.Severity),
 			Message:   sarifText{Text: d.Message},
 			Locations: []sarifLocation{{PhysicalLocation: sarifPhysical{ArtifactLocation: loc, Region: regionOf(d.Span)}}},
+		}
+		for _, fx := range d.Fixes {
+			ch := sarifChange{ArtifactLocation: loc}
+			for _, e := range fx.Edits {
+				rp := sarifReplacement{DeletedRegion: sarifRegion{StartLine: e.Span.Start.Line, StartColumn: e.Span.Start.Col, EndLine: e.Span.End.Line, EndColumn: e.Span.End.Col}}
+				if e.NewText != "" {
+					rp.InsertedContent = &sarifArtContent{Text: e.NewText}
+				}
+				ch.Replacements = append(ch.Replacements, rp)
+			}
+			r.Fixes = append(r.Fixes, sarifFix{Description: sarifText{Text: fx.Message}, ArtifactChanges: []sarifChange{ch},
+				Properties: map[string]any{"datumlint/safe": fx.Safe}})
 		}
 		for k, rel := range d.Related {
 			id := k
@@ -238,7 +274,7 @@ func sarifRuleOf(r *rules.Rule) sarifRule {
 	}
 	out := sarifRule{
 		ID:                   r.ID,
-		Name:                 ruleName(r.ID),
+		Name:                 friendlyName(r.ID),
 		ShortDescription:     sarifText{Text: plain, Markdown: r.Summary},
 		FullDescription:      sarifText{Text: oneParagraph(r.Rationale)},
 		Help:                 sarifText{Text: text, Markdown: ruledoc.Markdown(r)},
@@ -264,6 +300,16 @@ func ruleName(id string) string {
 		}
 	}
 	return b.String()
+}
+
+// friendlyName is ruleName, left out where it would differ from the
+// identifier only in case (syntax -> Syntax): SARIF asks that a name that
+// is the identifier be omitted (§3.49.7).
+func friendlyName(id string) string {
+	if n := ruleName(id); !strings.EqualFold(n, id) {
+		return n
+	}
+	return ""
 }
 
 func oneParagraph(s string) string { return strings.Join(strings.Fields(s), " ") }
@@ -311,7 +357,7 @@ func regionOf(sp source.Span) *sarifRegion {
 }
 
 // statementText gives the normalised text of the statement holding a line
-// of a file (model.Statement.Text: comments removed, runs of spaces made
+// of a file (model.StatementText: comments removed, runs of spaces made
 // one). A line outside every statement (a comment line, an empty file)
 // stands for itself.
 func statementText(f *lint.File, line int) string {
@@ -321,7 +367,7 @@ func statementText(f *lint.File, line int) string {
 	st := f.Statements
 	i := sort.Search(len(st), func(i int) bool { return st[i].Last >= line })
 	if i < len(st) && st[i].First <= line {
-		return st[i].Text
+		return model.StatementText(f.Source, st[i])
 	}
 	text := strings.TrimRight(string(f.Source.LineBytes(line)), "\r")
 	if line == 1 {

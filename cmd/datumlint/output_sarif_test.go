@@ -7,6 +7,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"sort"
 	"strings"
@@ -392,5 +393,113 @@ func TestRelatedLocations(t *testing.T) {
 	js, _ := runCLI(t, "check", "--format", "json", "dup.callouts")
 	if !bytes.Contains(js, []byte(`"related": [`)) || !bytes.Contains(js, []byte(`"line": 3`)) {
 		t.Errorf("JSON finding lacks its related place:\n%s", js)
+	}
+}
+
+// Findings with fixes carry them as SARIF fixes (§3.55: artifactChanges
+// with replacements; an insertion is an empty deleted region), valid
+// against the schema, with whether they are safe in the property bag.
+func TestSARIFFixes(t *testing.T) {
+	sch := compileSARIFSchema(t)
+	t.Chdir(t.TempDir())
+	src := "units mm\nstandard asme-2018\nfeature base plane normal -z at (0, 0, 0)\nfeature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\n" +
+		"datum A on base\nframe base: flatness 0.02\nframe bore: position 0.1 datums A\nframe bor: perpendicularity dia 0.05 datums A\n"
+	if err := os.WriteFile("fix.callouts", []byte(src), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, _ := runCLI(t, "check", "--format", "sarif", "fix.callouts")
+	validateSARIF(t, sch, out)
+	var doc struct {
+		Runs []struct {
+			Results []struct {
+				RuleID string `json:"ruleId"`
+				Fixes  []struct {
+					Description     struct{ Text string } `json:"description"`
+					ArtifactChanges []struct {
+						ArtifactLocation struct{ URI string } `json:"artifactLocation"`
+						Replacements     []struct {
+							DeletedRegion   struct{ StartLine, StartColumn, EndLine, EndColumn int } `json:"deletedRegion"`
+							InsertedContent struct{ Text string }                                    `json:"insertedContent"`
+						} `json:"replacements"`
+					} `json:"artifactChanges"`
+					Properties map[string]any `json:"properties"`
+				} `json:"fixes"`
+			} `json:"results"`
+		} `json:"runs"`
+	}
+	if err := json.Unmarshal(out, &doc); err != nil {
+		t.Fatal(err)
+	}
+	got := map[string]bool{}
+	for _, r := range doc.Runs[0].Results {
+		for _, f := range r.Fixes {
+			rp := f.ArtifactChanges[0].Replacements[0]
+			switch r.RuleID {
+			case "zone-shape":
+				if rp.DeletedRegion.StartLine != 7 || rp.DeletedRegion.StartColumn != 22 || rp.DeletedRegion.EndColumn != 22 || rp.InsertedContent.Text != "dia " || f.Properties["datumlint/safe"] != true {
+					t.Errorf("zone-shape fix %+v", f)
+				}
+			case "name-undefined":
+				if rp.InsertedContent.Text != "bore" || f.Properties["datumlint/safe"] != false || f.ArtifactChanges[0].ArtifactLocation.URI != "fix.callouts" {
+					t.Errorf("name-undefined fix %+v", f)
+				}
+			}
+			got[r.RuleID] = true
+		}
+	}
+	if !got["zone-shape"] || !got["name-undefined"] {
+		t.Errorf("fixes missing: %v", got)
+	}
+}
+
+// TestSARIFMultitoolValidates runs the SARIF SDK's validator (the
+// Sarif.Multitool, npm package @microsoft/sarif-multitool) over the log of
+// every example and test file, fixes included, where it is installed:
+// DATUMLINT_SARIF_MULTITOOL names its executable (.ci/run installs it). A
+// result it reports at error or warning level fails the test.
+func TestSARIFMultitoolValidates(t *testing.T) {
+	tool := os.Getenv("DATUMLINT_SARIF_MULTITOOL")
+	if tool == "" {
+		t.Skip("DATUMLINT_SARIF_MULTITOOL is not set: the SARIF SDK's validator is not installed (the OASIS schema test still runs)")
+	}
+	dir := t.TempDir()
+	var files []string
+	for _, root := range []string{"../../testdata/examples", "../../rules/testdata"} {
+		m, _ := filepath.Glob(filepath.Join(root, "*.callouts"))
+		files = append(files, m...)
+		m, _ = filepath.Glob(filepath.Join(root, "fix", "*.callouts"))
+		files = append(files, m...)
+	}
+	out, _ := runCLI(t, append([]string{"check", "--format", "sarif", "--fail-on", "error"}, files...)...)
+	log := filepath.Join(dir, "in.sarif")
+	if err := os.WriteFile(log, out, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	res := filepath.Join(dir, "validation.sarif")
+	cmd := exec.Command(tool, "validate", log, "--output", res, "--log", "ForceOverwrite")
+	cmd.Env = append(os.Environ(), "DOTNET_SYSTEM_GLOBALIZATION_INVARIANT=1")
+	if msg, err := cmd.CombinedOutput(); err != nil {
+		t.Fatalf("the validator did not run: %v\n%s", err, msg)
+	}
+	b, err := os.ReadFile(res)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Runs []struct {
+			Results []struct {
+				RuleID  string                `json:"ruleId"`
+				Level   string                `json:"level"`
+				Message struct{ Text string } `json:"message"`
+			} `json:"results"`
+		} `json:"runs"`
+	}
+	if err := json.Unmarshal(b, &doc); err != nil {
+		t.Fatal(err)
+	}
+	for _, r := range doc.Runs[0].Results {
+		if r.Level == "error" || r.Level == "warning" || r.Level == "" {
+			t.Errorf("SARIF SDK validator: %s %s: %s", r.Level, r.RuleID, r.Message.Text)
+		}
 	}
 }

@@ -94,6 +94,7 @@ func (p *Part) Lookup(name string, sp source.Span) *Target {
 	t.Problem = fmt.Sprintf("no feature is named '%s'", name)
 	if sg := spell.Nearest(name, names); sg != "" && len(name) > 2 {
 		t.Problem += fmt.Sprintf("; did you mean '%s'?", sg)
+		t.Suggestion = spell.Only(name, names)
 	}
 	return t
 }

@@ -45,3 +45,19 @@ func Distance(a, b string) int {
 	}
 	return prev[len(rb)]
 }
+
+// Only returns the one candidate within two edits of w, or "" where none
+// or several are: a fix may put in a name only when no other is as likely.
+func Only(w string, candidates []string) string {
+	lw := strings.ToLower(w)
+	found := ""
+	for _, c := range candidates {
+		if Distance(lw, c) < 3 {
+			if found != "" && found != c {
+				return ""
+			}
+			found = c
+		}
+	}
+	return found
+}

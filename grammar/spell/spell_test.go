@@ -19,3 +19,12 @@ func TestNearest(t *testing.T) {
 		t.Errorf("Distance = %d, want 3", d)
 	}
 }
+
+func TestOnly(t *testing.T) {
+	if got := Only("bor", []string{"bore", "base", "lug"}); got != "bore" {
+		t.Errorf("Only = %q, want bore", got)
+	}
+	if got := Only("bas", []string{"base", "bass"}); got != "" {
+		t.Errorf("two near names: Only = %q, want none", got)
+	}
+}

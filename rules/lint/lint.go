@@ -8,6 +8,7 @@ package lint
 import (
 	"errors"
 	"fmt"
+	"io"
 	"io/fs"
 	"os"
 	"path/filepath"
@@ -88,6 +89,9 @@ type Options struct {
 	MaxBytes int64
 	// Workers is the number of files checked at once (0: one per core).
 	Workers int
+	// Override gives, by path, text to check in place of the file's (the
+	// text that fixes would leave, for check --fix --diff).
+	Override map[string][]byte
 	// KeepParts keeps every file's source and part model in the result
 	// (the report and the editor need them); otherwise only the source of
 	// files with findings is kept, for outputs that quote it.
@@ -117,11 +121,14 @@ type File struct {
 }
 
 // Result is the outcome of a run: one File per checked file, in the order
-// of a serial run, and the paths that could not be read.
+// of a serial run, the paths that could not be read, the likely mistakes
+// that did not stop the run, and how many walked files were excluded.
 type Result struct {
-	Files  []*File
-	Errors []*PathError
-	byPath map[string]*File
+	Files    []*File
+	Errors   []*PathError
+	Warnings []*PathError
+	Excluded int
+	byPath   map[string]*File
 }
 
 // Diagnostics returns every file's findings, sorted by file, line and
@@ -146,13 +153,34 @@ func (r *Result) File(path string) *File {
 	return r.byPath[path]
 }
 
+// Found is what Collect found under the paths.
+type Found struct {
+	// Files are the files to check, in order.
+	Files []string
+	// Errors are the paths that could not be read; a run that has any
+	// exits 2.
+	Errors []*PathError
+	// Warnings are likely mistakes that do not stop anything: a folder
+	// named like a callouts file, whose files are still checked.
+	Warnings []*PathError
+	// Excluded counts the walked files that exclude left out.
+	Excluded int
+}
+
 // Collect expands paths into the files to check: files as named, folders
-// walked for the extensions a reader knows, in sorted order. Missing or unreadable paths,
-// permission errors and symbolic link loops become PathErrors.
-func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError) {
+// walked for the extensions a reader knows, in sorted order. Missing or
+// unreadable paths, permission errors and symbolic link loops become
+// Errors; a folder named like a callouts file is a Warning.
+func Collect(paths []string, exclude func(string) bool) Found {
+	var out Found
 	var files []string
 	var errs []*PathError
 	seen := map[string]bool{}
+	named := func(p string) {
+		// Likely a mistake (an export that made a folder per part): say
+		// so, and still check the files inside.
+		out.Warnings = append(out.Warnings, &PathError{p, errors.New("a folder named like a callouts file; the .callouts files inside it are checked")})
+	}
 	add := func(p string) {
 		// x.callouts and ./x.callouts are one file, checked once.
 		if c := filepath.Clean(p); !seen[c] {
@@ -167,9 +195,7 @@ func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError)
 			continue
 		}
 		if info.IsDir() && namedLikeFile(filepath.Clean(root)) {
-			// Named like a file but a folder: report it (exit 2), and
-			// still check what is inside.
-			errs = append(errs, &PathError{root, errors.New("a folder named like a callouts file; the .callouts files inside it are checked")})
+			named(root)
 		}
 		if !info.IsDir() {
 			if !info.Mode().IsRegular() {
@@ -192,9 +218,7 @@ func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError)
 					return fs.SkipDir // .git and other hidden folders
 				}
 				if p != root && namedLikeFile(d.Name()) {
-					// Likely a mistake (an export that made a folder per part);
-					// say so, and still check the files inside.
-					errs = append(errs, &PathError{p, errors.New("a folder named like a callouts file; the .callouts files inside it are checked")})
+					named(p)
 				}
 				return nil
 			}
@@ -213,6 +237,7 @@ func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError)
 				}
 			}
 			if exclude != nil && exclude(p) {
+				out.Excluded++
 				return nil
 			}
 			add(p)
@@ -222,7 +247,8 @@ func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError)
 			errs = append(errs, &PathError{root, friendlyErr(err)})
 		}
 	}
-	return files, errs
+	out.Files, out.Errors = files, errs
+	return out
 }
 
 func friendlyErr(err error) error {
@@ -241,8 +267,9 @@ func friendlyErr(err error) error {
 
 // Run checks every file under paths.
 func Run(paths []string, opt Options) Result {
-	files, errs := Collect(paths, opt.Exclude)
-	res := Result{Files: make([]*File, len(files)), Errors: errs}
+	found := Collect(paths, opt.Exclude)
+	files := found.Files
+	res := Result{Files: make([]*File, len(files)), Errors: found.Errors, Warnings: found.Warnings, Excluded: found.Excluded}
 	workers := opt.Workers
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
@@ -277,6 +304,40 @@ func Run(paths []string, opt Options) Result {
 	return res
 }
 
+// RunReader checks one file read from r (standard input) under the name
+// given, which chooses the reader and the settings (Options.SettingsFor)
+// and names the file in the findings. Input over the size limit is not
+// read past it and gets the same one finding as a file over the limit.
+func RunReader(name string, r io.Reader, opt Options) Result {
+	f := &File{Path: name}
+	res := Result{Files: []*File{f}}
+	max := opt.MaxBytes
+	if max <= 0 {
+		max = DefaultMaxBytes
+	}
+	settings := opt.Settings
+	if opt.SettingsFor != nil {
+		s, err := opt.SettingsFor(name)
+		if err != nil {
+			res.Errors = append(res.Errors, &PathError{name, err})
+			return res
+		}
+		settings = s
+	}
+	src, err := io.ReadAll(io.LimitReader(r, max+1))
+	if err != nil {
+		res.Errors = append(res.Errors, &PathError{name, err})
+		return res
+	}
+	if int64(len(src)) > max {
+		f.Diagnostics = []rules.Diagnostic{{File: name, Rule: rules.Syntax.ID, Severity: rules.Error, Span: source.Line(1),
+			Message: fmt.Sprintf("the input is over the size limit of %d bytes; it was not read (raise the limit with --max-bytes if it really is one part)", max)}}
+		return res
+	}
+	CheckSource(f, src, settings, opt.KeepParts)
+	return res
+}
+
 // CheckPath reads and checks one file. The File is never nil; where the
 // file could not be read it has no findings and the PathError says why.
 func CheckPath(path string, opt Options, max int64) (*File, *PathError) {
@@ -300,9 +361,11 @@ func CheckPath(path string, opt Options, max int64) (*File, *PathError) {
 		out.Diagnostics = []rules.Diagnostic{tooBig(path, st.Size(), max)}
 		return out, nil
 	}
-	src, err := os.ReadFile(path)
-	if err != nil {
-		return out, &PathError{path, friendlyErr(err)}
+	src, ok := opt.Override[path]
+	if !ok {
+		if src, err = os.ReadFile(path); err != nil {
+			return out, &PathError{path, friendlyErr(err)}
+		}
 	}
 	CheckSource(out, src, settings, opt.KeepParts)
 	return out, nil

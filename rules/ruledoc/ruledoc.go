@@ -17,7 +17,8 @@ func Markdown(r *rules.Rule) string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "%s\n\n", upperFirst(r.Summary))
 	fmt.Fprintf(&b, "%s\n\n", strings.TrimSpace(r.Rationale))
-	fmt.Fprintf(&b, "Source: %s\n", r.Source)
+	fmt.Fprintf(&b, "Source: %s\n\n", r.Source)
+	fmt.Fprintf(&b, "Fix: %s\n", r.FixText())
 	if r.Bad != "" || r.Good != "" {
 		fmt.Fprintf(&b, "\nBad:\n\n%s\n\nGood:\n\n%s\n", Fence(r.Bad), Fence(r.Good))
 	}

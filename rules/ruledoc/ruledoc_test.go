@@ -11,12 +11,16 @@ func TestMarkdown(t *testing.T) {
 	r := &rules.Rule{ID: "x-y", Summary: "a thing wrong", Rationale: "Because.\n", Source: "common practice",
 		Bad: "frame a: flatness 0", Good: "frame a: flatness ``` 1"}
 	got := Markdown(r)
-	want := "A thing wrong\n\nBecause.\n\nSource: common practice\n\nBad:\n\n```\nframe a: flatness 0\n```\n\nGood:\n\n````\nframe a: flatness ``` 1\n````\n"
+	want := "A thing wrong\n\nBecause.\n\nSource: common practice\n\nFix: none\n\nBad:\n\n```\nframe a: flatness 0\n```\n\nGood:\n\n````\nframe a: flatness ``` 1\n````\n"
 	if got != want {
 		t.Errorf("got:\n%s\nwant:\n%s", got, want)
 	}
 	r.Bad, r.Good = "", ""
-	if got := Markdown(r); strings.Contains(got, "Bad:") || !strings.HasSuffix(got, "Source: common practice\n") {
+	if got := Markdown(r); strings.Contains(got, "Bad:") || !strings.HasSuffix(got, "Fix: none\n") {
 		t.Errorf("a rule without examples: %q", got)
+	}
+	r.Fix, r.FixSafe = "remove it", true
+	if got := Markdown(r); !strings.Contains(got, "Fix: remove it (safe: `check --fix` applies it)") {
+		t.Errorf("a rule with a safe fix: %q", got)
 	}
 }
