@@ -1,11 +1,14 @@
 package rules
 
 import (
+	"bytes"
 	"fmt"
 	"math"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/grammar/source"
 	"github.com/datumlint/datumlint/rules/basics"
 )
 
@@ -153,7 +156,7 @@ basic 40 from rear to bore`,
 				continue // a dimension to it may be in a line that did not parse
 			}
 			seen := map[string]bool{}
-			var msgs []string
+			var msgs, adds []string
 			for i, seg := range fr.Segments {
 				ms, ok := frameMissing(p, fr, i)
 				if !ok {
@@ -165,18 +168,79 @@ basic 40 from rear to bore`,
 						seen[msg] = true
 						msgs = append(msgs, msg)
 					}
+					if m.Suggest != "" && !seen["add:"+m.Suggest] {
+						seen["add:"+m.Suggest] = true
+						adds = append(adds, m.Suggest)
+					}
 				}
 			}
-			switch len(msgs) {
-			case 0:
-			case 1:
-				p.Report(fr.CharSpan, "%s", msgs[0])
-			default:
-				p.Report(fr.CharSpan, "%s; and %s", msgs[0], strings.Join(msgs[1:], "; and "))
+			if len(msgs) == 0 {
+				continue
 			}
+			d := Diagnostic{Span: fr.CharSpan, Message: msgs[0]}
+			if len(msgs) > 1 {
+				d.Message = fmt.Sprintf("%s; and %s", msgs[0], strings.Join(msgs[1:], "; and "))
+			}
+			if fix, ok := insertBasics(p, fr, adds); ok {
+				d.Fixes = []Fix{fix}
+			}
+			p.ReportDiagnostic(d)
 		}
 	},
 })
+
+// insertBasics is basic-missing's fix: one edit per missing quantity,
+// each inserting the `basic` line that the message suggests (the engine
+// writes it with the model's nominal value, in the file's units). The
+// lines go below the last basic dimension to or from the frame's feature,
+// or else below the last frame on it, so that they stay beside what they
+// complete; the file's line ends are kept. The fix is safe: a basic
+// dimension equal to the model adds no requirement the model does not
+// already have (ASME Y14.41-2019, model values are basic).
+func insertBasics(p *Pass, fr *model.Frame, adds []string) (Fix, bool) {
+	ft := fr.Target.Feature
+	if ft == nil || len(adds) == 0 {
+		return Fix{}, false
+	}
+	anchor := fr.Span.End.Line
+	for _, f := range p.Part.FramesOn(ft) {
+		anchor = max(anchor, f.Span.End.Line)
+	}
+	last := 0
+	for _, d := range p.Part.Dims {
+		on := d.From.Feature == ft || d.To.Feature == ft
+		if d.Circle != nil {
+			on = on || d.Circle.Pattern.Feature == ft
+		}
+		if d.Basic && on {
+			last = max(last, d.Span.End.Line)
+		}
+	}
+	if last > 0 {
+		anchor = last
+	}
+	src := bytes.TrimPrefix(p.File.Src, []byte("\xef\xbb\xbf")) // as the parser counts columns
+	file := source.NewFile(p.File.Name, src)
+	eol := "\n"
+	if bytes.Contains(src, []byte("\r\n")) {
+		eol = "\r\n"
+	}
+	at := source.Pos{Line: anchor + 1, Col: 1}
+	before, after := "", eol
+	if anchor >= file.Lines() {
+		// The last line has no line end: end it first.
+		at = source.Pos{Line: anchor, Col: utf8.RuneCount(file.LineBytes(anchor)) + 1}
+		before, after = eol, ""
+	}
+	fix := Fix{Safe: true, Message: fmt.Sprintf("insert `%s`", adds[0])}
+	if len(adds) > 1 {
+		fix.Message = fmt.Sprintf("insert the %d basic dimensions: `%s`", len(adds), strings.Join(adds, "`, `"))
+	}
+	for _, a := range adds {
+		fix.Edits = append(fix.Edits, Edit{Span: source.Span{Start: at, End: at}, NewText: before + a + after})
+	}
+	return fix, true
+}
 
 func basicRefName(seg *model.Segment, k int) string {
 	if k < 0 || k >= len(seg.Refs) {
