@@ -40,6 +40,7 @@ notes, local codes and qualified engineering judgement decide.`,
 	root.SetOut(stdout)
 	root.SetErr(stderr)
 	root.AddCommand(newCheckCmd(), newRulesCmd(), newExplainCmd())
+	root.AddCommand(newLSPCmd())
 	for _, add := range extraCommands {
 		root.AddCommand(add())
 	}
