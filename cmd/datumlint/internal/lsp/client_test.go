@@ -236,4 +236,6 @@ func pos(line, char int) protocol.Position {
 	return protocol.Position{Line: protocol.UInteger(line), Character: protocol.UInteger(char)}
 }
 
-func rng(l1, c1, l2, c2 int) protocol.Range { return protocol.Range{Start: pos(l1, c1), End: pos(l2, c2)} }
+func rng(l1, c1, l2, c2 int) protocol.Range {
+	return protocol.Range{Start: pos(l1, c1), End: pos(l2, c2)}
+}

@@ -99,11 +99,11 @@ func TestLifecycle(t *testing.T) {
 				OpenClose bool `json:"openClose"`
 				Change    int  `json:"change"`
 			} `json:"textDocumentSync"`
-			HoverProvider              bool `json:"hoverProvider"`
-			DefinitionProvider         bool `json:"definitionProvider"`
-			ReferencesProvider         bool `json:"referencesProvider"`
-			DocumentSymbolProvider     bool `json:"documentSymbolProvider"`
-			DocumentFormattingProvider bool `json:"documentFormattingProvider"`
+			HoverProvider              bool      `json:"hoverProvider"`
+			DefinitionProvider         bool      `json:"definitionProvider"`
+			ReferencesProvider         bool      `json:"referencesProvider"`
+			DocumentSymbolProvider     bool      `json:"documentSymbolProvider"`
+			DocumentFormattingProvider bool      `json:"documentFormattingProvider"`
 			CompletionProvider         *struct{} `json:"completionProvider"`
 			CodeActionProvider         struct {
 				CodeActionKinds []string `json:"codeActionKinds"`
