@@ -178,10 +178,15 @@ type positions struct {
 var byteOrderMark = []byte("\xef\xbb\xbf")
 
 func newPositions(text []byte) positions {
+	p := positions{f: source.NewFile("", text)}
 	if bytes.HasPrefix(text, byteOrderMark) {
-		return positions{source.NewFile("", text[len(byteOrderMark):]), 1}
+		p = positions{source.NewFile("", text[len(byteOrderMark):]), 1}
 	}
-	return positions{f: source.NewFile("", text)}
+	// A snapshot is read by the check that publishes it and by requests
+	// at once: make the file's line index now, so that later uses only
+	// read it.
+	p.f.Lines()
+	return p
 }
 
 func (p positions) lsp(q source.Pos) protocol.Position {

@@ -45,6 +45,7 @@ type client struct {
 	t    *testing.T
 	srv  *server
 	conn *jsonrpc2.Conn
+	in   io.Writer // the server's input, for messages written by hand
 	code chan int
 
 	mu        sync.Mutex
@@ -80,6 +81,7 @@ func startServer(t testing.TB, s *server) *client {
 	go func() {
 		c.code <- s.serve(sr, sw)
 	}()
+	c.in = cw
 	c.conn = jsonrpc2.NewConn(context.Background(), jsonrpc2.NewBufferedStream(pipe{cr, cw}, jsonrpc2.VSCodeObjectCodec{}),
 		jsonrpc2.HandlerWithError(c.handle), jsonrpc2.SetLogger(discardLogger{}))
 	t.Cleanup(func() { c.conn.Close() })
