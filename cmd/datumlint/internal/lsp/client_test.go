@@ -42,7 +42,7 @@ type wirePublish struct {
 }
 
 type client struct {
-	t    *testing.T
+	t    testing.TB
 	srv  *server
 	conn *jsonrpc2.Conn
 	in   io.Writer // the server's input, for messages written by hand
@@ -75,9 +75,7 @@ func startServer(t testing.TB, s *server) *client {
 	sr, cw := io.Pipe()
 	cr, sw := io.Pipe()
 	c := &client{srv: s, code: make(chan int, 1), notified: make(chan struct{}, 1), version: map[string]int{}}
-	if tt, ok := t.(*testing.T); ok {
-		c.t = tt
-	}
+	c.t = t
 	go func() {
 		c.code <- s.serve(sr, sw)
 	}()
