@@ -159,22 +159,23 @@ func (sym symbol) references(part *model.Part, withDecl bool) []source.Span {
 			}
 		}
 	case sym.member != nil:
-		if withDecl {
-			out = append(out, memberSpan(sym.member))
-		}
-		for _, t := range part.Refs {
-			if t.Member == sym.member {
-				out = append(out, t.Span)
-			}
-		}
+		out = targets(part, withDecl, memberSpan(sym.member), func(t *model.Target) bool { return t.Member == sym.member })
 	case sym.feature != nil:
-		if withDecl {
-			out = append(out, declSpan(sym.feature))
-		}
-		for _, t := range part.Refs {
-			if t.Feature == sym.feature {
-				out = append(out, t.Span)
-			}
+		out = targets(part, withDecl, declSpan(sym.feature), func(t *model.Target) bool { return t.Feature == sym.feature })
+	}
+	return out
+}
+
+// targets lists the declaration (when asked for) and the names that refer
+// to what it declares.
+func targets(part *model.Part, withDecl bool, decl source.Span, refers func(*model.Target) bool) []source.Span {
+	var out []source.Span
+	if withDecl {
+		out = append(out, decl)
+	}
+	for _, t := range part.Refs {
+		if refers(t) {
+			out = append(out, t.Span)
 		}
 	}
 	return out

@@ -12,6 +12,8 @@ import (
 	protocol "github.com/tliron/glsp/protocol_3_16"
 
 	"github.com/datumlint/datumlint/grammar"
+	"github.com/datumlint/datumlint/grammar/source"
+	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/ruledoc"
 )
 
@@ -671,5 +673,34 @@ func TestCodeActionBasicMissing(t *testing.T) {
 		"context": map[string]any{"diagnostics": []any{}, "only": []string{"refactor"}}}, &actions)
 	if len(actions) != 0 {
 		t.Errorf("refactor actions: %+v", actions)
+	}
+}
+
+// TestBrokenConfiguration: a .datumlint.toml that does not load is shown
+// on the document (check reports the file as not checked, exit 2).
+func TestBrokenConfiguration(t *testing.T) {
+	dir := t.TempDir()
+	os.WriteFile(filepath.Join(dir, ".datumlint.toml"), []byte("[rules]\nno-such-rule = \"off\"\n"), 0o644)
+	c := startServer(t, nil)
+	c.initialize()
+	uri := fileURI(filepath.Join(dir, "part.callouts"))
+	c.open(uri, plate)
+	d := c.waitPublish(uri, 1).Diagnostics
+	if len(d) != 1 || !strings.Contains(d[0].Message, "not checked: the configuration does not load") || !strings.Contains(d[0].Message, "no-such-rule") || d[0].Severity != 1 {
+		t.Errorf("with a broken configuration: %+v", d)
+	}
+}
+
+// TestRelatedInformation: a finding's related places go out as
+// relatedInformation, in the document's UTF-16 positions.
+func TestRelatedInformation(t *testing.T) {
+	text := []byte("part \"𝜙\"\nunits mm\n")
+	sn := &snapshot{uri: "file:///r.callouts", text: text, pos: newPositions(text)}
+	d := sn.lspDiagnostic(rules.Diagnostic{Rule: "header-duplicate", Severity: rules.Warning, Message: "twice",
+		Span:    source.Span{Start: source.Pos{Line: 2, Col: 1}, End: source.Pos{Line: 2, Col: 6}},
+		Related: []rules.Related{{Span: source.Span{Start: source.Pos{Line: 1, Col: 8}, End: source.Pos{Line: 1, Col: 9}}, Message: "first here"}}})
+	if len(d.RelatedInformation) != 1 || d.RelatedInformation[0].Message != "first here" || d.RelatedInformation[0].Location.URI != sn.uri ||
+		d.RelatedInformation[0].Location.Range != rng(0, 8, 0, 9) || *d.Severity != protocol.DiagnosticSeverityWarning {
+		t.Errorf("%+v", d)
 	}
 }
