@@ -15,7 +15,7 @@ output, until the editor sends shutdown and exit. Open documents are checked as 
 typed, with the rules and the .datumlint.toml that check would use; hovers explain findings,
 features and datums; definition, references, outline, completion, formatting (as fmt) and
 quick fixes work on the text in the editor, which is never written to disk. Exit 0 after
-shutdown and exit, 1 when the input ends or exit comes without shutdown.
+shutdown and exit; 1 when exit comes, or the input ends, without shutdown.
 
 docs/editors.md shows how to use it from Neovim, Helix, Emacs and VS Code.`,
 		Args: cobra.NoArgs,

@@ -3,6 +3,7 @@ package lsp
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -210,5 +211,43 @@ func TestNeovim(t *testing.T) {
 	}
 	if res.ExitCode == nil || *res.ExitCode != 0 {
 		t.Errorf("the server's exit code after Neovim stopped it: %v", res.ExitCode)
+	}
+}
+
+// TestCommandExitCodes runs `datumlint lsp` as a process: exit 0 after
+// shutdown (and exit, or the end of the input), 1 when the input ends
+// without shutdown.
+func TestCommandExitCodes(t *testing.T) {
+	bin := datumlintBinary(t)
+	frame := func(body string) string { return fmt.Sprintf("Content-Length: %d\r\n\r\n%s", len(body), body) }
+	session := frame(`{"jsonrpc":"2.0","id":1,"method":"initialize","params":{"processId":null,"rootUri":null,"capabilities":{}}}`) +
+		frame(`{"jsonrpc":"2.0","method":"initialized","params":{}}`) +
+		frame(`{"jsonrpc":"2.0","method":"textDocument/didOpen","params":{"textDocument":{"uri":"file:///tmp/x.callouts","languageId":"callouts","version":1,"text":"units mm\n"}}}`) +
+		frame(`{"jsonrpc":"2.0","id":2,"method":"shutdown"}`)
+	for _, c := range []struct {
+		input string
+		code  int
+	}{
+		{session + frame(`{"jsonrpc":"2.0","method":"exit"}`), 0},
+		{session, 0},
+		{"", 1},
+	} {
+		cmd := exec.Command(bin, "lsp")
+		cmd.Stdin = strings.NewReader(c.input)
+		var out bytes.Buffer
+		cmd.Stdout = &out
+		err := cmd.Run()
+		code := 0
+		if ee, ok := err.(*exec.ExitError); ok {
+			code = ee.ExitCode()
+		} else if err != nil {
+			t.Fatal(err)
+		}
+		if code != c.code {
+			t.Errorf("exit code %d, want %d; output:\n%s", code, c.code, out.Bytes())
+		}
+		if c.input != "" && !strings.Contains(out.String(), `"id":2,"result":null`) {
+			t.Errorf("no answer to shutdown in:\n%s", out.Bytes())
+		}
 	}
 }

@@ -52,7 +52,8 @@ const DefaultDebounce = 15 * time.Millisecond
 
 // Serve speaks the protocol over in and out until the client sends exit or
 // the input ends. It returns the process's exit code as the protocol
-// defines it (LSP 3.17, "exit"): 0 when shutdown came before, else 1.
+// defines it (LSP 3.17, "exit"): 0 when shutdown came before, else 1 (an
+// input that ends after shutdown counts as exit).
 func Serve(in io.Reader, out io.Writer, opt Options) int {
 	s := newServer(opt)
 	return s.serve(in, out)

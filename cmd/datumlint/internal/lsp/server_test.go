@@ -649,8 +649,9 @@ func TestCodeActionBasicMissing(t *testing.T) {
 			Changes map[string][]protocol.TextEdit `json:"changes"`
 		} `json:"edit"`
 	}
+	// The client sends the diagnostics it shows, as it received them.
 	c.must("textDocument/codeAction", map[string]any{"textDocument": map[string]any{"uri": uri}, "range": diags[0].Range,
-		"context": map[string]any{"diagnostics": []any{}}}, &actions)
+		"context": map[string]any{"diagnostics": diags}}, &actions)
 	if len(actions) != 1 || actions[0].Kind != "quickfix" || !actions[0].IsPreferred || actions[0].Title != "Insert `basic 60 from left to bore`" ||
 		len(actions[0].Diagnostics) != 1 || actions[0].Diagnostics[0].Code != "basic-missing" {
 		t.Fatalf("code actions: %+v", actions)
