@@ -7,6 +7,7 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/tliron/glsp"
 	protocol "github.com/tliron/glsp/protocol_3_16"
@@ -40,11 +41,16 @@ func (c *client) alive() {
 	c.must("textDocument/documentSymbol", map[string]any{"textDocument": map[string]any{"uri": "file:///none.callouts"}}, &syms)
 }
 
+// hasLog waits a while for a logMessage of the type holding part.
 func hasLog(c *client, typ protocol.MessageType, part string) bool {
-	for _, l := range c.logged() {
-		if l.Type == typ && strings.Contains(l.Message, part) {
-			return true
+	deadline := time.Now().Add(10 * time.Second)
+	for time.Now().Before(deadline) {
+		for _, l := range c.logged() {
+			if l.Type == typ && strings.Contains(l.Message, part) {
+				return true
+			}
 		}
+		time.Sleep(5 * time.Millisecond)
 	}
 	return false
 }

@@ -23,6 +23,7 @@ import (
 	"io"
 	"log"
 	"runtime/debug"
+	"slices"
 	"strings"
 	"sync"
 	"sync/atomic"
@@ -259,10 +260,7 @@ func (s *server) initialize(params json.RawMessage) (any, error) {
 	}
 	s.mu.Lock()
 	hc := caps.Capabilities.TextDocument.Hover.ContentFormat
-	s.markdown = len(hc) == 0 || hc[0] == string(protocol.MarkupKindMarkdown)
-	for _, f := range hc {
-		s.markdown = s.markdown || f == string(protocol.MarkupKindMarkdown)
-	}
+	s.markdown = len(hc) == 0 || slices.Contains(hc, string(protocol.MarkupKindMarkdown))
 	h := caps.Capabilities.TextDocument.DocumentSymbol.Hierarchical
 	s.hierarchical = h != nil && *h
 	s.mu.Unlock()

@@ -2,6 +2,7 @@ package lsp
 
 import (
 	"errors"
+	"fmt"
 	"net/url"
 	"path/filepath"
 	"runtime"
@@ -85,11 +86,22 @@ func (s *server) didOpen(_ *glsp.Context, p *protocol.DidOpenTextDocumentParams)
 }
 
 func (s *server) didChange(_ *glsp.Context, p *protocol.DidChangeTextDocumentParams) error {
+	if warning := s.applyChange(p); warning != "" {
+		// Logged once the store is unlocked: writing to the client never
+		// waits with the lock held.
+		s.logf(protocol.MessageTypeWarning, "%s", warning)
+	}
+	return nil
+}
+
+// applyChange applies a didChange to the store; it returns what is worth
+// a warning.
+func (s *server) applyChange(p *protocol.DidChangeTextDocumentParams) (warning string) {
 	st := s.docs
 	st.mu.Lock()
 	defer st.mu.Unlock()
 	if st.closed {
-		return nil
+		return ""
 	}
 	d := st.docs[p.TextDocument.URI]
 	if d == nil {
@@ -97,21 +109,20 @@ func (s *server) didChange(_ *glsp.Context, p *protocol.DidChangeTextDocumentPar
 		// gives the whole text can be taken as it is.
 		whole, ok := wholeText(p.ContentChanges)
 		if !ok {
-			s.logf(protocol.MessageTypeWarning, "didChange for %s, which is not open: ignored", p.TextDocument.URI)
-			return nil
+			return fmt.Sprintf("didChange for %s, which is not open: ignored", p.TextDocument.URI)
 		}
 		d = &document{uri: p.TextDocument.URI, path: uriPath(p.TextDocument.URI), text: whole}
 		st.docs[d.uri] = d
 	} else {
 		text, err := applyChanges(d.text, p.ContentChanges)
 		if err != nil {
-			s.logf(protocol.MessageTypeWarning, "didChange for %s: %v", d.uri, err)
+			warning = fmt.Sprintf("didChange for %s: %v", d.uri, err)
 		}
 		d.text = text
 	}
 	d.version = p.TextDocument.Version
 	s.changedLocked(d)
-	return nil
+	return warning
 }
 
 func (s *server) didClose(_ *glsp.Context, p *protocol.DidCloseTextDocumentParams) error {
