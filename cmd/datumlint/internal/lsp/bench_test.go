@@ -15,7 +15,7 @@ import (
 // publishDiagnostics of that version has been read from its output, with
 // the default debounce. Run them with
 //
-//	go test -run '^$' -bench . -benchtime 40x ./cmd/datumlint/internal/lsp/
+//	go test -run '^$' -bench . -benchtime 20x ./cmd/datumlint/internal/lsp/
 //
 // Shapes are scenarios of our own (invented plates): holes located by
 // basic dimensions from A, B and C; hole patterns under composite
@@ -127,33 +127,22 @@ func changeLatency(b *testing.B, text string, changes int) time.Duration {
 	return d / time.Duration(max(changes, 1))
 }
 
-// BenchmarkDiagnostics: ns/op is the latency of one change's diagnostics.
+// BenchmarkDiagnostics measures each shape at 500, 1,000 and 2,000 lines
+// in one run: ns/op is the latency at 1,000 lines (the goal's size), the
+// other metrics the latency at each size and its growth (a ratio near 2
+// per doubling is linear; the debounce, a constant, keeps it lower).
 func BenchmarkDiagnostics(b *testing.B) {
 	for _, s := range shapes {
-		for _, n := range []int{250, 1000, 4000} {
-			text := benchText(s, n)
-			b.Run(fmt.Sprintf("%s/lines=%d", s.name, n), func(b *testing.B) {
-				b.ReportAllocs()
-				b.ResetTimer()
-				lat := changeLatency(b, text, b.N)
-				b.ReportMetric(float64(lat.Microseconds())/1000, "ms/change")
-			})
-		}
-	}
-}
-
-// BenchmarkDiagnosticsGrowth measures every shape at 1,000 and 4,000 lines
-// in one run and reports how the latency grows: a ratio near 4 is linear
-// (the debounce, a constant, keeps it lower).
-func BenchmarkDiagnosticsGrowth(b *testing.B) {
-	const changes = 20
-	for i := 0; i < b.N; i++ {
-		for _, s := range shapes {
-			small := changeLatency(b, benchText(s, 1000), changes)
-			large := changeLatency(b, benchText(s, 4000), changes)
-			b.ReportMetric(float64(small.Microseconds())/1000, s.name+"-1000-ms")
-			b.ReportMetric(float64(large)/float64(small), s.name+"-x4-ratio")
-		}
+		b.Run(s.name, func(b *testing.B) {
+			lat := map[int]time.Duration{}
+			for _, n := range []int{500, 1000, 2000} {
+				lat[n] = changeLatency(b, benchText(s, n), b.N)
+				b.ReportMetric(float64(lat[n].Microseconds())/1000, fmt.Sprintf("ms@%d", n))
+			}
+			b.ReportMetric(float64(lat[1000].Nanoseconds()), "ns/op")
+			b.ReportMetric(float64(lat[2000])/float64(lat[1000]), "x1000to2000")
+			b.ReportMetric(float64(lat[1000])/float64(lat[500]), "x500to1000")
+		})
 	}
 }
 
