@@ -219,12 +219,21 @@ func insertBasics(p *Pass, fr *model.Frame, adds []string) (Fix, bool) {
 	if last > 0 {
 		anchor = last
 	}
-	src := bytes.TrimPrefix(p.File.Src, []byte("\xef\xbb\xbf")) // as the parser counts columns
-	file := source.NewFile(p.File.Name, src)
-	eol := "\n"
-	if bytes.Contains(src, []byte("\r\n")) {
-		eol = "\r\n"
+	// The file's lines as the parser counts them (after a byte-order mark)
+	// and its line end, found once per file however many frames need a fix.
+	type lines struct {
+		file *source.File
+		eol  string
 	}
+	l := Memo(p.Facts, "basics.fix.lines", func() lines {
+		f := source.NewFile(p.File.Name, bytes.TrimPrefix(p.File.Src, []byte("\xef\xbb\xbf")))
+		f.Lines()
+		if bytes.Contains(f.Src, []byte("\r\n")) {
+			return lines{f, "\r\n"}
+		}
+		return lines{f, "\n"}
+	})
+	file, eol := l.file, l.eol
 	at := source.Pos{Line: anchor + 1, Col: 1}
 	before, after := "", eol
 	if anchor >= file.Lines() {
