@@ -181,13 +181,20 @@ func targets(part *model.Part, withDecl bool, decl source.Span, refers func(*mod
 	return out
 }
 
-func (s *server) definition(_ *glsp.Context, p *protocol.DefinitionParams) (any, error) {
-	sn := s.current(p.TextDocument.URI)
+// symbolFor finds what a request's position names in the document as it
+// is now.
+func (s *server) symbolFor(uri protocol.DocumentUri, at protocol.Position) (*snapshot, *model.Part, symbol, bool) {
+	sn := s.current(uri)
 	if sn == nil {
-		return nil, nil
+		return nil, nil, symbol{}, false
 	}
 	_, part := sn.model()
-	sym, ok := symbolAt(part, sn.pos.source(p.Position))
+	sym, ok := symbolAt(part, sn.pos.source(at))
+	return sn, part, sym, ok
+}
+
+func (s *server) definition(_ *glsp.Context, p *protocol.DefinitionParams) (any, error) {
+	sn, _, sym, ok := s.symbolFor(p.TextDocument.URI, p.Position)
 	if !ok {
 		return nil, nil
 	}
@@ -199,12 +206,7 @@ func (s *server) definition(_ *glsp.Context, p *protocol.DefinitionParams) (any,
 }
 
 func (s *server) references(_ *glsp.Context, p *protocol.ReferenceParams) ([]protocol.Location, error) {
-	sn := s.current(p.TextDocument.URI)
-	if sn == nil {
-		return nil, nil
-	}
-	_, part := sn.model()
-	sym, ok := symbolAt(part, sn.pos.source(p.Position))
+	sn, part, sym, ok := s.symbolFor(p.TextDocument.URI, p.Position)
 	if !ok {
 		return nil, nil
 	}
