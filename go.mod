@@ -8,7 +8,9 @@ require (
 	github.com/fatih/color v1.19.0
 	github.com/rogpeppe/go-internal v1.16.0
 	github.com/santhosh-tekuri/jsonschema/v6 v6.0.3
+	github.com/sourcegraph/jsonrpc2 v0.2.0
 	github.com/spf13/cobra v1.10.2
+	github.com/tliron/glsp v0.2.2
 	gonum.org/v1/gonum v0.17.0
 )
 
