@@ -154,8 +154,13 @@ type Relation struct {
 // 40 from it", "coaxial with A", "at 30° to A", "25 from C".
 func (r Relation) Text() string {
 	dist := ""
-	if r.HasDistance && r.Distance != 0 {
+	switch {
+	case r.HasDistance && r.Distance != 0:
 		dist = ", " + number(r.Distance) + " from it"
+	case r.HasDistance && r.Orientation == "parallel":
+		// A plane through an axis (a keyway's mid-plane through a bore's
+		// axis): parallel at 0 is neither coaxial nor coplanar.
+		dist = " and through it"
 	}
 	switch r.Orientation {
 	case "coaxial":
@@ -201,6 +206,11 @@ type Reference struct {
 	Elements   []Element
 	// Relations is how the simulator stands to each earlier one.
 	Relations []Relation
+	// Together is, for a common datum, how its features stand to one
+	// another where they all agree: "coaxial", "coplanar" (ASME Y14.5-2018,
+	// common datum features; ISO 5459:2011, common datums; from memory);
+	// "" otherwise.
+	Together string
 	// Constrains is the number of degrees of freedom the reference newly
 	// removes (the kinematic engine's count, as in `datumlint dof`).
 	Constrains int
@@ -399,6 +409,9 @@ func (res *Result) reference(r *model.DatumRef, higher []*model.DatumRef) Refere
 		out.Elements = append(out.Elements, e)
 	}
 	here := placeOf(r)
+	if len(r.Datums) > 1 {
+		out.Together = together(res.part, r)
+	}
 	for _, h := range higher {
 		out.Relations = append(out.Relations, relate(res.part, strings.Join(h.Letters, "-"), placeOf(h), here))
 	}
@@ -469,10 +482,32 @@ type place struct {
 }
 
 func placeOf(r *model.DatumRef) place {
-	if len(r.Datums) == 0 || r.Datums[0] == nil || !r.Datums[0].Target.Resolved() {
+	if len(r.Datums) == 0 {
 		return place{}
 	}
-	t := &r.Datums[0].Target
+	return placeOfDatum(r.Datums[0])
+}
+
+// together says how the features of a common datum stand to its first:
+// "coaxial" or "coplanar" where every one is, "" otherwise.
+func together(part *model.Part, r *model.DatumRef) string {
+	first := placeOfDatum(r.Datums[0])
+	word := ""
+	for _, d := range r.Datums[1:] {
+		rel := relate(part, "", first, placeOfDatum(d))
+		if rel.Orientation != "coaxial" && rel.Orientation != "coplanar" || word != "" && rel.Orientation != word {
+			return ""
+		}
+		word = rel.Orientation
+	}
+	return word
+}
+
+func placeOfDatum(d *model.Datum) place {
+	if d == nil || !d.Target.Resolved() {
+		return place{}
+	}
+	t := &d.Target
 	f := t.Feature
 	pts := t.Points()
 	p := place{dir: f.Dir.Unit(), many: len(pts) != 1}
@@ -598,15 +633,18 @@ func number(x float64) string { return fmt.Sprint(round(x)) }
 // Describe says what the simulator of a reference is, for a reader: "an
 // expanding pin that grows until it touches the hole all round".
 func (r Reference) Describe() string {
-	var parts []string
-	for _, e := range r.Elements {
-		parts = append(parts, e.describe(r.Boundary))
+	if len(r.Elements) == 1 {
+		return r.Elements[0].describe(r.Boundary)
 	}
-	s := strings.Join(parts, "; with ")
-	if len(r.Elements) > 1 {
-		s = "one simulator for the common datum " + r.Name + ": " + s
+	parts := make([]string, len(r.Elements))
+	for i, e := range r.Elements {
+		parts[i] = fmt.Sprintf("for %s on %s, %s", e.Letter, e.Feature, e.describe(r.Boundary))
 	}
-	return s
+	held := "at their basic places to one another"
+	if r.Together != "" {
+		held = r.Together
+	}
+	return fmt.Sprintf("one simulator for the common datum %s, its parts held %s: %s", r.Name, held, strings.Join(parts, "; "))
 }
 
 func (e Element) describe(b material.Condition) string {

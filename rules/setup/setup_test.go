@@ -324,7 +324,7 @@ frame rotor: total-runout 0.05 datums A-B
 	if r.Name != "A-B" || r.Shape != Cylinder || len(r.Elements) != 2 || r.Constrains != 4 || r.Contact.Points != 6 {
 		t.Errorf("A-B: %s, %d elements, removes %d, %d points", r.Name, len(r.Elements), r.Constrains, r.Contact.Points)
 	}
-	if !strings.Contains(r.Contact.Text, "over the 2 features") || !strings.Contains(r.Describe(), "common datum A-B") {
+	if !strings.Contains(r.Contact.Text, "over the 2 features") || !strings.Contains(r.Describe(), "common datum A-B, its parts held coaxial: for A on j1, a closing collet") {
 		t.Errorf("A-B: %q; %q", r.Contact.Text, r.Describe())
 	}
 }
