@@ -109,6 +109,9 @@ func (e *PathError) Error() string { return fmt.Sprintf("%s: %v", e.Path, e.Err)
 // File is what a run read and found in one file.
 type File struct {
 	Path string
+	// Root is the path on the command line the file was found under: the
+	// folder that was walked, or the file itself where it was named.
+	Root string
 	// Source is the file as read: kept where it has findings, or with
 	// Options.KeepParts; nil otherwise, and where the file was not read.
 	Source *source.File
@@ -153,17 +156,31 @@ func (r *Result) File(path string) *File {
 // walked for the extensions a reader knows, in sorted order. Missing or unreadable paths,
 // permission errors and symbolic link loops become PathErrors.
 func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError) {
-	var files []string
+	found, errs := collect(paths, exclude)
+	files := make([]string, len(found))
+	for i, f := range found {
+		files[i] = f.path
+	}
+	return files, errs
+}
+
+// collected is a file to check and the path on the command line it was
+// found under.
+type collected struct{ path, root string }
+
+func collect(paths []string, exclude func(string) bool) ([]collected, []*PathError) {
+	var files []collected
 	var errs []*PathError
 	seen := map[string]bool{}
+	var root string
 	add := func(p string) {
 		// x.callouts and ./x.callouts are one file, checked once.
 		if c := filepath.Clean(p); !seen[c] {
 			seen[c] = true
-			files = append(files, p)
+			files = append(files, collected{p, root})
 		}
 	}
-	for _, root := range paths {
+	for _, root = range paths {
 		info, err := os.Stat(root)
 		if err != nil {
 			errs = append(errs, &PathError{root, friendlyErr(err)})
@@ -244,7 +261,11 @@ func friendlyErr(err error) error {
 
 // Run checks every file under paths.
 func Run(paths []string, opt Options) Result {
-	files, errs := Collect(paths, opt.Exclude)
+	found, errs := collect(paths, opt.Exclude)
+	files := make([]string, len(found))
+	for i, f := range found {
+		files[i] = f.path
+	}
 	res := Result{Files: make([]*File, len(files)), Errors: errs}
 	workers := opt.Workers
 	if workers <= 0 {
@@ -271,6 +292,9 @@ func Run(paths []string, opt Options) Result {
 	}
 	close(next)
 	wg.Wait()
+	for i, f := range res.Files {
+		f.Root = found[i].root
+	}
 	for _, e := range pathErrs {
 		if e != nil {
 			res.Errors = append(res.Errors, e)
