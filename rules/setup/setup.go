@@ -129,6 +129,10 @@ type Element struct {
 	// Ambiguous is set where several tolerances give different boundaries:
 	// the drawing should state the boundary's value (rules/material).
 	Ambiguous bool
+	// Limits are the feature's limits of size, where it is a feature of
+	// size with a readable size (HasLimits).
+	Limits    material.Size
+	HasLimits bool
 }
 
 // Relation is how a simulator stands to one of higher precedence, from the
@@ -390,13 +394,14 @@ func (res *Result) reference(r *model.DatumRef, higher []*model.DatumRef) Refere
 		f := d.Target.Feature
 		e := Element{Letter: r.Letters[i], Feature: d.Target.Name, Kind: f.Kind, Shape: ShapeOf(f.Kind),
 			Members: len(d.Target.Points()), Internal: f.Kind.Internal()}
+		e.Limits, e.HasLimits = material.SizeOf(f)
 		switch {
 		case out.Boundary == material.RFS:
 			e.Adjustable = e.Shape.sized()
 		default:
 			e.Fixed = true
-			if s, ok := material.SizeOf(f); ok {
-				if b, err := material.BoundaryOf(s, out.Boundary, material.Relations(res.part, f, letters)); err == nil {
+			if e.HasLimits {
+				if b, err := material.BoundaryOf(e.Limits, out.Boundary, material.Relations(res.part, f, letters)); err == nil {
 					e.Size, e.SizeKnown, e.From, e.Ambiguous = round(b.Size), true, b.From, b.Ambiguous
 				}
 			}
@@ -547,7 +552,9 @@ func relate(part *model.Part, to string, a, b place) Relation {
 		if x < tol {
 			x = 0
 		}
-		r.Distance, r.HasDistance = round(x), true
+		// Six decimals: finer than any drawing's, and a distance worked
+		// out through a square root does not print sixteen digits.
+		r.Distance, r.HasDistance = math.Round(x*1e6)/1e6, true
 	}
 	// cos is |cos| of the angle between the two directions.
 	cos := math.Min(1, math.Abs(a.dir.Dot(b.dir)))
