@@ -39,7 +39,7 @@ notes, local codes and qualified engineering judgement decide.`,
 	}
 	root.SetOut(stdout)
 	root.SetErr(stderr)
-	root.AddCommand(newCheckCmd(), newDofCmd(), newFmtCmd(), newRulesCmd(), newExplainCmd())
+	root.AddCommand(newCheckCmd(), newReportCmd(), newDofCmd(), newFmtCmd(), newRulesCmd(), newExplainCmd())
 	return root
 }
 
