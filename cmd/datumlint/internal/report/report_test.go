@@ -2,7 +2,6 @@ package report
 
 import (
 	"bytes"
-	"flag"
 	"math"
 	"os"
 	"path/filepath"
@@ -17,8 +16,6 @@ import (
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/dof"
 )
-
-var updateScreenshot = flag.Bool("update-screenshot", false, "write docs/report-example.png from the gearbox cover's page")
 
 const examples = "../../../../testdata/examples"
 
