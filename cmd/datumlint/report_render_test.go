@@ -26,7 +26,10 @@ var updateScreenshot = flag.Bool("update-screenshot", false, "write docs/report-
 // every page.
 func TestReportRendersInChromium(t *testing.T) {
 	chromium.Find(t)
-	examples := filepath.Join("..", "..", "testdata", "examples")
+	// From the repository's top, so that the pages name the files as the
+	// README's command does.
+	t.Chdir(filepath.Join("..", ".."))
+	examples := filepath.Join("testdata", "examples")
 	dir := t.TempDir()
 	var stdout, stderr bytes.Buffer
 	if code := run([]string{"report", examples, "-o", dir}, &stdout, &stderr); code != 1 || stderr.Len() > 0 {
@@ -90,7 +93,7 @@ func TestReportRendersInChromium(t *testing.T) {
 				if err != nil {
 					t.Fatal(err)
 				}
-				if err := os.WriteFile(filepath.Join("..", "..", "docs", "report-example.png"), data, 0o644); err != nil {
+				if err := os.WriteFile(filepath.Join("docs", "report-example.png"), data, 0o644); err != nil {
 					t.Fatal(err)
 				}
 			}

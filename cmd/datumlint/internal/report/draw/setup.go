@@ -81,9 +81,8 @@ func SetupSVG(s Setup) string {
 			text[0] += " " + sim.Size
 		}
 		switch {
-		case sim.Constrains == 0:
-			text = append(text, "removes nothing")
 		case sim.Points == 0:
+			// A fixed-size simulator, or one that removes nothing.
 			text = append(text, "no contact needed")
 		default:
 			text = append(text, plural(sim.Points, "point")+" of contact")
