@@ -213,13 +213,21 @@ type DimStmt struct {
 type BadStmt struct {
 	node
 	Word string // the leading word, if any
-	Name string // the declared name or letter, if it could be read
-	Text string
-	Err  *SyntaxError
+	// Meant is the keyword a misspelt leading word stands for ("featur"
+	// for "feature"), where one is near; "" otherwise.
+	Meant string
+	Name  string // the declared name or letter, if it could be read
+	Text  string
+	Err   *SyntaxError
 	// Words are the names written in the statement, so that a datum letter
 	// named only in a broken frame does not also read as unused.
 	Words []string
 }
+
+// Declares reports whether the statement was meant as one of the keyword
+// kw (written so, or misspelt), so that the name it declares still counts
+// as declared.
+func (b *BadStmt) Declares(kw string) bool { return b.Name != "" && (b.Word == kw || b.Meant == kw) }
 
 func (*PartStmt) Keyword() string     { return "part" }
 func (*UnitsStmt) Keyword() string    { return "units" }
@@ -256,6 +264,9 @@ type File struct {
 	Stmts    []Stmt
 	Comments []*Comment
 	Errors   []*SyntaxError
+	// Binary is true for a file that holds binary data (a NUL byte near
+	// its start); it has one error and no statements.
+	Binary bool
 	// Lines maps each statement to the physical lines it spans.
 	Extents []Extent
 }

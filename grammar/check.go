@@ -30,8 +30,12 @@ func checkStmt(st Stmt) []*SyntaxError {
 			checkTolerance(c.Tolerance, add)
 		}
 	case *DimStmt:
-		if s.Size.Envelope != nil {
-			add(s.Size.Envelope.Span(), "(E) belongs to a feature's size, not to a location dimension")
+		if m := s.Size.Envelope; m != nil {
+			if l := ModifierLetter(m.Symbol); l == "E" {
+				add(m.Span(), "(E) belongs to a feature's size, not to a location dimension: remove it here (write it after the size on the feature's line)")
+			} else {
+				add(m.Span(), "(%s) does not belong to a dimension: remove it here; a dim is a value and its tolerance between two features, and modifiers go in a frame (after its tolerance, or on a datum reference)", l)
+			}
 		}
 	}
 	return errs

@@ -3,12 +3,14 @@ package grammar
 import (
 	"errors"
 	"fmt"
+	"regexp"
 	"strings"
 
 	"github.com/alecthomas/participle/v2"
 	"github.com/alecthomas/participle/v2/lexer"
 
 	"github.com/datumlint/datumlint/grammar/source"
+	"github.com/datumlint/datumlint/grammar/spell"
 )
 
 // friendly turns a parser error into a message a drafter understands: what
@@ -34,6 +36,9 @@ func friendly(err error, sig []token, eof lexer.Token) *SyntaxError {
 		last := sig[len(sig)-1].span.End
 		span, got = source.Span{Start: last, End: source.Pos{Line: last.Line, Col: last.Col + 1}}, "the end of the line"
 	}
+	if sp, msg := slip(sig, i); msg != "" {
+		return &SyntaxError{Span: sp, Msg: msg}
+	}
 	want := expectation(sig, i)
 	if want == "" {
 		want = strings.TrimSpace(cleanExpect(pe.Message()))
@@ -53,6 +58,136 @@ func cleanExpect(msg string) string {
 	return ""
 }
 
+// slip recognises the commonest slips at sig[i], where the parser stopped,
+// and says what to write instead, with the drafter's own values; "" when
+// the statement holds none of them. Each message is a promise: writing
+// what it says parses (grammar tests hold every one to it).
+func slip(sig []token, i int) (source.Span, string) {
+	if i == 0 || i > len(sig) {
+		return source.Span{}, ""
+	}
+	kw := sig[0].Value
+	at := func(k int) string {
+		if k >= 0 && k < len(sig) {
+			return sig[k].Value
+		}
+		return ""
+	}
+	isNum := func(k int) bool { return k >= 0 && k < len(sig) && sig[k].Type == tokNumber }
+	join := func(a, b int) source.Span { return source.Span{Start: sig[a].span.Start, End: sig[b].span.End} }
+	depth := parenDepth(sig[:i])
+
+	// A decimal comma, 0,1: written as one number, outside a point.
+	if at(i) == "," && depth == 0 && isNum(i-1) && isNum(i+1) && isDigits(at(i+1)) &&
+		sig[i-1].span.End == sig[i].span.Start && sig[i].span.End == sig[i+1].span.Start {
+		n := at(i-1) + "." + at(i+1)
+		return join(i-1, i+1), fmt.Sprintf("write decimals with a point: %s, not %s,%s (a comma separates coordinates and datum references)", n, at(i-1), at(i+1))
+	}
+
+	// One deviation where a size takes two: size 6 +0.012, dim 5 +0.1.
+	// The parser stops at the upper deviation or just after it (after a
+	// '/' too), depending on what follows.
+	for _, up := range []int{i, i - 1, i - 2} {
+		after := up + 1
+		if at(after) == "/" {
+			after++
+		}
+		if kw != "feature" && kw != "dim" || after < i || !isNum(up) || !isNum(up-1) || isNum(after) ||
+			!strings.ContainsAny(at(up)[:1], "+-") || !(kw == "dim" && up-1 == 1 || kw == "feature" && at(up-2) == "size") {
+			continue
+		}
+		nominal, dev := at(up-1), at(up)
+		both := nominal + " " + dev + " -0"
+		if dev[0] == '-' {
+			both = nominal + " +0 " + dev
+		}
+		return join(up-1, up), fmt.Sprintf("the lower deviation is missing: a size with deviations takes both, upper then lower, e.g. %s (or %s +-%s for equal ones)", both, nominal, strings.TrimLeft(dev, "+-"))
+	}
+
+	if kw != "frame" || i == len(sig) {
+		return source.Span{}, ""
+	}
+	// (P15) or (P 15): the projected height (or the unequal profile's
+	// offset) is written after the parenthesis.
+	if at(i) == "(" && i+2 < len(sig) {
+		if m := glued.FindStringSubmatch(at(i + 1)); m != nil && at(i+2) == ")" {
+			return join(i, i+2), fmt.Sprintf("write the modifier and its value apart: (%s) %s", strings.ToUpper(m[1]), m[2])
+		}
+		if l := strings.ToUpper(at(i + 1)); (l == "P" || l == "U") && isNum(i+2) && at(i+3) == ")" {
+			return join(i, i+3), fmt.Sprintf("write the modifier and its value apart: (%s) %s", l, at(i+2))
+		}
+	}
+	// The word before the references: datum A, B for datums A, B.
+	if sig[i].Type == tokIdent {
+		if w := at(i); w != "datums" && spell.Nearest(w, []string{"datums"}) != "" {
+			refs := refList(sig, i+1)
+			return sig[i].span, fmt.Sprintf("did you mean 'datums'? a frame's references follow 'datums', even a single one: datums %s", refs)
+		}
+	}
+	// References without commas: datums A B C.
+	if sig[i].Type == tokIdent && at(i) != "composite" {
+		k := i - 1
+		for k > 0 && (sig[k].Type == tokIdent || sig[k].Value == "," || isRefModifier(sig[k])) && at(k) != "datums" {
+			k--
+		}
+		if at(k) == "datums" && k < i-1 {
+			return sig[i].span, fmt.Sprintf("separate the datum references with commas: datums %s", refList(sig, k+1))
+		}
+	}
+	return source.Span{}, ""
+}
+
+// glued is a value-taking modifier written with its value inside the
+// parentheses: (P15), (U0.2), (p 15) lexes apart.
+var glued = regexp.MustCompile(`^([PpUu])(\d+(?:\.\d+)?)$`)
+
+// parenDepth is how many parentheses the tokens leave open.
+func parenDepth(toks []token) int {
+	depth := 0
+	for _, t := range toks {
+		switch t.Value {
+		case "(":
+			depth++
+		case ")":
+			depth--
+		}
+	}
+	return depth
+}
+
+func isDigits(s string) bool {
+	if s == "" {
+		return false
+	}
+	for _, r := range s {
+		if r < '0' || r > '9' {
+			return false
+		}
+	}
+	return true
+}
+
+func isRefModifier(t token) bool { return t.Type == tokModifier }
+
+// refList writes the datum references from sig[k] on as the notation
+// wants them, "A, B(M), C": names with their modifiers, commas between,
+// up to a composite line or the end.
+func refList(sig []token, k int) string {
+	var refs []string
+	for ; k < len(sig) && sig[k].Value != "composite"; k++ {
+		switch {
+		case sig[k].Type == tokIdent:
+			refs = append(refs, sig[k].Value)
+		case isRefModifier(sig[k]) && len(refs) > 0:
+			refs[len(refs)-1] += "(" + ModifierLetter(sig[k].Value) + ")"
+		case sig[k].Value == ",":
+		default:
+			return strings.Join(refs, ", ")
+		}
+	}
+	return strings.Join(refs, ", ")
+}
+
 const (
 	wantDirection = "expected a direction such as +z or (0, 0, 1) after '%s'"
 	wantPoint     = "expected a point such as (0, 0, 0) after 'at'"
@@ -69,15 +204,7 @@ func expectation(sig []token, i int) string {
 	}
 	kw := sig[0].Value
 	prev := sig[i-1].Value
-	depth := 0
-	for _, t := range sig[:i] {
-		switch t.Value {
-		case "(":
-			depth++
-		case ")":
-			depth--
-		}
-	}
+	depth := parenDepth(sig[:i])
 	if depth > 0 && kw != "frame" {
 		if i < len(sig) && sig[i].Value == ")" {
 			return "a point or vector has three coordinates, (x, y, z)"

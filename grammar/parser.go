@@ -56,6 +56,7 @@ func Parse(name string, src []byte) *File {
 	f := &File{Name: name, Src: src}
 	body := bytes.TrimPrefix(src, []byte("\xef\xbb\xbf")) // a byte-order mark is not content
 	if looksBinary(body) {
+		f.Binary = true
 		f.Errors = append(f.Errors, &SyntaxError{
 			Span: source.Span{Start: source.Pos{Line: 1, Col: 1}, End: source.Pos{Line: 1, Col: 2}},
 			Msg:  "this file holds binary data (a NUL byte), not callout text; check that the right file was named",
@@ -214,10 +215,13 @@ func parseStmt(name string, rs rawStmt) Stmt {
 			Msg: "a 'composite' line is the lower segment of a frame: put it directly under the 'frame' line it belongs to"})
 	default:
 		msg := fmt.Sprintf("unknown statement %s: a statement starts with %s", describe(first.Token), strings.Join(Keywords, ", "))
-		if s := spell.Nearest(first.Value, Keywords); s != "" {
-			msg = fmt.Sprintf("unknown statement %s; did you mean '%s'?", describe(first.Token), s)
+		meant := spell.Nearest(first.Value, Keywords)
+		if meant != "" {
+			msg = fmt.Sprintf("unknown statement %s; did you mean '%s'?", describe(first.Token), meant)
 		}
-		return bad(rs, sig, &SyntaxError{Span: first.span, Msg: msg})
+		b := bad(rs, sig, &SyntaxError{Span: first.span, Msg: msg})
+		b.Meant = meant
+		return b
 	}
 	if err != nil {
 		return bad(rs, sig, friendly(err, sig, eof))

@@ -22,13 +22,22 @@ import (
 // comment applies to the statement whose lines it is on, an own-line one to
 // the statement directly below it with only comment lines between).
 //
-// A block is a run of statements of the same kind with no blank line
-// between them (own-line comments do not end a block). Aligned columns:
-// the name of a feature, the letter of a datum (and its target when a
-// placement follows), the value of a basic dimension and of a dim. Frame
-// targets are not padded, so that the contract's example is its own
-// canonical form. A trailing comment follows its code after one space: no
-// column alignment, so that editing one line never rewrites its neighbours.
+// A block is a run of statements of the same form with no blank line
+// between them (own-line comments do not end a block). The form is the
+// keyword, and for basic dimensions also which of the two written forms
+// it is: a bolt circle (basic dia 80 through ... about ...) is not aligned
+// with the lengths and angles around it, whose values are shorter, so one
+// odd line does not pad all the others, and a bolt-circle line between two
+// runs of lengths ends the first. Aligned columns: the name of a feature,
+// the letter of a datum (and its target when a placement follows), the
+// value of a basic dimension and of a dim. Frame targets are not padded,
+// so that the contract's example is its own canonical form. A trailing
+// comment follows its code after one space: no column alignment, so that
+// editing one line never rewrites its neighbours.
+//
+// Line ends are the file's: a file whose first line ends in CR LF is
+// printed with CR LF throughout, any other with LF; a byte-order mark is
+// kept. Formatting does not change how a file is saved, only its layout.
 
 // indent is the indentation of a composite lower segment.
 const indent = "    "
@@ -52,7 +61,22 @@ func Format(f *File) ([]byte, error) {
 		}
 	}
 	p := newPrinter(f)
-	return p.print(), nil
+	out := p.print()
+	if bytes.HasPrefix(f.Src, bom) {
+		out = append(append([]byte{}, bom...), out...)
+	}
+	if firstLineCRLF(f.Src) {
+		out = bytes.ReplaceAll(out, []byte("\n"), []byte("\r\n"))
+	}
+	return out, nil
+}
+
+var bom = []byte("\xef\xbb\xbf")
+
+// firstLineCRLF reports whether the first line of src ends in CR LF.
+func firstLineCRLF(src []byte) bool {
+	i := bytes.IndexByte(src, '\n')
+	return i > 0 && src[i-1] == '\r'
 }
 
 // outLine is one line of output.
@@ -80,7 +104,7 @@ type printer struct {
 
 func newPrinter(f *File) *printer {
 	p := &printer{f: f, own: map[int]string{}, trailing: map[int][]string{}}
-	p.lines = splitLines(bytes.TrimPrefix(f.Src, []byte("\xef\xbb\xbf")))
+	p.lines = splitLines(bytes.TrimPrefix(f.Src, bom))
 	for _, c := range f.Comments {
 		text := strings.TrimRight(c.Text, " \t\r\f\v")
 		if c.Trailing {
@@ -208,13 +232,13 @@ func (p *printer) statement(i int, st Stmt, e Extent) {
 
 // align pads the aligned columns of each block and renders the first lines.
 func (p *printer) align() {
-	kind := func(i int) string { return p.f.Stmts[i].Keyword() }
+	kind := func(i int) string { return form(p.f.Stmts[i]) }
 	for a := 0; a < len(p.out); {
 		if p.out[a].stmt < 0 {
 			a++
 			continue
 		}
-		// the block: statements of a's kind until a blank line or another kind
+		// the block: statements of a's form until a blank line or another form
 		block := []int{a}
 		b := a + 1
 		for ; b < len(p.out); b++ {
@@ -252,6 +276,15 @@ func (p *printer) align() {
 		}
 		a = b
 	}
+}
+
+// form is what makes statements alike for alignment: the keyword, and
+// for a basic dimension whether it is a bolt circle.
+func form(st Stmt) string {
+	if b, ok := st.(*BasicStmt); ok && b.Circle != nil {
+		return "basic circle"
+	}
+	return st.Keyword()
 }
 
 // --- statements -------------------------------------------------------------

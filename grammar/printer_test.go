@@ -61,8 +61,8 @@ frame slot: position 0.2 (M) datums A, AB(L) # trailing
 frame skin: surface-profile 0.4 (U) 0.1 datums A-AB, C(M)
 frame balls.1: position sdia 0.3 (P) 12 datums A
 
-basic 30deg  from floor to ramp
-basic 1.5    from floor to balls.1 along (1, 0, 0)
+basic 30deg from floor to ramp
+basic 1.5   from floor to balls.1 along (1, 0, 0)
 basic dia 80 through balls about AB
 dim 40 +-0.1     from floor to slot along +x
 dim 12.5 +0.1 -0 from floor to web
@@ -71,6 +71,15 @@ dim 12.5 +0.1 -0 from floor to web
 	for i, src := range canonical {
 		if got := format(t, src); got != src {
 			t.Errorf("case %d: canonical input changed:\n%s", i, lineDiff(src, got))
+		}
+		// Saved with CR LF line ends, and with a byte-order mark, it is
+		// canonical too: formatting keeps how the file is saved.
+		crlf := strings.ReplaceAll(src, "\n", "\r\n")
+		if got := format(t, crlf); got != crlf {
+			t.Errorf("case %d with CR LF: canonical input changed:\n%q", i, got)
+		}
+		if got := format(t, "\ufeff"+crlf); src != "" && got != "\ufeff"+crlf {
+			t.Errorf("case %d with a byte-order mark and CR LF: canonical input changed:\n%q", i, got)
 		}
 	}
 }
@@ -120,9 +129,21 @@ func TestFormatRewrites(t *testing.T) {
 			"basic 1 from a to b\n# closes\nbasic 2 from a to b\n"},
 		{"bolt circle and along",
 			"basic ⌀ 80 through bolts about A\nbasic 90 from bolts.1 to bolts.4 along (1,0,0)\n",
-			"basic dia 80 through bolts about A\nbasic 90     from bolts.1 to bolts.4 along (1, 0, 0)\n"},
-		{"CRLF and a byte-order mark",
-			"\ufeffunits mm\r\nstandard iso\r\n",
+			"basic dia 80 through bolts about A\nbasic 90 from bolts.1 to bolts.4 along (1, 0, 0)\n"},
+		{"a bolt circle does not pad the lengths around it, and ends their run",
+			"basic 60 from left to bore\nbasic 5 from rear to bore\nbasic dia 110 through bolts about bore\nbasic 7.5 from left to bolts.1\nbasic 15 from rear to bolts.1\nbasic 90deg from bolts.1 to bolts.2 about bore\n",
+			"basic 60 from left to bore\nbasic 5  from rear to bore\nbasic dia 110 through bolts about bore\nbasic 7.5   from left to bolts.1\nbasic 15    from rear to bolts.1\nbasic 90deg from bolts.1 to bolts.2 about bore\n"},
+		{"bolt circles align among themselves",
+			"basic dia 80 through inner about A\nbasic dia 110.5 through outer about A\n",
+			"basic dia 80    through inner about A\nbasic dia 110.5 through outer about A\n"},
+		{"CRLF and a byte-order mark are kept",
+			"\ufeffunits  mm\r\nstandard iso\r\n",
+			"\ufeffunits mm\r\nstandard iso\r\n"},
+		{"CRLF throughout when the first line ends so",
+			"units mm\r\nstandard iso\n\n\n# c\r\nbasic 1 from a to b \\\r\n  along +x\r\n",
+			"units mm\r\nstandard iso\r\n\r\n# c\r\nbasic 1 from a to b along +x\r\n"},
+		{"LF when the first line ends so",
+			"units mm\nstandard iso\r\n",
 			"units mm\nstandard iso\n"},
 		{"no final newline",
 			"units mm",

@@ -107,18 +107,19 @@ func (r *resolver) dir(d *Direction) (model.Vec, bool) {
 func Resolve(f *File) *model.Part {
 	p := model.NewPart(source.NewFile(f.Name, f.Src))
 	r := &resolver{p: p}
+	p.NotText = f.Binary
 	for _, e := range f.Errors {
 		p.Problemf(model.Syntax, e.Span, "%s", e.Msg)
 	}
 	p.Statements = make([]model.Statement, len(f.Stmts))
-	texts := statementTexts(f, p.Source)
 	for i, st := range f.Stmts {
-		ms := model.Statement{Keyword: st.Keyword(), Span: st.Span(), First: f.Extents[i].First, Last: f.Extents[i].Last, Parsed: true, Text: texts[i]}
+		ms := model.Statement{Keyword: st.Keyword(), Span: st.Span(), First: f.Extents[i].First, Last: f.Extents[i].Last, Parsed: true}
 		if bs, ok := st.(*BadStmt); ok {
 			ms.Parsed, ms.Name, ms.Words = false, bs.Name, bs.Words
 		}
 		p.Statements[i] = ms
 	}
+	trailingComments(f, p.Statements)
 	p.Suppressions = directives(f)
 	// Pass 1: headers and feature declarations, so that references may
 	// come before declarations.
@@ -162,7 +163,7 @@ func Resolve(f *File) *model.Part {
 		case *FeatureStmt:
 			p.Declare(r.feature(s))
 		case *BadStmt:
-			if s.Word == "feature" && s.Name != "" {
+			if s.Declares("feature") {
 				p.Declare(&model.Feature{Name: s.Name, Span: s.Span(), NameSpan: s.Span(), Broken: true})
 			}
 		}
@@ -180,7 +181,7 @@ func Resolve(f *File) *model.Part {
 		case *DatumStmt:
 			r.datum(s)
 		case *BadStmt:
-			if s.Word == "datum" && s.Name != "" {
+			if s.Declares("datum") {
 				p.AddDatum(&model.Datum{Letter: s.Name, Span: s.Span(), LetterSpan: s.Span(), Broken: true})
 			}
 		}
@@ -314,33 +315,22 @@ func (r *resolver) feature(s *FeatureStmt) *model.Feature {
 	return ft
 }
 
-// statementTexts returns each statement's text as written, its physical
-// lines with trailing comments cut and runs of white space made one space.
-func statementTexts(f *File, src *source.File) []string {
-	cut := map[int]int{} // line -> column where its trailing comment starts
+// trailingComments gives each statement the trailing comments on its
+// lines (comments and statements are both in file order).
+func trailingComments(f *File, sts []model.Statement) {
+	k := 0
 	for _, c := range f.Comments {
-		if c.Trailing {
-			cut[c.Span.Start.Line] = c.Span.Start.Col
+		if !c.Trailing {
+			continue
+		}
+		l := c.Span.Start.Line
+		for k < len(sts) && sts[k].Last < l {
+			k++
+		}
+		if k < len(sts) && sts[k].First <= l {
+			sts[k].Comments = append(sts[k].Comments, c.Span)
 		}
 	}
-	out := make([]string, len(f.Extents))
-	var b strings.Builder
-	for i, e := range f.Extents {
-		b.Reset()
-		for l := e.First; l <= e.Last; l++ {
-			line := src.LineBytes(l)
-			if col, ok := cut[l]; ok {
-				line = line[:src.Offset(source.Pos{Line: l, Col: col})-src.Offset(source.Pos{Line: l, Col: 1})]
-			}
-			if l == 1 {
-				line = bytes.TrimPrefix(line, []byte("\ufeff"))
-			}
-			b.Write(line)
-			b.WriteByte(' ')
-		}
-		out[i] = strings.Join(strings.Fields(b.String()), " ")
-	}
-	return out
 }
 
 // datumsSpan covers a tolerance's datum references and the word 'datums'
@@ -371,6 +361,9 @@ func (r *resolver) text(sp source.Span) string {
 
 func (r *resolver) size(s *Size) *model.Size {
 	out := &model.Size{Nominal: r.num(s.Nominal), Span: s.Span(), Envelope: s.Envelope != nil, Text: r.text(s.Span())}
+	if s.Envelope != nil {
+		out.EnvelopeSpan = s.Envelope.Span()
+	}
 	switch {
 	case s.PlusMinus != nil:
 		t := math.Abs(r.num(s.PlusMinus))
@@ -460,6 +453,8 @@ func (r *resolver) frame(s *FrameStmt) {
 		msg := fmt.Sprintf("unknown characteristic '%s': use one of %s", c, strings.Join(CharacteristicWords, ", "))
 		if sg := spell.Nearest(c, CharacteristicWords); sg != "" {
 			msg = fmt.Sprintf("unknown characteristic '%s'; did you mean '%s'?", c, sg)
+		} else if strings.EqualFold(c, "profile") {
+			msg = "'profile' alone names no characteristic: write surface-profile (profile of a surface) or line-profile (profile of a line)"
 		}
 		r.errorf(s.Characteristic.Span(), "%s", msg)
 	}

@@ -140,7 +140,10 @@ var ZoneShape = Register(&Rule{
 a width's mid-plane or a form tolerance of a surface has a zone between two parallel planes
 or surfaces, and a sphere's centre a spherical zone (sdia). Conversely, the position of a
 hole or pin is nearly always meant as a cylindrical zone; without dia it is a zone between
-two parallel planes, in one direction only.`,
+two parallel planes, in one direction only. Two cases are characteristic-mismatch's finding
+instead, so that one mistake gives one finding: dia on the orientation of a feature without
+an axis, and any zone of a form characteristic on a kind it does not apply to (flatness dia
+on a pin).`,
 	Source:  "ASME Y14.5-2018, tolerance zones (diameter symbol, spherical diameter); ISO 1101:2017, tolerance zone shapes",
 	Bad:     "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position 0.1 datums A, B, C",
 	Good:    "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)\nframe bore: position dia 0.1 datums A, B, C",
@@ -152,6 +155,9 @@ two parallel planes, in one direction only.`,
 				continue
 			}
 			k := fr.Target.Feature.Kind
+			if formMismatch(fr.Characteristic, k) != "" {
+				continue // the characteristic itself is wrong: characteristic-mismatch
+			}
 			for _, seg := range fr.Segments {
 				if seg.ZoneText != "" && seg.Zone == "" {
 					continue // the word in the zone's place is reported already
@@ -194,7 +200,8 @@ func zoneProblem(c model.Characteristic, k model.Kind, zone string) (msg, to str
 			return fmt.Sprintf("%s has a zone between two surfaces, not a cylinder: remove dia", c), ""
 		case c == model.Straightness && !axial:
 			return fmt.Sprintf("straightness of a %s's surface lines has a zone between two lines: remove dia (dia applies to the axis of a hole or pin)", k), ""
-		case !axial && k != model.KindUnknown && (cat == model.Location || cat == model.Orientation):
+		case !axial && k != model.KindUnknown && cat == model.Location:
+			// (On orientation it is characteristic-mismatch's finding.)
 			return fmt.Sprintf("a %s has no axis, so its %s zone cannot be a cylinder: remove dia (the zone is two parallel planes)", k, c), ""
 		}
 	case "sdia":
@@ -221,11 +228,23 @@ reference at MMB or LMB needs a datum feature with a material boundary: a featur
 or (ASME Y14.5-2009 and later) a surface located by basic dimensions and a position or
 profile tolerance to datums of higher precedence. Circularity and cylindricity cannot take a
 material condition; (U) belongs to profile, and a projected zone (P) to the orientation or
-location of a feature of size.`,
-	Source: "ASME Y14.5-2018, material condition modifiers, runout (RFS only), datum features at MMB/LMB; ISO 2692:2014; ISO 1101:2017",
-	Bad:    "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02 (M)",
-	Good:   "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02",
-	Run:    runModifierIllegal,
+location of a feature of size.
+
+Datum references at MMB or LMB, by characteristic: runout's datums never take them, under any
+edition, since the part is turned about a datum axis that is established regardless of
+material boundary (ASME Y14.5-2009 and -2018, from memory; under ISO datumlint reads ISO 1101
+run-out and ISO 2692 the same way, also from memory). Under ASME Y14.5-2009 concentricity and
+symmetry are regardless of feature size and of material boundary, datums included. ISO 2692
+allows the maximum material requirement on coaxiality and symmetry datums, and ASME
+Y14.5-2018 has neither characteristic, so those are not reported. Orientation, position and
+profile may reference datums at MMB or LMB in every edition (ASME Y14.5-2018, datum feature
+modifiers; ISO 2692:2014).`,
+	Source:  "ASME Y14.5-2018, material condition modifiers, runout (RFS and RMB only; from memory, section 12), datum features at MMB/LMB; ASME Y14.5-2009, concentricity and symmetry (RFS and RMB only; from memory); ISO 2692:2014; ISO 1101:2017",
+	Bad:     "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02 (M)",
+	Good:    "feature base plane normal -z at (0, 0, 0)\nframe base: flatness 0.02",
+	Fix:     "remove (M) or (L) from a datum reference of runout (and of concentricity or symmetry under asme-2009), which applies regardless of material boundary anyway",
+	FixSafe: true,
+	Run:     runModifierIllegal,
 })
 
 func runModifierIllegal(p *Pass) {
@@ -272,6 +291,12 @@ func runModifierIllegal(p *Pass) {
 				if r.Material == "" || !r.Resolved() {
 					continue
 				}
+				if why := boundaryForbidden(p.Part, c); why != "" {
+					p.ReportDiagnostic(Diagnostic{Span: r.MatSpan,
+						Message: fmt.Sprintf("%s: remove (%s) from datum %s", why, r.Material, r.Name),
+						Fixes:   []Fix{{Message: "remove (" + r.Material + ")", Safe: true, Edits: []Edit{deleteWithBlankBefore(p.Part.Source, r.MatSpan)}}}})
+					continue
+				}
 				for _, d := range r.Datums {
 					f := d.Target.Feature
 					// A face of a width at MMB/LMB is midplane-ambiguous's finding.
@@ -285,6 +310,41 @@ func runModifierIllegal(p *Pass) {
 			}
 		}
 	}
+}
+
+// boundaryForbidden says why the characteristic takes no datum reference
+// at MMB or LMB under the part's edition, or "". Runout is read while the
+// part turns about its datum axis, which is established regardless of
+// material boundary (ASME Y14.5-2009 and -2018, runout; from memory, 2018
+// section 12; ISO 1101:2017 run-out and ISO 2692:2014, which applies the
+// material requirements to derived features, not to a run-out setup).
+// Concentricity and symmetry under ASME Y14.5-2009 apply regardless of
+// feature size and of material boundary (from memory, 2009 sections 7.6.4
+// and 7.7.2); ISO 2692 allows the maximum material requirement on
+// coaxiality and symmetry, and asme-2018 has neither characteristic
+// (characteristic-withdrawn), so those are left alone. Every other
+// characteristic that takes datums may reference them at MMB or LMB.
+func boundaryForbidden(part *model.Part, c model.Characteristic) string {
+	switch {
+	case c.Category() == model.Runout:
+		return fmt.Sprintf("%s is read while the part turns about its datum axis, which is established regardless of material boundary (%s, runout)", c, editionName(part.Standard))
+	case (c == model.Concentricity || c == model.Symmetry) && part.Standard == model.ASME2009:
+		return fmt.Sprintf("%s is controlled regardless of feature size and its datums regardless of material boundary (ASME Y14.5-2009)", c)
+	}
+	return ""
+}
+
+// editionName names the governing edition in a message.
+func editionName(s model.Standard) string {
+	switch s {
+	case model.ASME2018:
+		return "ASME Y14.5-2018"
+	case model.ASME2009:
+		return "ASME Y14.5-2009"
+	case model.ISO:
+		return "ISO 1101"
+	}
+	return "ASME Y14.5 and ISO 1101"
 }
 
 // boundaryAllowed decides whether a surface datum feature may be referenced

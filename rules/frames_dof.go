@@ -51,7 +51,13 @@ frame bore: position dia 0.1 datums A, B, C`,
 				if st.Constrains > 0 || repeatsLetters(a.Segment.Refs[:k], r) {
 					continue // a repeated letter is datum-duplicate's finding
 				}
-				p.ReportDiagnostic(Diagnostic{Span: r.Span, Message: redundantReason(a, k, p.Part.Tolerance()),
+				msg := redundantReason(a, k, p.Part.Tolerance())
+				if isSelfReference(fr, r) {
+					// One finding for the slip: say that the datum is the
+					// feature's own (datum-self-reference leaves it here).
+					msg = fmt.Sprintf("%s is the datum that '%s' itself establishes, so it relates the feature to itself, %s", refName(r), fr.Target.Name, strings.TrimPrefix(msg, refName(r)+" "))
+				}
+				p.ReportDiagnostic(Diagnostic{Span: r.Span, Message: msg,
 					Fixes: []Fix{{Message: "remove datum " + refName(r) + " from the frame", Edits: []Edit{dropRef(p.Part.Source, a.Segment, k)}}}})
 			}
 		})

@@ -42,6 +42,9 @@ Y14.5-2018. A drawing states both in its title block; the callout file must too.
 	Bad:    "part \"Bracket BR-7\"\nunits mm",
 	Good:   "part \"Bracket BR-7\"\nunits mm\nstandard asme-2018",
 	Run: func(p *Pass) {
+		if p.Part.NotText {
+			return // not a callouts file at all: its syntax finding says so, once
+		}
 		has := map[string]bool{}
 		for _, h := range p.Part.Headers {
 			has[h.Keyword] = true

@@ -89,3 +89,41 @@ func sizeExample(f *model.Feature) string {
 	}
 	return fmt.Sprintf("feature %s %s size 10 +0 -0.1 ...", f.Name, f.Kind)
 }
+
+// EnvelopeRedundant reports (E) on a size where an ASME edition governs.
+var EnvelopeRedundant = Register(&Rule{
+	ID:       "envelope-redundant",
+	Summary:  "(E) on a size under an ASME edition, where Rule #1 already applies the envelope",
+	Severity: Info,
+	Rationale: `(E), the envelope requirement, is how ISO 14405-1 asks that a feature of size not exceed its
+boundary of perfect form at MMC, because ISO 8015 makes independency the default: without it
+size and form are independent. Under ASME Y14.5 the envelope is the default instead: Rule #1
+already bounds the form of every regular feature of size by its limits of size, so (E) adds
+nothing and is not an ASME symbol. It is harmless, so the finding is information only: the
+file may have been written for ISO, or copied from an ISO drawing, and the standard header is
+worth a look. (Where the drawing's notes override Rule #1, the envelope is meant and (E)
+records it.)`,
+	Source:  "ASME Y14.5-2018, Rule #1, limits of size and the envelope principle (from memory, section 5.8); ASME Y14.5-2009, Rule #1; ISO 14405-1:2016, envelope requirement (E); ISO 8015:2011, independency principle",
+	Bad:     "feature pilot pin size 20 -0.007 -0.02 (E) axis +z at (0, 0, 0)",
+	Good:    "feature pilot pin size 20 -0.007 -0.02 axis +z at (0, 0, 0)",
+	Fix:     "remove (E), which Rule #1 already gives",
+	FixSafe: true,
+	Run: func(p *Pass) {
+		if !p.Part.Standard.IsASME() {
+			return
+		}
+		for _, f := range p.Part.Features {
+			if f.Broken || f.Size == nil || !f.Size.Envelope {
+				continue
+			}
+			d := Diagnostic{Span: f.Size.EnvelopeSpan,
+				Message: fmt.Sprintf("under %s Rule #1 already bounds the form of '%s' by its envelope at MMC, so (E) adds nothing (it is how ISO 14405-1 asks for the envelope, where independency is the default): remove it, or if the file follows ISO, write `standard iso`", p.Part.Standard, f.Name)}
+			if d.Span.IsZero() {
+				d.Span = f.Size.Span // a reader that does not say where (E) is
+			} else {
+				d.Fixes = []Fix{{Message: "remove (E)", Safe: true, Edits: []Edit{deleteWithBlankBefore(p.Part.Source, d.Span)}}}
+			}
+			p.ReportDiagnostic(d)
+		}
+	},
+})

@@ -11,6 +11,7 @@ import (
 	"github.com/datumlint/datumlint/grammar"
 
 	"github.com/datumlint/datumlint/rules"
+	"github.com/datumlint/datumlint/rules/longtest"
 )
 
 // want is one expected finding, written in a test file as a trailing
@@ -188,13 +189,15 @@ func count(rule, src string) int {
 	return n
 }
 
-// TestNoPanicOnEveryPrefix feeds every prefix of the test files (cut at any
-// byte) through the whole check: bad input yields findings, never a panic.
+// TestNoPanicOnEveryPrefix feeds prefixes of the test files (cut at every
+// 7th byte in the long run, every 31st otherwise) through the whole check:
+// bad input yields findings, never a panic.
 func TestNoPanicOnEveryPrefix(t *testing.T) {
 	files, _ := filepath.Glob(filepath.Join("testdata", "*.callouts"))
+	step := longtest.N(31, 7)
 	for _, f := range files {
 		src, _ := os.ReadFile(f)
-		for i := 0; i < len(src); i += 7 {
+		for i := 0; i < len(src); i += step {
 			for _, d := range rules.Check(grammar.Read(f, src[:i]), nil) {
 				if d.Rule == rules.InternalRule {
 					t.Fatalf("%s cut at %d: %s", f, i, d.Message)

@@ -37,13 +37,19 @@ that were read are still shown); 2: usage error or an unreadable file.`,
 		},
 	}
 	cmd.Flags().StringVar(&format, "format", "text", "output format: text or json")
+	if err := cmd.RegisterFlagCompletionFunc("format", fixedValues("text", "one table per frame (the default)", "json", "one object per frame")); err != nil {
+		panic(err)
+	}
 	return cmd
 }
 
-// dofRef is one datum reference in `dof --format json`.
+// dofRef is one datum reference in `dof --format json`: the contract's
+// keys, and the motions it removes (an extension: docs/notation.md, "The
+// dof output"), named as in free and zone_free.
 type dofRef struct {
-	Ref        string `json:"ref"`
-	Constrains int    `json:"constrains"`
+	Ref        string   `json:"ref"`
+	Constrains int      `json:"constrains"`
+	Removes    []string `json:"removes"`
 }
 
 // dofSegment is a composite lower segment (an extension of version 0:
@@ -183,7 +189,7 @@ func describeSegment(a *kinematics.Segment, setups *setup.Result) dofSegment {
 		out.Error = a.Problem
 	}
 	for _, st := range a.Steps() {
-		out.Datums = append(out.Datums, dofRef{Ref: st.Name, Constrains: st.Constrains})
+		out.Datums = append(out.Datums, dofRef{Ref: st.Name, Constrains: st.Constrains, Removes: names(st.Removed)})
 	}
 	return out
 }
@@ -296,9 +302,15 @@ func segmentLabel(seg *model.Segment) string {
 	return b.String()
 }
 
+// motionList names motions for the text table, in its words
+// (dof.Phrase: "translation along x", "rotation about z through ...").
 func motionList(ms []dof.Motion) string {
 	if len(ms) == 0 {
 		return "none"
 	}
-	return strings.Join(names(ms), ", ")
+	out := make([]string, len(ms))
+	for i, m := range ms {
+		out[i] = dof.Phrase(m.Name)
+	}
+	return strings.Join(out, ", ")
 }

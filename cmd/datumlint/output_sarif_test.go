@@ -7,6 +7,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"sort"
 	"strings"
@@ -448,5 +449,57 @@ func TestSARIFFixes(t *testing.T) {
 	}
 	if !got["zone-shape"] || !got["name-undefined"] {
 		t.Errorf("fixes missing: %v", got)
+	}
+}
+
+// TestSARIFMultitoolValidates runs the SARIF SDK's validator (the
+// Sarif.Multitool, npm package @microsoft/sarif-multitool) over the log of
+// every example and test file, fixes included, where it is installed:
+// DATUMLINT_SARIF_MULTITOOL names its executable (.ci/run installs it). A
+// result it reports at error or warning level fails the test.
+func TestSARIFMultitoolValidates(t *testing.T) {
+	tool := os.Getenv("DATUMLINT_SARIF_MULTITOOL")
+	if tool == "" {
+		t.Skip("DATUMLINT_SARIF_MULTITOOL is not set: the SARIF SDK's validator is not installed (the OASIS schema test still runs)")
+	}
+	dir := t.TempDir()
+	var files []string
+	for _, root := range []string{"../../testdata/examples", "../../rules/testdata"} {
+		m, _ := filepath.Glob(filepath.Join(root, "*.callouts"))
+		files = append(files, m...)
+		m, _ = filepath.Glob(filepath.Join(root, "fix", "*.callouts"))
+		files = append(files, m...)
+	}
+	out, _ := runCLI(t, append([]string{"check", "--format", "sarif", "--fail-on", "error"}, files...)...)
+	log := filepath.Join(dir, "in.sarif")
+	if err := os.WriteFile(log, out, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	res := filepath.Join(dir, "validation.sarif")
+	cmd := exec.Command(tool, "validate", log, "--output", res, "--log", "ForceOverwrite")
+	cmd.Env = append(os.Environ(), "DOTNET_SYSTEM_GLOBALIZATION_INVARIANT=1")
+	if msg, err := cmd.CombinedOutput(); err != nil {
+		t.Fatalf("the validator did not run: %v\n%s", err, msg)
+	}
+	b, err := os.ReadFile(res)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Runs []struct {
+			Results []struct {
+				RuleID  string                `json:"ruleId"`
+				Level   string                `json:"level"`
+				Message struct{ Text string } `json:"message"`
+			} `json:"results"`
+		} `json:"runs"`
+	}
+	if err := json.Unmarshal(b, &doc); err != nil {
+		t.Fatal(err)
+	}
+	for _, r := range doc.Runs[0].Results {
+		if r.Level == "error" || r.Level == "warning" || r.Level == "" {
+			t.Errorf("SARIF SDK validator: %s %s: %s", r.Level, r.RuleID, r.Message.Text)
+		}
 	}
 }

@@ -26,7 +26,8 @@ outside DIR; each page is written atomically.
 
 The configuration, --fail-on and the exit status are those of check. Exit 0: no finding at
 or above the failing severity; 1: findings; 2: a usage error, a path that could not be read
-(the report is still written for the others) or a page that could not be written.`,
+(the report is still written for the others), nothing found to report, or a page that could
+not be written.`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			return runReport(cmd, f, out, args)
 		},
@@ -34,6 +35,10 @@ or above the failing severity; 1: findings; 2: a usage error, a path that could 
 	fl := cmd.Flags()
 	fl.StringVarP(&out, "output", "o", "", "the folder to write the report into (required)")
 	f.register(fl)
+	registerRunCompletions(cmd)
+	if err := cmd.MarkFlagDirname("output"); err != nil {
+		panic(err)
+	}
 	return cmd
 }
 
@@ -50,6 +55,10 @@ func runReport(cmd *cobra.Command, f *runFlags, out string, args []string) error
 	}
 	opt.KeepParts = true
 	res := lint.Run(args, opt)
+	if len(res.Files) == 0 && len(res.Errors) == 0 {
+		// Nothing to report: say so (exit 2) and write nothing.
+		return runExit(cmd.ErrOrStderr(), &res, args, failOn, nil)
+	}
 	unread := map[string]bool{}
 	for _, e := range res.Errors {
 		unread[e.Path] = true
@@ -68,5 +77,5 @@ func runReport(cmd *cobra.Command, f *runFlags, out string, args []string) error
 	if err := report.WriteSite(out, files); err != nil {
 		return &exitError{2, fmt.Sprintf("cannot write the report: %v", err)}
 	}
-	return runExit(cmd.ErrOrStderr(), &res, failOn)
+	return runExit(cmd.ErrOrStderr(), &res, args, failOn, nil)
 }

@@ -11,7 +11,12 @@
 // precision of values that messages quote, and the suppressions.
 package model
 
-import "github.com/datumlint/datumlint/grammar/source"
+import (
+	"bytes"
+	"strings"
+
+	"github.com/datumlint/datumlint/grammar/source"
+)
 
 // Size is a feature's size or a dimension's tolerance: a nominal with an
 // upper and a lower deviation (limits are stored the same way).
@@ -20,6 +25,8 @@ type Size struct {
 	Upper, Lower float64 // signed deviations
 	Toleranced   bool    // false where only a nominal was written
 	Envelope     bool    // (E): ISO 14405-1 envelope requirement
+	// EnvelopeSpan is where (E) was written, where a reader knows it.
+	EnvelopeSpan source.Span
 	Span         source.Span
 	// Text is the size as written, for messages that quote it.
 	Text string
@@ -345,15 +352,36 @@ type Statement struct {
 	First, Last int
 	// Parsed is false for a statement that did not parse.
 	Parsed bool
-	// Text is the statement as written with comments removed and runs of
-	// white space made one space: what it says, apart from where it
-	// stands (SARIF fingerprints hash it).
-	Text string
+	// Comments are the trailing comments on the statement's lines (which
+	// StatementText leaves out).
+	Comments []source.Span
 	// Name is the name or letter a statement that did not parse declares,
 	// where it could be read; Words are the names written in it. They keep
 	// one typo from cascading into name-undefined or datum-unused findings.
 	Name  string
 	Words []string
+}
+
+// StatementText is a statement as written with its trailing comments
+// removed and runs of white space made one space: what it says, apart from
+// where it stands (SARIF fingerprints hash it). A byte order mark is not
+// part of the text.
+func StatementText(src *source.File, st Statement) string {
+	var b strings.Builder
+	for l := st.First; l <= st.Last; l++ {
+		line := src.LineBytes(l)
+		for _, c := range st.Comments {
+			if c.Start.Line == l {
+				line = line[:src.Offset(c.Start)-src.Offset(source.Pos{Line: l, Col: 1})]
+			}
+		}
+		if l == 1 {
+			line = bytes.TrimPrefix(line, []byte("\ufeff"))
+		}
+		b.Write(line)
+		b.WriteByte(' ')
+	}
+	return strings.Join(strings.Fields(b.String()), " ")
 }
 
 // Suppression is an allow directive: `# datumlint: allow RULE -- reason`.
@@ -398,6 +426,11 @@ type Part struct {
 	Statements []Statement
 	// Suppressions are the allow directives, in file order.
 	Suppressions []*Suppression
+	// NotText marks a file that is not text in the reader's format at all
+	// (binary data): its one Syntax problem says so, and nothing is said
+	// of what such a file lacks (no header-missing), so that it gets one
+	// finding.
+	NotText bool
 
 	// Center and Scale describe the part's extent: the centre and the
 	// diagonal of the box around all nominal points (at least 1).

@@ -8,6 +8,7 @@ package lint
 import (
 	"errors"
 	"fmt"
+	"io"
 	"io/fs"
 	"os"
 	"path/filepath"
@@ -123,11 +124,14 @@ type File struct {
 }
 
 // Result is the outcome of a run: one File per checked file, in the order
-// of a serial run, and the paths that could not be read.
+// of a serial run, the paths that could not be read, the likely mistakes
+// that did not stop the run, and how many walked files were excluded.
 type Result struct {
-	Files  []*File
-	Errors []*PathError
-	byPath map[string]*File
+	Files    []*File
+	Errors   []*PathError
+	Warnings []*PathError
+	Excluded int
+	byPath   map[string]*File
 }
 
 // Diagnostics returns every file's findings, sorted by file, line and
@@ -152,32 +156,43 @@ func (r *Result) File(path string) *File {
 	return r.byPath[path]
 }
 
-// Collect expands paths into the files to check: files as named, folders
-// walked for the extensions a reader knows, in sorted order. Missing or unreadable paths,
-// permission errors and symbolic link loops become PathErrors.
-func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError) {
-	found, errs := collect(paths, exclude)
-	files := make([]string, len(found))
-	for i, f := range found {
-		files[i] = f.path
-	}
-	return files, errs
+// Found is what Collect found under the paths.
+type Found struct {
+	// Files are the files to check, in order.
+	Files []string
+	// Roots are, for each file, the path it was found under (the walked
+	// folder, or the file as named).
+	Roots []string
+	// Errors are the paths that could not be read; a run that has any
+	// exits 2.
+	Errors []*PathError
+	// Warnings are likely mistakes that do not stop anything: a folder
+	// named like a callouts file, whose files are still checked.
+	Warnings []*PathError
+	// Excluded counts the walked files that exclude left out.
+	Excluded int
 }
 
-// collected is a file to check and the path on the command line it was
-// found under.
-type collected struct{ path, root string }
-
-func collect(paths []string, exclude func(string) bool) ([]collected, []*PathError) {
-	var files []collected
+// Collect expands paths into the files to check: files as named, folders
+// walked for the extensions a reader knows, in sorted order. Missing or
+// unreadable paths, permission errors and symbolic link loops become
+// Errors; a folder named like a callouts file is a Warning.
+func Collect(paths []string, exclude func(string) bool) Found {
+	var out Found
+	var files, roots []string
 	var errs []*PathError
 	seen := map[string]bool{}
 	var root string
+	named := func(p string) {
+		// Likely a mistake (an export that made a folder per part): say
+		// so, and still check the files inside.
+		out.Warnings = append(out.Warnings, &PathError{p, errors.New("a folder named like a callouts file; the .callouts files inside it are checked")})
+	}
 	add := func(p string) {
 		// x.callouts and ./x.callouts are one file, checked once.
 		if c := filepath.Clean(p); !seen[c] {
 			seen[c] = true
-			files = append(files, collected{p, root})
+			files, roots = append(files, p), append(roots, root)
 		}
 	}
 	for _, root = range paths {
@@ -187,9 +202,7 @@ func collect(paths []string, exclude func(string) bool) ([]collected, []*PathErr
 			continue
 		}
 		if info.IsDir() && namedLikeFile(filepath.Clean(root)) {
-			// Named like a file but a folder: report it (exit 2), and
-			// still check what is inside.
-			errs = append(errs, &PathError{root, errors.New("a folder named like a callouts file; the .callouts files inside it are checked")})
+			named(root)
 		}
 		if !info.IsDir() {
 			if !info.Mode().IsRegular() {
@@ -212,9 +225,7 @@ func collect(paths []string, exclude func(string) bool) ([]collected, []*PathErr
 					return fs.SkipDir // .git and other hidden folders
 				}
 				if p != root && namedLikeFile(d.Name()) {
-					// Likely a mistake (an export that made a folder per part);
-					// say so, and still check the files inside.
-					errs = append(errs, &PathError{p, errors.New("a folder named like a callouts file; the .callouts files inside it are checked")})
+					named(p)
 				}
 				return nil
 			}
@@ -233,6 +244,7 @@ func collect(paths []string, exclude func(string) bool) ([]collected, []*PathErr
 				}
 			}
 			if exclude != nil && exclude(p) {
+				out.Excluded++
 				return nil
 			}
 			add(p)
@@ -242,7 +254,8 @@ func collect(paths []string, exclude func(string) bool) ([]collected, []*PathErr
 			errs = append(errs, &PathError{root, friendlyErr(err)})
 		}
 	}
-	return files, errs
+	out.Files, out.Roots, out.Errors = files, roots, errs
+	return out
 }
 
 func friendlyErr(err error) error {
@@ -261,12 +274,9 @@ func friendlyErr(err error) error {
 
 // Run checks every file under paths.
 func Run(paths []string, opt Options) Result {
-	found, errs := collect(paths, opt.Exclude)
-	files := make([]string, len(found))
-	for i, f := range found {
-		files[i] = f.path
-	}
-	res := Result{Files: make([]*File, len(files)), Errors: errs}
+	found := Collect(paths, opt.Exclude)
+	files := found.Files
+	res := Result{Files: make([]*File, len(files)), Errors: found.Errors, Warnings: found.Warnings, Excluded: found.Excluded}
 	workers := opt.Workers
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
@@ -293,7 +303,7 @@ func Run(paths []string, opt Options) Result {
 	close(next)
 	wg.Wait()
 	for i, f := range res.Files {
-		f.Root = found[i].root
+		f.Root = found.Roots[i]
 	}
 	for _, e := range pathErrs {
 		if e != nil {
@@ -301,6 +311,40 @@ func Run(paths []string, opt Options) Result {
 		}
 	}
 	sort.SliceStable(res.Errors, func(i, j int) bool { return res.Errors[i].Path < res.Errors[j].Path })
+	return res
+}
+
+// RunReader checks one file read from r (standard input) under the name
+// given, which chooses the reader and the settings (Options.SettingsFor)
+// and names the file in the findings. Input over the size limit is not
+// read past it and gets the same one finding as a file over the limit.
+func RunReader(name string, r io.Reader, opt Options) Result {
+	f := &File{Path: name}
+	res := Result{Files: []*File{f}}
+	max := opt.MaxBytes
+	if max <= 0 {
+		max = DefaultMaxBytes
+	}
+	settings := opt.Settings
+	if opt.SettingsFor != nil {
+		s, err := opt.SettingsFor(name)
+		if err != nil {
+			res.Errors = append(res.Errors, &PathError{name, err})
+			return res
+		}
+		settings = s
+	}
+	src, err := io.ReadAll(io.LimitReader(r, max+1))
+	if err != nil {
+		res.Errors = append(res.Errors, &PathError{name, err})
+		return res
+	}
+	if int64(len(src)) > max {
+		f.Diagnostics = []rules.Diagnostic{{File: name, Rule: rules.Syntax.ID, Severity: rules.Error, Span: source.Line(1),
+			Message: fmt.Sprintf("the input is over the size limit of %d bytes; it was not read (raise the limit with --max-bytes if it really is one part)", max)}}
+		return res
+	}
+	CheckSource(f, src, settings, opt.KeepParts)
 	return res
 }
 
