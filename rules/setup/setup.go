@@ -33,7 +33,10 @@
 //     primary plane 3, a sphere's centre 4 — the least numbers of points a
 //     measuring machine takes on a cylinder, a circle and a sphere (common
 //     practice). A fixed-size simulator needs no contact at all: the
-//     feature may move inside it, which is the datum feature shift.
+//     feature may move inside it, which is the datum feature shift. The
+//     simulators of a whole pattern referenced at RMB are taken to grow
+//     together, one size for the pattern (from memory), so the pattern
+//     adds one point, not one per feature.
 //
 // The package reads the part model, the kinematic result the frame rules
 // and `datumlint dof` read (rules/kinematics), and rules/material. It
