@@ -4,8 +4,10 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/grammar/source"
 	"github.com/datumlint/datumlint/rules/basics"
 )
 
@@ -47,6 +49,8 @@ datum C on left
 frame bore: position dia 0.1 (M) datums A, B, C
 basic 60 from left to bore
 basic 40 from rear to bore`,
+	Fix:     "insert one basic line per missing quantity, with the model's value, beside the feature's other basic lines or after its frames",
+	FixSafe: true,
 	Run: func(p *Pass) {
 		// One finding per frame, naming every missing quantity: the frame
 		// is one annotation to fix, and one line of the drawing.
@@ -55,7 +59,7 @@ basic 40 from rear to bore`,
 				continue // a dimension to it may be in a line that did not parse
 			}
 			seen := map[string]bool{}
-			var msgs []string
+			var msgs, adds []string
 			for i, seg := range fr.Segments {
 				ms, ok := p.Basics().Missing(fr, i)
 				if !ok {
@@ -67,18 +71,74 @@ basic 40 from rear to bore`,
 						seen[msg] = true
 						msgs = append(msgs, msg)
 					}
+					if m.Suggest != "" && !seen["add:"+m.Suggest] {
+						seen["add:"+m.Suggest] = true
+						adds = append(adds, m.Suggest)
+					}
 				}
 			}
-			switch len(msgs) {
-			case 0:
-			case 1:
-				p.Report(fr.CharSpan, "%s", msgs[0])
-			default:
-				p.Report(fr.CharSpan, "%s; and %s", msgs[0], strings.Join(msgs[1:], "; and "))
+			if len(msgs) == 0 {
+				continue
 			}
+			d := Diagnostic{Span: fr.CharSpan, Message: msgs[0]}
+			if len(msgs) > 1 {
+				d.Message = fmt.Sprintf("%s; and %s", msgs[0], strings.Join(msgs[1:], "; and "))
+			}
+			if fix, ok := insertBasics(p, fr, adds); ok {
+				d.Fixes = []Fix{fix}
+			}
+			p.ReportDiagnostic(d)
 		}
 	},
 })
+
+// insertBasics is basic-missing's fix: one edit per missing quantity,
+// each inserting the `basic` line that the message suggests (the engine
+// writes it with the model's nominal value, in the file's units). The
+// lines go below the last basic dimension to or from the frame's feature,
+// or else below the last frame on it, so that they stay beside what they
+// complete; the file's line ends are kept. The fix is safe: a basic
+// dimension equal to the model adds no requirement the model does not
+// already have (ASME Y14.41-2019, model values are basic).
+func insertBasics(p *Pass, fr *model.Frame, adds []string) (Fix, bool) {
+	ft := fr.Target.Feature
+	if ft == nil || len(adds) == 0 {
+		return Fix{}, false
+	}
+	anchor := fr.Span.End.Line
+	for _, f := range p.Part.FramesOn(ft) {
+		anchor = max(anchor, f.Span.End.Line)
+	}
+	last := 0
+	for _, d := range p.Part.Dims {
+		on := d.From.Feature == ft || d.To.Feature == ft
+		if d.Circle != nil {
+			on = on || d.Circle.Pattern.Feature == ft
+		}
+		if d.Basic && on {
+			last = max(last, d.Span.End.Line)
+		}
+	}
+	if last > 0 {
+		anchor = last
+	}
+	file, eol := p.Part.Source, p.facts.lineEnd()
+	at := source.Pos{Line: anchor + 1, Col: 1}
+	before, after := "", eol
+	if anchor >= file.Lines() {
+		// The last line has no line end: end it first.
+		at = source.Pos{Line: anchor, Col: utf8.RuneCount(file.LineBytes(anchor)) + 1}
+		before, after = eol, ""
+	}
+	fix := Fix{Safe: true, Message: fmt.Sprintf("insert `%s`", adds[0])}
+	if len(adds) > 1 {
+		fix.Message = fmt.Sprintf("insert the %d basic dimensions: `%s`", len(adds), strings.Join(adds, "`, `"))
+	}
+	for _, a := range adds {
+		fix.Edits = append(fix.Edits, Edit{Span: source.Span{Start: at, End: at}, NewText: before + a + after})
+	}
+	return fix, true
+}
 
 func basicRefName(seg *model.Segment, k int) string {
 	if k < 0 || k >= len(seg.Refs) {

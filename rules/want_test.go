@@ -141,7 +141,13 @@ func TestRuleData(t *testing.T) {
 					}
 				}
 			}
-			checkWants(t, f, src, rules.Check(grammar.Read(f, src), s))
+			ds := rules.Check(grammar.Read(f, src), s)
+			checkWants(t, f, src, ds)
+			for _, d := range ds {
+				if r := rules.Lookup(d.Rule); len(d.Fixes) > 0 && (r == nil || r.Fix == "") {
+					t.Errorf("%s offers a fix that its rule does not document (Rule.Fix)", d.Rule)
+				}
+			}
 		})
 	}
 }

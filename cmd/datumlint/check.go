@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/config"
@@ -14,16 +15,86 @@ import (
 
 // checkFlags are the flags of `datumlint check`.
 type checkFlags struct {
+	runFlags
 	format    string
-	failOn    string
 	color     string
-	maxBytes  int64
-	workers   int
-	config    string
 	stdinName string
 	quiet     bool
-	over      config.Overrides
 	fixes     fixFlags
+}
+
+// runFlags are the flags of a run that `check` and `report` share: the
+// configuration, the failing severity, the size limit and the workers.
+type runFlags struct {
+	failOn   string
+	maxBytes int64
+	workers  int
+	config   string
+	over     config.Overrides
+}
+
+func (f *runFlags) register(fl *pflag.FlagSet) {
+	fl.StringVar(&f.failOn, "fail-on", "", "the lowest severity that fails the check: error, warning or info (default warning)")
+	fl.Int64Var(&f.maxBytes, "max-bytes", lint.DefaultMaxBytes, "largest file to read, in bytes")
+	fl.IntVar(&f.workers, "workers", 0, "files checked at once (0: one per core)")
+	fl.StringVar(&f.config, "config", "", "use this configuration file for every checked file instead of the "+config.FileName+" files found above them")
+	fl.StringSliceVar(&f.over.Enable, "enable", nil, "run these rules (RULE[,RULE]) even where the configuration turns them off")
+	fl.StringSliceVar(&f.over.Disable, "disable", nil, "do not run these rules (RULE[,RULE])")
+}
+
+// prepare works out a run from the flags and the paths its configuration
+// is found from: the configuration (--config or the files found above the
+// paths, with --enable and --disable), the failing severity (--fail-on,
+// else the configuration's, else warning) and the options of lint.Run.
+// Errors are usage errors (exit 2).
+func (f *runFlags) prepare(cmd *cobra.Command, configArgs []string) (*configSetup, lint.Options, rules.Severity, error) {
+	cfg, err := loadConfig(f.config, f.over, configArgs)
+	if err != nil {
+		return nil, lint.Options{}, 0, err
+	}
+	failOn := rules.Warning
+	if cfg.failOnSet {
+		failOn = cfg.failOn
+	}
+	if f.failOn != "" {
+		s, err := rules.ParseSeverity(f.failOn)
+		if err != nil || s == rules.Off {
+			return nil, lint.Options{}, 0, fmt.Errorf("--fail-on takes error, warning or info, not %q", f.failOn)
+		}
+		failOn = s
+	}
+	if cfg.maxBytes > 0 && !cmd.Flags().Changed("max-bytes") {
+		f.maxBytes = cfg.maxBytes
+	}
+	opt := lint.Options{SettingsFor: cfg.settingsFor, Exclude: cfg.exclude, MaxBytes: f.maxBytes, Workers: f.workers}
+	return cfg, opt, failOn, nil
+}
+
+// runExit prints a run's warnings and unreadable paths on stderr and
+// works out its exit: 2 when nothing was found to check or a path could
+// not be read, else 1 when an unsuppressed finding is at or above failOn,
+// else nil. after, when set, runs once the paths are printed and before
+// the exit is decided, unless nothing was found (check's summary line).
+func runExit(stderr io.Writer, res *lint.Result, args []string, failOn rules.Severity, after func()) error {
+	printWarnings(stderr, res.Warnings)
+	for _, e := range res.Errors {
+		printError(stderr, e.Path+": ", e.Err)
+	}
+	if len(res.Files) == 0 && len(res.Errors) == 0 {
+		return &exitError{2, nothingFound(args, res.Excluded)}
+	}
+	if after != nil {
+		after()
+	}
+	if len(res.Errors) > 0 {
+		return &exitError{2, ""}
+	}
+	for _, d := range res.Diagnostics() {
+		if !d.Suppressed && d.Severity >= failOn {
+			return &exitError{1, ""}
+		}
+	}
+	return nil
 }
 
 // stdinDefault names standard input in findings when --stdin-name is not
@@ -46,15 +117,10 @@ standard input (--stdin-name names it). After a text run a one-line summary goes
 	}
 	fl := cmd.Flags()
 	fl.StringVar(&f.format, "format", "text", "output format: "+strings.Join(formatNames(), ", "))
-	fl.StringVar(&f.failOn, "fail-on", "", "the lowest severity that fails the check: error, warning or info (default warning)")
 	fl.StringVar(&f.color, "color", "auto", "colour the text output: auto (on a terminal, unless NO_COLOR is set), always or never")
-	fl.Int64Var(&f.maxBytes, "max-bytes", lint.DefaultMaxBytes, "largest file to read, in bytes")
-	fl.IntVar(&f.workers, "workers", 0, "files checked at once (0: one per core)")
-	fl.StringVar(&f.config, "config", "", "use this configuration file for every checked file instead of the "+config.FileName+" files found above them")
 	fl.StringVar(&f.stdinName, "stdin-name", "", `with "-": the path standard input stands for (its configuration, reader and the name in findings)`)
 	fl.BoolVarP(&f.quiet, "quiet", "q", false, "no summary line on stderr after a text run")
-	fl.StringSliceVar(&f.over.Enable, "enable", nil, "run these rules (RULE[,RULE]) even where the configuration turns them off")
-	fl.StringSliceVar(&f.over.Disable, "disable", nil, "do not run these rules (RULE[,RULE])")
+	f.runFlags.register(fl)
 	fl.BoolVar(&f.fixes.fix, "fix", false, "apply the safe suggested fixes in place, then report what remains")
 	fl.BoolVar(&f.fixes.all, "fix-all", false, "apply every suggested fix, also those that change what the drawing says and need review")
 	fl.BoolVar(&f.fixes.diff, "diff", false, "with --fix or --fix-all: print the fixes as a unified diff and write nothing")
@@ -89,27 +155,13 @@ func runCheck(cmd *cobra.Command, f *checkFlags, args []string) error {
 			configArgs = []string{f.stdinName}
 		}
 	}
-	cfg, err := loadConfig(f.config, f.over, configArgs)
+	cfg, opt, failOn, err := f.prepare(cmd, configArgs)
 	if err != nil {
 		return &exitError{2, err.Error()}
 	}
 	out := formatNamed(f.format)
 	if out == nil {
 		return &exitError{2, fmt.Sprintf("unknown format %q: use %s", f.format, strings.Join(formatNames(), ", "))}
-	}
-	failOn := rules.Warning
-	if cfg.failOnSet {
-		failOn = cfg.failOn
-	}
-	if f.failOn != "" {
-		s, err := rules.ParseSeverity(f.failOn)
-		if err != nil || s == rules.Off {
-			return &exitError{2, fmt.Sprintf("--fail-on takes error, warning or info, not %q", f.failOn)}
-		}
-		failOn = s
-	}
-	if cfg.maxBytes > 0 && !cmd.Flags().Changed("max-bytes") {
-		f.maxBytes = cfg.maxBytes
 	}
 	if err := setColor(f.color); err != nil {
 		return &exitError{2, err.Error()}
@@ -121,7 +173,6 @@ func runCheck(cmd *cobra.Command, f *checkFlags, args []string) error {
 		return &exitError{2, `"-" (standard input) cannot be fixed in place: fix the file itself`}
 	}
 	stdout, stderr := cmd.OutOrStdout(), cmd.ErrOrStderr()
-	opt := lint.Options{SettingsFor: cfg.settingsFor, Exclude: cfg.exclude, MaxBytes: f.maxBytes, Workers: f.workers}
 	if f.fixes.on() {
 		fixed, err := runFixes(stdout, stderr, f.fixes, args, cfg, f.maxBytes)
 		if err != nil {
@@ -142,25 +193,11 @@ func runCheck(cmd *cobra.Command, f *checkFlags, args []string) error {
 	if err := out(stdout, &res); err != nil {
 		return &exitError{2, err.Error()}
 	}
-	printWarnings(stderr, res.Warnings)
-	for _, e := range res.Errors {
-		printError(stderr, e.Path+": ", e.Err)
-	}
-	if len(res.Files) == 0 && len(res.Errors) == 0 {
-		return &exitError{2, nothingFound(args, res.Excluded)}
-	}
-	if f.format == "text" && !f.quiet {
-		fmt.Fprintln(stderr, summary(&res))
-	}
-	if len(res.Errors) > 0 {
-		return &exitError{2, ""}
-	}
-	for _, d := range res.Diagnostics() {
-		if !d.Suppressed && d.Severity >= failOn {
-			return &exitError{1, ""}
+	return runExit(stderr, &res, args, failOn, func() {
+		if f.format == "text" && !f.quiet {
+			fmt.Fprintln(stderr, summary(&res))
 		}
-	}
-	return nil
+	})
 }
 
 // nothingFound says why a run checked no file.

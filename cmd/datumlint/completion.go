@@ -49,13 +49,24 @@ func registerCheckCompletions(cmd *cobra.Command) {
 	for _, f := range formats {
 		values = append(values, f.name, f.help)
 	}
-	complete := map[string]cobra.CompletionFunc{
-		"format":  fixedValues(values...),
+	registerCompletions(cmd, map[string]cobra.CompletionFunc{
+		"format": fixedValues(values...),
+		"color":  fixedValues("auto", "colour on a terminal, unless NO_COLOR is set", "always", "colour even when NO_COLOR is set", "never", "no colour"),
+	})
+	registerRunCompletions(cmd)
+}
+
+// registerRunCompletions completes the flags of runFlags (check and
+// report).
+func registerRunCompletions(cmd *cobra.Command) {
+	registerCompletions(cmd, map[string]cobra.CompletionFunc{
 		"fail-on": fixedValues("error", "fail on errors only", "warning", "fail on warnings and errors (the default)", "info", "fail on any finding"),
-		"color":   fixedValues("auto", "colour on a terminal, unless NO_COLOR is set", "always", "colour even when NO_COLOR is set", "never", "no colour"),
 		"enable":  ruleIDs,
 		"disable": ruleIDs,
-	}
+	})
+}
+
+func registerCompletions(cmd *cobra.Command, complete map[string]cobra.CompletionFunc) {
 	for name, fn := range complete {
 		if err := cmd.RegisterFlagCompletionFunc(name, fn); err != nil {
 			panic(err) // a flag renamed without its completion

@@ -38,7 +38,7 @@ notes, local codes and qualified engineering judgement decide.`,
 	}
 	root.SetOut(stdout)
 	root.SetErr(stderr)
-	root.AddCommand(newCheckCmd(), newDofCmd(), newFmtCmd(), newRulesCmd(), newExplainCmd())
+	root.AddCommand(newCheckCmd(), newReportCmd(), newDofCmd(), newFmtCmd(), newRulesCmd(), newExplainCmd(), newLSPCmd())
 	return root
 }
 

@@ -28,7 +28,6 @@ import (
 const (
 	sarifSchema    = "https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/schemas/sarif-schema-2.1.0.json"
 	informationURI = "https://github.com/datumlint/datumlint"
-	rulesDocURI    = informationURI + "/blob/main/docs/rules.md"
 	srcRoot        = "SRCROOT"
 	// fingerprintKey names our partialFingerprints entry (SARIF §3.27.17:
 	// a versioned name, so a change of method does not match old results).
@@ -282,7 +281,7 @@ func sarifRuleOf(r *rules.Rule) sarifRule {
 		Properties:           map[string]any{"source": r.Source},
 	}
 	if r != internalRule {
-		out.HelpURI = rulesDocURI + "#" + r.ID
+		out.HelpURI = ruledoc.URL(r.ID)
 	}
 	return out
 }

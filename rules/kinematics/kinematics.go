@@ -401,7 +401,14 @@ func segmentProblem(fr *model.Frame, s *model.Segment) string {
 	case !hasGeometry(t.Feature):
 		return fmt.Sprintf("%s has no readable geometry", t.Name)
 	}
-	for _, r := range s.Refs {
+	return RefsProblem(s.Refs)
+}
+
+// RefsProblem says why a datum reference list cannot be analysed (a datum
+// that is not declared, or is on a feature that is not declared or has no
+// readable geometry), or "" when every reference can be.
+func RefsProblem(refs []*model.DatumRef) string {
+	for _, r := range refs {
 		for i, d := range r.Datums {
 			switch {
 			case d == nil:

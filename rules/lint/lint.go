@@ -110,6 +110,9 @@ func (e *PathError) Error() string { return fmt.Sprintf("%s: %v", e.Path, e.Err)
 // File is what a run read and found in one file.
 type File struct {
 	Path string
+	// Root is the path on the command line the file was found under: the
+	// folder that was walked, or the file itself where it was named.
+	Root string
 	// Source is the file as read: kept where it has findings, or with
 	// Options.KeepParts; nil otherwise, and where the file was not read.
 	Source *source.File
@@ -157,6 +160,9 @@ func (r *Result) File(path string) *File {
 type Found struct {
 	// Files are the files to check, in order.
 	Files []string
+	// Roots are, for each file, the path it was found under (the walked
+	// folder, or the file as named).
+	Roots []string
 	// Errors are the paths that could not be read; a run that has any
 	// exits 2.
 	Errors []*PathError
@@ -173,9 +179,10 @@ type Found struct {
 // Errors; a folder named like a callouts file is a Warning.
 func Collect(paths []string, exclude func(string) bool) Found {
 	var out Found
-	var files []string
+	var files, roots []string
 	var errs []*PathError
 	seen := map[string]bool{}
+	var root string
 	named := func(p string) {
 		// Likely a mistake (an export that made a folder per part): say
 		// so, and still check the files inside.
@@ -185,10 +192,10 @@ func Collect(paths []string, exclude func(string) bool) Found {
 		// x.callouts and ./x.callouts are one file, checked once.
 		if c := filepath.Clean(p); !seen[c] {
 			seen[c] = true
-			files = append(files, p)
+			files, roots = append(files, p), append(roots, root)
 		}
 	}
-	for _, root := range paths {
+	for _, root = range paths {
 		info, err := os.Stat(root)
 		if err != nil {
 			errs = append(errs, &PathError{root, friendlyErr(err)})
@@ -247,7 +254,7 @@ func Collect(paths []string, exclude func(string) bool) Found {
 			errs = append(errs, &PathError{root, friendlyErr(err)})
 		}
 	}
-	out.Files, out.Errors = files, errs
+	out.Files, out.Roots, out.Errors = files, roots, errs
 	return out
 }
 
@@ -295,6 +302,9 @@ func Run(paths []string, opt Options) Result {
 	}
 	close(next)
 	wg.Wait()
+	for i, f := range res.Files {
+		f.Root = found.Roots[i]
+	}
 	for _, e := range pathErrs {
 		if e != nil {
 			res.Errors = append(res.Errors, e)

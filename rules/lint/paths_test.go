@@ -57,3 +57,31 @@ func TestCollectCountsExcluded(t *testing.T) {
 		t.Errorf("a named file: files %v, excluded %d; want it checked", found.Files, found.Excluded)
 	}
 }
+
+// Each file of a run knows the path on the command line it was found
+// under: the walked folder, or itself where it was named; a file found
+// twice keeps the first.
+func TestRunRecordsRoots(t *testing.T) {
+	dir := t.TempDir()
+	sub := filepath.Join(dir, "parts", "sub")
+	if err := os.MkdirAll(sub, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	deep := filepath.Join(sub, "deep.callouts")
+	top := filepath.Join(dir, "top.callouts")
+	for _, p := range []string{deep, top} {
+		if err := os.WriteFile(p, []byte("units mm\nstandard iso\n"), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	parts := filepath.Join(dir, "parts")
+	res := Run([]string{parts, top, sub}, Options{Workers: 2})
+	got := map[string]string{}
+	for _, f := range res.Files {
+		got[f.Path] = f.Root
+	}
+	want := map[string]string{deep: parts, top: top}
+	if len(got) != len(want) || got[deep] != want[deep] || got[top] != want[top] {
+		t.Errorf("roots %v, want %v", got, want)
+	}
+}
