@@ -130,11 +130,36 @@ type StandardStmt struct {
 // FeatureStmt declares a feature of the model.
 type FeatureStmt struct {
 	node
-	Name     *Name     `parser:"'feature' @@"`
-	Kind     *Word     `parser:"@@"`
-	Count    *Count    `parser:"@@?"`
-	Size     *Size     `parser:"( 'size' @@ )?"`
-	Geometry *Geometry `parser:"@@?"`
+	Name     *Name        `parser:"'feature' @@"`
+	Kind     *Word        `parser:"@@"`
+	Count    *Count       `parser:"@@?"`
+	Size     *Size        `parser:"( 'size' @@ )?"`
+	Thread   *Thread      `parser:"@@?"`
+	Cbore    *Counterbore `parser:"@@?"`
+	Csink    *Countersink `parser:"@@?"`
+	Geometry *Geometry    `parser:"@@?"`
+}
+
+// Thread is a screw thread's designation, as written on the drawing, in
+// double quotes (extension).
+type Thread struct {
+	node
+	Designation string `parser:"'thread' @String"`
+}
+
+// Counterbore is a hole's counterbore: its diameter and depth (extension).
+type Counterbore struct {
+	node
+	Diameter *Size `parser:"'cbore' @@"`
+	Depth    *Size `parser:"'depth' @@"`
+}
+
+// Countersink is a hole's countersink: its diameter at the surface and its
+// included angle (extension).
+type Countersink struct {
+	node
+	Diameter *Size `parser:"'csink' @@"`
+	Angle    *Size `parser:"'angle' @@"`
 }
 
 // DatumStmt attaches a datum feature symbol.
@@ -150,15 +175,49 @@ type Tolerance struct {
 	node
 	Zone      *Word       `parser:"@@?"`
 	Value     *Number     `parser:"@@"`
+	PerUnit   *PerUnit    `parser:"@@?"`
 	Modifiers []*Modifier `parser:"@@*"`
+	Along     *Direction  `parser:"( 'along' @@ )?"`
 	Datums    []*DatumRef `parser:"( 'datums' @@ ( ',' @@ )* )?"`
+	Notes     []*Note     `parser:"@@*"`
+}
+
+// PerUnit is a tolerance per unit length or area, after the value and a
+// slash: 0.01/25, 0.005/25x25 (extension).
+type PerUnit struct {
+	node
+	Area   string  `parser:"'/' ( @Area"`
+	Length *Number `parser:"| @@ )"`
+}
+
+// Note is a word written after a frame's datums that says more about the
+// frame (extension): the extent of a profile (all-around, all-over, or
+// between two points), a separate requirement, or the diameter of a screw
+// thread the tolerance applies to.
+type Note struct {
+	node
+	Word string `parser:"  @('all-around' | 'all-over' | 'separate' | 'major-dia' | 'minor-dia' | 'pitch-dia')"`
+	From *Name  `parser:"| 'between' @@"`
+	To   *Name  `parser:"  @@"`
 }
 
 // DatumRef is one datum reference: a letter or a common datum (A-B),
-// optionally at MMB or LMB.
+// optionally at MMB or LMB; the members of a common datum may carry a
+// modifier each, H(M)-J(M) (extension).
 type DatumRef struct {
 	node
 	Name      string         `parser:"@Ident"`
+	Modifiers []*RefModifier `parser:"@@*"`
+	More      []*RefMember   `parser:"@@*"`
+}
+
+// RefMember is a further member of a common datum written after a
+// modifier: "-J(M)" in H(M)-J(M), the dash included. A letter X, Y or Z
+// after the dash reads as a direction token ("-X"), which the grammar
+// takes as the letter.
+type RefMember struct {
+	node
+	Name      string         `parser:"@(Dash | '-X' | '-Y' | '-Z' | '-x' | '-y' | '-z')"`
 	Modifiers []*RefModifier `parser:"@@*"`
 }
 
@@ -187,6 +246,52 @@ type BoltCircle struct {
 	About   *Name   `parser:"'about' @@"`
 }
 
+// BasisStmt says what is basic: `basis model` (every nominal location
+// and angle of the model is basic) or `basis drawing` (only what is
+// written basic, the default). Extension.
+type BasisStmt struct {
+	node
+	Basis *Word `parser:"'basis' @@"`
+}
+
+// TargetStmt is a datum target: a point, a line or an area on a feature,
+// named by its datum's letter and a number (A1). Extension.
+type TargetStmt struct {
+	node
+	Label  *Name       `parser:"'target' @@"`
+	Shape  *Word       `parser:"@@"`
+	Area   *TargetArea `parser:"@@?"`
+	On     *Name       `parser:"'on' @@"`
+	At     *Vector     `parser:"( 'at' @@"`
+	From   *Vector     `parser:"| 'from' @@"`
+	To     *Vector     `parser:"  'to' @@ )"`
+	Normal *Direction  `parser:"( 'normal' @@ )?"`
+}
+
+// TargetArea is the size of an area target: dia D (circular) or WxH
+// (rectangular).
+type TargetArea struct {
+	node
+	Dia   string  `parser:"( @('dia' | Dia)"`
+	Value *Number `parser:"  @@"`
+	Rect  string  `parser:"| @Area )"`
+}
+
+// RefStmt is a reference dimension (extension): a distance or an angle
+// between two features, or a feature's size, given for information;
+// checked against the model, it locates and tolerances nothing.
+type RefStmt struct {
+	node
+	Size  *Number    `parser:"'ref' ( 'size' @@"`
+	Of    *Name      `parser:"  'of' @@"`
+	Value *Number    `parser:"| @@"`
+	Deg   bool       `parser:"  @'deg'?"`
+	From  *Name      `parser:"  'from' @@"`
+	To    *Name      `parser:"  'to' @@"`
+	Along *Direction `parser:"  ( 'along' @@ )?"`
+	About *Name      `parser:"  ( 'about' @@ )? )"`
+}
+
 // BasicStmt is a basic (theoretically exact) dimension.
 type BasicStmt struct {
 	node
@@ -213,13 +318,21 @@ type DimStmt struct {
 type BadStmt struct {
 	node
 	Word string // the leading word, if any
-	Name string // the declared name or letter, if it could be read
-	Text string
-	Err  *SyntaxError
+	// Meant is the keyword a misspelt leading word stands for ("featur"
+	// for "feature"), where one is near; "" otherwise.
+	Meant string
+	Name  string // the declared name or letter, if it could be read
+	Text  string
+	Err   *SyntaxError
 	// Words are the names written in the statement, so that a datum letter
 	// named only in a broken frame does not also read as unused.
 	Words []string
 }
+
+// Declares reports whether the statement was meant as one of the keyword
+// kw (written so, or misspelt), so that the name it declares still counts
+// as declared.
+func (b *BadStmt) Declares(kw string) bool { return b.Name != "" && (b.Word == kw || b.Meant == kw) }
 
 func (*PartStmt) Keyword() string     { return "part" }
 func (*UnitsStmt) Keyword() string    { return "units" }
@@ -229,6 +342,9 @@ func (*DatumStmt) Keyword() string    { return "datum" }
 func (*FrameStmt) Keyword() string    { return "frame" }
 func (*BasicStmt) Keyword() string    { return "basic" }
 func (*DimStmt) Keyword() string      { return "dim" }
+func (*BasisStmt) Keyword() string    { return "basis" }
+func (*TargetStmt) Keyword() string   { return "target" }
+func (*RefStmt) Keyword() string      { return "ref" }
 func (b *BadStmt) Keyword() string    { return b.Word }
 
 func (*PartStmt) stmt()     {}
@@ -239,6 +355,9 @@ func (*DatumStmt) stmt()    {}
 func (*FrameStmt) stmt()    {}
 func (*BasicStmt) stmt()    {}
 func (*DimStmt) stmt()      {}
+func (*BasisStmt) stmt()    {}
+func (*TargetStmt) stmt()   {}
+func (*RefStmt) stmt()      {}
 func (*BadStmt) stmt()      {}
 
 // Comment is a # comment, kept for the formatter and for suppressions.
@@ -256,6 +375,9 @@ type File struct {
 	Stmts    []Stmt
 	Comments []*Comment
 	Errors   []*SyntaxError
+	// Binary is true for a file that holds binary data (a NUL byte near
+	// its start); it has one error and no statements.
+	Binary bool
 	// Lines maps each statement to the physical lines it spans.
 	Extents []Extent
 }

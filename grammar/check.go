@@ -24,14 +24,26 @@ func checkStmt(st Stmt) []*SyntaxError {
 				add(s.Size.Envelope.Span(), "only (E), the envelope requirement, may follow a size; found (%s)", l)
 			}
 		}
+		if c := s.Cbore; c != nil {
+			noModifier(c.Diameter, "a counterbore's diameter", add)
+			noModifier(c.Depth, "a counterbore's depth", add)
+		}
+		if c := s.Csink; c != nil {
+			noModifier(c.Diameter, "a countersink's diameter", add)
+			noModifier(c.Angle, "a countersink's angle", add)
+		}
 	case *FrameStmt:
 		checkTolerance(s.Tolerance, add)
 		for _, c := range s.Composites {
 			checkTolerance(c.Tolerance, add)
 		}
 	case *DimStmt:
-		if s.Size.Envelope != nil {
-			add(s.Size.Envelope.Span(), "(E) belongs to a feature's size, not to a location dimension")
+		if m := s.Size.Envelope; m != nil {
+			if l := ModifierLetter(m.Symbol); l == "E" {
+				add(m.Span(), "(E) belongs to a feature's size, not to a location dimension: remove it here (write it after the size on the feature's line)")
+			} else {
+				add(m.Span(), "(%s) does not belong to a dimension: remove it here; a dim is a value and its tolerance between two features, and modifiers go in a frame (after its tolerance, or on a datum reference)", l)
+			}
 		}
 	}
 	return errs
@@ -137,10 +149,62 @@ func checkTolerance(t *Tolerance, add func(source.Span, string, ...any)) {
 		}
 	}
 	for _, d := range t.Datums {
-		for _, m := range d.Modifiers {
+		prev := d.Modifiers
+		for _, m := range d.More {
+			if len(prev) == 0 {
+				// A-B is one word; a separate dash would print back as one
+				// and take the next letter's modifier for the whole.
+				add(m.Span(), "write a common datum as one word, e.g. A-B; a dash starts a further letter only after a modifier, as in A(M)-B(M)")
+			}
+			prev = m.Modifiers
+		}
+		mods := d.Modifiers
+		for _, m := range d.More {
+			mods = append(mods[:len(mods):len(mods)], m.Modifiers...)
+		}
+		for _, m := range mods {
 			if l := ModifierLetter(m.Symbol); l != "M" && l != "L" {
 				add(m.Span(), "a datum reference takes only (M), at maximum material boundary, or (L), at least material boundary; found (%s)", l)
 			}
 		}
+	}
+	checkNotes(t.Notes, add)
+}
+
+// noteGroups are the notes of which a frame takes one: one extent, one
+// thread diameter.
+var noteGroups = map[string]string{
+	"all-around": "extent", "all-over": "extent", "between": "extent",
+	"major-dia": "thread", "minor-dia": "thread", "pitch-dia": "thread",
+	"separate": "separate",
+}
+
+// checkNotes reports a note written twice, and two notes of one group (a
+// profile has one extent; a tolerance applies to one diameter of a
+// thread).
+func checkNotes(notes []*Note, add func(source.Span, string, ...any)) {
+	seen := map[string]string{}
+	for _, n := range notes {
+		w := n.Word
+		if n.From != nil {
+			w = "between"
+		}
+		g := noteGroups[w]
+		switch prev, ok := seen[g]; {
+		case ok && prev == w:
+			add(n.Span(), "'%s' is written twice; write it once", w)
+		case ok && g == "extent":
+			add(n.Span(), "a profile has one extent: '%s' and '%s' cannot both apply; keep one", prev, w)
+		case ok:
+			add(n.Span(), "a tolerance applies to one diameter of a thread: '%s' and '%s' cannot both apply; keep one", prev, w)
+		}
+		seen[g] = w
+	}
+}
+
+// noModifier reports a modifier after a value that takes none.
+func noModifier(s *Size, what string, add func(source.Span, string, ...any)) {
+	if s != nil && s.Envelope != nil {
+		add(s.Envelope.Span(), "%s takes no modifier; (%s) belongs to the hole's size", what, ModifierLetter(s.Envelope.Symbol))
 	}
 }

@@ -51,6 +51,12 @@ func fastParse(name string, rs rawStmt) Stmt {
 		st = stmtOrNil(p.basic())
 	case "dim":
 		st = stmtOrNil(p.dim())
+	case "basis":
+		st = stmtOrNil(p.basis())
+	case "target":
+		st = stmtOrNil(p.target())
+	case "ref":
+		st = stmtOrNil(p.ref())
 	}
 	// participle requires the whole statement to be used up.
 	if p.failed || st == nil || p.tok.Type != lexer.EOF {
@@ -126,6 +132,9 @@ func scanNext(s string, i int) (lexer.TokenType, int) {
 		}
 		return tokIdent, scanIdent(s, i)
 	case isDigit(c):
+		if e := scanArea(s, i); e > i {
+			return tokArea, e
+		}
 		return tokNumber, scanNumber(s, i)
 	case c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' || c == '\v':
 		return tokWhitespace, scanWhitespace(s, i)
@@ -351,6 +360,22 @@ func (p *fastParser) part() *PartStmt {
 	return s
 }
 
+// headerWord: KEYWORD @@, a header statement of one word (units,
+// standard, basis); n is the statement's node.
+func (p *fastParser) headerWord(keyword string, n *node, w *Word) *Word {
+	*n = p.open()
+	if !p.isWord(keyword) {
+		p.fail()
+		return nil
+	}
+	p.take()
+	if p.word(w) == nil {
+		return nil
+	}
+	p.close(n)
+	return w
+}
+
 type unitsNodes struct {
 	s UnitsStmt
 	w Word
@@ -359,16 +384,10 @@ type unitsNodes struct {
 // units: 'units' @@
 func (p *fastParser) units() *UnitsStmt {
 	b := &unitsNodes{}
-	s := &b.s
-	s.node = p.open()
-	if !p.expect("units") {
+	if b.s.Unit = p.headerWord("units", &b.s.node, &b.w); b.s.Unit == nil {
 		return nil
 	}
-	if s.Unit = p.word(&b.w); s.Unit == nil {
-		return nil
-	}
-	p.close(&s.node)
-	return s
+	return &b.s
 }
 
 type standardNodes struct {
@@ -379,16 +398,10 @@ type standardNodes struct {
 // standard: 'standard' @@
 func (p *fastParser) standard() *StandardStmt {
 	b := &standardNodes{}
-	s := &b.s
-	s.node = p.open()
-	if !p.expect("standard") {
+	if b.s.Standard = p.headerWord("standard", &b.s.node, &b.w); b.s.Standard == nil {
 		return nil
 	}
-	if s.Standard = p.word(&b.w); s.Standard == nil {
-		return nil
-	}
-	p.close(&s.node)
-	return s
+	return &b.s
 }
 
 type featureNodes struct {
@@ -435,6 +448,41 @@ func (p *fastParser) feature() *FeatureStmt {
 		if s.Size = p.size(&b.size); s.Size == nil {
 			return nil
 		}
+	}
+	if p.isWord("thread") {
+		t := &Thread{node: p.open()}
+		p.take()
+		if !p.is(tokString) {
+			p.fail()
+			return nil
+		}
+		t.Designation = p.take()
+		p.close(&t.node)
+		s.Thread = t
+	}
+	if p.isWord("cbore") {
+		c := &Counterbore{node: p.open()}
+		p.take()
+		if c.Diameter = p.size(&sizeNodes{}); c.Diameter == nil || !p.expect("depth") {
+			return nil
+		}
+		if c.Depth = p.size(&sizeNodes{}); c.Depth == nil {
+			return nil
+		}
+		p.close(&c.node)
+		s.Cbore = c
+	}
+	if p.isWord("csink") {
+		c := &Countersink{node: p.open()}
+		p.take()
+		if c.Diameter = p.size(&sizeNodes{}); c.Diameter == nil || !p.expect("angle") {
+			return nil
+		}
+		if c.Angle = p.size(&sizeNodes{}); c.Angle == nil {
+			return nil
+		}
+		p.close(&c.node)
+		s.Csink = c
 	}
 	if p.isGeomWord() {
 		if s.Geometry = p.geometry(b); s.Geometry == nil {
@@ -593,6 +641,21 @@ func (p *fastParser) tolerance(b *toleranceNodes) *Tolerance {
 	if t.Value = p.number(&b.value); t.Value == nil {
 		return nil
 	}
+	if p.isWord("/") {
+		u := &PerUnit{node: p.open()}
+		p.take()
+		switch {
+		case p.is(tokArea):
+			u.Area = p.take()
+		case p.is(tokNumber):
+			u.Length = p.number(&Number{})
+		default:
+			p.fail()
+			return nil
+		}
+		p.close(&u.node)
+		t.PerUnit = u
+	}
 	for p.is(tokModifier) {
 		if len(t.Modifiers) == maxRepeat-1 {
 			p.fail()
@@ -607,6 +670,12 @@ func (p *fastParser) tolerance(b *toleranceNodes) *Tolerance {
 		}
 		p.close(&m.node)
 		t.Modifiers = append(t.Modifiers, m)
+	}
+	if p.isWord("along") {
+		p.take()
+		if t.Along = p.direction(&Direction{}); t.Along == nil {
+			return nil
+		}
 	}
 	if p.isWord("datums") {
 		p.take()
@@ -633,8 +702,40 @@ func (p *fastParser) tolerance(b *toleranceNodes) *Tolerance {
 			p.take()
 		}
 	}
+	for p.isNote() {
+		if len(t.Notes) == maxRepeat-1 {
+			p.fail()
+			return nil
+		}
+		n := &Note{node: p.open()}
+		if p.isWord("between") {
+			p.take()
+			if n.From = p.name(&Name{}); n.From == nil {
+				return nil
+			}
+			if n.To = p.name(&Name{}); n.To == nil {
+				return nil
+			}
+		} else {
+			n.Word = p.take()
+		}
+		p.close(&n.node)
+		t.Notes = append(t.Notes, n)
+	}
 	p.close(&t.node)
 	return t
+}
+
+// isNote reports whether the next token starts a Note.
+func (p *fastParser) isNote() bool {
+	if p.is(lexer.EOF) {
+		return false
+	}
+	switch p.tok.Value {
+	case "all-around", "all-over", "separate", "major-dia", "minor-dia", "pitch-dia", "between":
+		return true
+	}
+	return false
 }
 
 type modifierNodes struct {
@@ -657,16 +758,77 @@ func (p *fastParser) datumRef(r *DatumRef) *DatumRef {
 		}
 		r.Modifiers = append(r.Modifiers, p.refModifier(&RefModifier{}))
 	}
+	for p.is(tokDash) || p.is(tokDir) && p.tok.Value[0] == '-' {
+		if len(r.More) == maxRepeat-1 {
+			p.fail()
+			return nil
+		}
+		m := &RefMember{node: p.open()}
+		m.Name = p.take()
+		for p.is(tokModifier) {
+			if len(m.Modifiers) == maxRepeat-1 {
+				p.fail()
+				return nil
+			}
+			m.Modifiers = append(m.Modifiers, p.refModifier(&RefModifier{}))
+		}
+		p.close(&m.node)
+		r.More = append(r.More, m)
+	}
 	p.close(&r.node)
 	return r
 }
 
 type basicNodes struct {
-	s        BasicStmt
-	value    Number
+	s     BasicStmt
+	value Number
+	m     measureNodes
+}
+
+// measured points at the fields of a basic or reference distance or
+// angle that follow its value.
+type measured struct {
+	deg      *bool
+	from, to **Name
+	along    **Direction
+	about    **Name
+}
+
+type measureNodes struct {
 	from, to Name
 	along    Direction
 	about    Name
+}
+
+// measure: 'deg'? 'from' Name 'to' Name ('along' Direction)? ('about'
+// Name)?, what follows the value of a basic or a reference dimension.
+func (p *fastParser) measure(m measured, b *measureNodes) bool {
+	if p.isWord("deg") {
+		p.take()
+		*m.deg = true
+	}
+	if !p.expect("from") {
+		return false
+	}
+	if *m.from = p.name(&b.from); *m.from == nil || !p.expect("to") {
+		return false
+	}
+	if *m.to = p.name(&b.to); *m.to == nil {
+		return false
+	}
+	if p.isWord("along") {
+		p.take()
+		if *m.along = p.direction(&b.along); *m.along == nil {
+			return false
+		}
+	}
+	if p.isWord("about") {
+		p.take()
+		if *m.about = p.name(&b.about); *m.about == nil {
+			return false
+		}
+	}
+	return true
 }
 
 type circleNodes struct {
@@ -707,30 +869,8 @@ func (p *fastParser) basic() *BasicStmt {
 	if s.Value = p.number(&b.value); s.Value == nil {
 		return nil
 	}
-	if p.isWord("deg") {
-		p.take()
-		s.Deg = true
-	}
-	if !p.expect("from") {
+	if !p.measure(measured{&s.Deg, &s.From, &s.To, &s.Along, &s.About}, &b.m) {
 		return nil
-	}
-	if s.From = p.name(&b.from); s.From == nil || !p.expect("to") {
-		return nil
-	}
-	if s.To = p.name(&b.to); s.To == nil {
-		return nil
-	}
-	if p.isWord("along") {
-		p.take()
-		if s.Along = p.direction(&b.along); s.Along == nil {
-			return nil
-		}
-	}
-	if p.isWord("about") {
-		p.take()
-		if s.About = p.name(&b.about); s.About == nil {
-			return nil
-		}
 	}
 	p.close(&s.node)
 	return s
@@ -765,6 +905,128 @@ func (p *fastParser) dim() *DimStmt {
 		if s.Along = p.direction(&b.along); s.Along == nil {
 			return nil
 		}
+	}
+	p.close(&s.node)
+	return s
+}
+
+type basisNodes struct {
+	s BasisStmt
+	w Word
+}
+
+// basis: 'basis' @@
+func (p *fastParser) basis() *BasisStmt {
+	b := &basisNodes{}
+	if b.s.Basis = p.headerWord("basis", &b.s.node, &b.w); b.s.Basis == nil {
+		return nil
+	}
+	return &b.s
+}
+
+type targetNodes struct {
+	s         TargetStmt
+	label, on Name
+	shape     Word
+	normal    Direction
+}
+
+// target: 'target' Name Word TargetArea? 'on' Name ( 'at' Vector |
+// 'from' Vector 'to' Vector ) ( 'normal' Direction )?
+func (p *fastParser) target() *TargetStmt {
+	b := &targetNodes{}
+	s := &b.s
+	s.node = p.open()
+	if !p.expect("target") {
+		return nil
+	}
+	if s.Label = p.name(&b.label); s.Label == nil {
+		return nil
+	}
+	if s.Shape = p.word(&b.shape); s.Shape == nil {
+		return nil
+	}
+	switch {
+	case p.isWord("dia") || p.is(tokDia):
+		a := &TargetArea{node: p.open()}
+		a.Dia = p.take()
+		if a.Value = p.number(&Number{}); a.Value == nil {
+			return nil
+		}
+		p.close(&a.node)
+		s.Area = a
+	case p.is(tokArea):
+		a := &TargetArea{node: p.open()}
+		a.Rect = p.take()
+		p.close(&a.node)
+		s.Area = a
+	}
+	if !p.expect("on") {
+		return nil
+	}
+	if s.On = p.name(&b.on); s.On == nil {
+		return nil
+	}
+	switch {
+	case p.isWord("at"):
+		p.take()
+		if s.At = p.vector(); s.At == nil {
+			return nil
+		}
+	case p.isWord("from"):
+		p.take()
+		if s.From = p.vector(); s.From == nil || !p.expect("to") {
+			return nil
+		}
+		if s.To = p.vector(); s.To == nil {
+			return nil
+		}
+	default:
+		p.fail()
+		return nil
+	}
+	if p.isWord("normal") {
+		p.take()
+		if s.Normal = p.direction(&b.normal); s.Normal == nil {
+			return nil
+		}
+	}
+	p.close(&s.node)
+	return s
+}
+
+type refNodes struct {
+	s     RefStmt
+	value Number
+	of    Name
+	m     measureNodes
+}
+
+// ref: 'ref' ( 'size' Number 'of' Name | Number 'deg'? 'from' Name 'to'
+// Name ('along' Direction)? ('about' Name)? )
+func (p *fastParser) ref() *RefStmt {
+	b := &refNodes{}
+	s := &b.s
+	s.node = p.open()
+	if !p.expect("ref") {
+		return nil
+	}
+	if p.isWord("size") {
+		p.take()
+		if s.Size = p.number(&b.value); s.Size == nil || !p.expect("of") {
+			return nil
+		}
+		if s.Of = p.name(&b.of); s.Of == nil {
+			return nil
+		}
+		p.close(&s.node)
+		return s
+	}
+	if s.Value = p.number(&b.value); s.Value == nil {
+		return nil
+	}
+	if !p.measure(measured{&s.Deg, &s.From, &s.To, &s.Along, &s.About}, &b.m) {
+		return nil
 	}
 	p.close(&s.node)
 	return s

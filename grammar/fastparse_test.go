@@ -41,6 +41,12 @@ func participleStmt(keyword string, all []lexer.Token, eof lexer.Token) (Stmt, e
 		return run(basicParser(), p)
 	case "dim":
 		return run(dimParser(), p)
+	case "basis":
+		return run(basisParser(), p)
+	case "target":
+		return run(targetParser(), p)
+	case "ref":
+		return run(refParser(), p)
 	}
 	return nil, fmt.Errorf("no statement starts with %q", keyword)
 }
@@ -218,6 +224,22 @@ var fastCases = []string{
 	"basic 1 from a to b along", "basic x", "basic", "basic ⌀ 1 through b.1 about c.2",
 	"dim 1 from a to b", "dim 1 +1 -1 (E) from a to b along -Z", "dim 1 / 2 from a to b", "dim 1..2 (M) from a to b",
 	"dim 1 +-1 from a to b along (1,1,0) extra", "dim from a to b", "dim 1e3 +-1e-3 from a.1 to b.2",
+	"basis", "basis model drawing", "basis ⌀", "basis (1, 2, 3)",
+	"target A1 point on b at (0,0,0) normal", "target A1 area dia on b at (0,0,0)", "target A1 area dia dia 1 on b at (0,0,0)",
+	"target A1 area 1x2 3 on b at (0,0,0)", "target A1 point on b from (0,0,0)", "target A1 point on b at (0,0,0) to (1,1,1)",
+	"target A1 on b at (0,0,0)", "target A.1 point on b at (0,0,0)", "target A1 point on b.2 from (0,0,0) to (1,1,1) normal (1, 0, 0)",
+	"target A1 ⌀ 1 on b at (0,0,0)", "target A1 area Ø 1 on b at (0,0,0)", "target A1 area 1x2x3 on b at (0,0,0)",
+	"frame a: flatness 1/2x3 (M)", "frame a: flatness 1/2/3", "frame a: flatness 1/", "frame a: flatness 1 /2x", "frame a: flatness 1/-2",
+	"frame a: position 1 along", "frame a: position 1 along +x along +y", "frame a: position 1 (M) along +x (L)",
+	"frame a: position 1 datums A all-around separate between p q", "frame a: position 1 between p", "frame a: position 1 between p.1 q.2 x",
+	"frame a: position 1 datums A(M)-B(M)-C(L), D", "frame a: position 1 datums A(M)-B-C", "frame a: position 1 datums A(M)-x(M)",
+	"frame a: position 1 datums A(M)-Xy", "frame a: position 1 datums A(M)--B", "frame a: position 1 datums A-B(M)-", "frame a: position 1 datums A(M)+x",
+	"frame a: position 1 separate\n composite 0.5 separate", "frame a: position 1 datums A separate composite 0.5",
+	"feature a hole thread \"\" axis +z at (0,0,0)", "feature a hole thread \"x\" thread \"y\"", "feature a hole size 1 cbore 2 depth",
+	"feature a hole cbore 2 depth 3 cbore 2 depth 3", "feature a hole csink 2 angle 90deg cbore 2 depth 3", "feature a hole 2x cbore 2 depth 3deg at (0,0,0)",
+	"feature a point at (1,2,3) normal +x", "feature a line along +x at (0,0,0)", "feature a circle size 2 axis +z at (0,0,0)",
+	"ref size 1 of a along +x", "ref size of a", "ref 1 of a", "ref size 1deg of a", "ref 1deg from a to b about c along +x", "ref 1 from a to b along",
+	"frame a: flatness 25x25", "basic 25x25 from a to b", "feature a hole 4x4 size 1",
 }
 
 // TestFastParserMatchesParticiple compares the two parsers on every
@@ -259,6 +281,11 @@ func TestFastParserMatchesParticiple(t *testing.T) {
 	for _, src := range testFuncStrings(t, "parser_test.go", "TestParsesContractForms") {
 		if h, n := sameTrees(t, "contract form", []byte(src), true); h != n || n == 0 {
 			t.Errorf("contract form %q: %d of %d statements on the fast path", src, h, n)
+		}
+	}
+	for _, src := range testFuncStrings(t, "parser_test.go", "TestParsesExtensionForms") {
+		if h, n := sameTrees(t, "extension form", []byte(src), true); h != n || n == 0 {
+			t.Errorf("extension form %q: %d of %d statements on the fast path", src, h, n)
 		}
 	}
 	for _, src := range testFuncStrings(t, "parser_test.go", "TestSyntaxErrors") {

@@ -6,14 +6,21 @@ import (
 
 // The notation's tokens. Order matters: the simple lexer tries the rules in
 // turn and takes the first that matches, so the more specific forms come
-// first ("+-" before a signed number, "+x" before a number, "bolts.2"
-// before a plain name, ".." before ".5").
+// first ("+-" before a signed number, "+x" before a number, "25x25"
+// before a number, "bolts.2" before a plain name, ".." before ".5").
 var lexerDef = lexer.MustSimple([]lexer.SimpleRule{
 	{Name: "String", Pattern: `"(?:\\.|[^"\\])*"`},
 	// (M), (L), (E), (F), (T), (P), (U), (S) and their circled forms.
 	{Name: "Modifier", Pattern: `\(\s*[A-Za-z]\s*\)|[ⓂⓁⒺⒻⓉⓅⓊⓈ]`},
 	{Name: "PlusMinus", Pattern: `\+-|±|\+/-`},
 	{Name: "Dir", Pattern: `[+-][xyzXYZ]\b`},
+	// A further member of a common datum after a modifier: the -J of
+	// H(M)-J(M). After Dir, so that -x stays a direction.
+	{Name: "Dash", Pattern: `-[A-Za-z_][A-Za-z0-9_-]*`},
+	// Two lengths joined by x, an area: 25x25 (a tolerance per unit area,
+	// a rectangular datum target). Before Number, which would take the
+	// first length alone.
+	{Name: "Area", Pattern: `(?:\d+\.\d+|\.\d+|\d+)[xX](?:\d+\.\d+|\.\d+|\d+)`},
 	{Name: "Number", Pattern: `[+-]?(?:\d+\.\d+|\.\d+|\d+)(?:[eE][+-]?\d+)?`},
 	{Name: "Member", Pattern: `[A-Za-z_][A-Za-z0-9_-]*\.\d+`},
 	{Name: "SDia", Pattern: `S[⌀Øø]`},

@@ -40,6 +40,9 @@ var (
 	frameParser    = build[FrameStmt]()
 	basicParser    = build[BasicStmt]()
 	dimParser      = build[DimStmt]()
+	basisParser    = build[BasisStmt]()
+	targetParser   = build[TargetStmt]()
+	refParser      = build[RefStmt]()
 )
 
 // MaxStmtBytes is the longest statement that the error path (participle)
@@ -47,7 +50,7 @@ var (
 const MaxStmtBytes = 256 << 10
 
 // Keywords lists the words a statement may start with.
-var Keywords = []string{"part", "units", "standard", "feature", "datum", "frame", "basic", "dim"}
+var Keywords = []string{"part", "units", "standard", "basis", "feature", "target", "datum", "frame", "basic", "dim", "ref"}
 
 // Parse reads a whole .callouts file. It never fails: every statement that
 // does not parse becomes a BadStmt with a SyntaxError, and the rest of the
@@ -56,6 +59,7 @@ func Parse(name string, src []byte) *File {
 	f := &File{Name: name, Src: src}
 	body := bytes.TrimPrefix(src, []byte("\xef\xbb\xbf")) // a byte-order mark is not content
 	if looksBinary(body) {
+		f.Binary = true
 		f.Errors = append(f.Errors, &SyntaxError{
 			Span: source.Span{Start: source.Pos{Line: 1, Col: 1}, End: source.Pos{Line: 1, Col: 2}},
 			Msg:  "this file holds binary data (a NUL byte), not callout text; check that the right file was named",
@@ -209,15 +213,24 @@ func parseStmt(name string, rs rawStmt) Stmt {
 		st, err = run(basicParser(), pl())
 	case "dim":
 		st, err = run(dimParser(), pl())
+	case "basis":
+		st, err = run(basisParser(), pl())
+	case "target":
+		st, err = run(targetParser(), pl())
+	case "ref":
+		st, err = run(refParser(), pl())
 	case "composite":
 		return bad(rs, sig, &SyntaxError{Span: first.span,
 			Msg: "a 'composite' line is the lower segment of a frame: put it directly under the 'frame' line it belongs to"})
 	default:
 		msg := fmt.Sprintf("unknown statement %s: a statement starts with %s", describe(first.Token), strings.Join(Keywords, ", "))
-		if s := spell.Nearest(first.Value, Keywords); s != "" {
-			msg = fmt.Sprintf("unknown statement %s; did you mean '%s'?", describe(first.Token), s)
+		meant := spell.Nearest(first.Value, Keywords)
+		if meant != "" {
+			msg = fmt.Sprintf("unknown statement %s; did you mean '%s'?", describe(first.Token), meant)
 		}
-		return bad(rs, sig, &SyntaxError{Span: first.span, Msg: msg})
+		b := bad(rs, sig, &SyntaxError{Span: first.span, Msg: msg})
+		b.Meant = meant
+		return b
 	}
 	if err != nil {
 		return bad(rs, sig, friendly(err, sig, eof))

@@ -75,6 +75,68 @@ func TestParsesContractForms(t *testing.T) {
 	}
 }
 
+// TestParsesExtensionForms: every written form the notation adds to the
+// contract (docs/notation.md, marked extension) parses without error.
+func TestParsesExtensionForms(t *testing.T) {
+	for _, src := range []string{
+		"basis model",
+		"basis drawing",
+		"feature tip point at (1, 2, 3)",
+		"feature marks point 2x at (1, 2, 3) (4, 5, 6)",
+		"feature e1 line along +z at (400, -175, 0)",
+		"feature rim circle size 25 axis +y at (76.2, 66.04, -158.75)",
+		"feature rim circle axis (0, 1, 0) at (0, 0, 0)",
+		`feature tap hole thread "M8x1.25-6H" axis -z at (10, 10, 0)`,
+		`feature taps hole 4x size 6.8 +0.1 -0 thread "1/4-20 UNC-2B" axis -z at (1, 1, 0) (2, 1, 0) (1, 2, 0) (2, 2, 0)`,
+		`feature stud pin thread "M6" axis +z at (0, 0, 0)`,
+		"feature cb hole size 6.6 +-0.1 cbore 11 +0.2 -0 depth 6.5 +-0.2 axis -z at (20, 20, 10)",
+		"feature cs hole size 6.6 +-0.1 csink 12.5 +-0.2 angle 90deg +-1 axis -z at (20, 20, 10)",
+		"feature cc hole size 6.6 +-0.1 cbore 11 depth 6.5 csink 13 angle 82 deg axis -z at (20, 20, 10)",
+		"target A1 point on base at (10, 10, 0)",
+		"target A2 area dia 6 on base at (90, 10, 0)",
+		"target A3 area ⌀6 on base at (50, 70, 0)",
+		"target B1 line on rear from (0, 0, 5) to (80, 0, 5)",
+		"target C1 area 10x20 on left at (0, 20, 5) normal -x",
+		"target C2 area 10X20.5 on left at (0, 20, 5)",
+		"target G1 point on taper at (1, 2, 3) normal (0.9, 0.1, 0)",
+		"target AB12 point on skin at (1, 2, 3) normal +Z",
+		"frame base: flatness 0.005/25x25",
+		"frame base: flatness 0.005 / 25x25",
+		"frame edge: straightness 0.01/25",
+		"frame top: parallelism 0.02/100 datums A",
+		"frame bore: position 0.1 along +x datums A, B, C",
+		"frame bore: position 0.1 (M) along (1, 0, 0) datums A, B, C",
+		"frame boss: surface-profile 0.5 datums A, B all-around",
+		"frame skin: surface-profile 0.4 all-over",
+		"frame edge: line-profile 0.1 datums A between P Q",
+		"frame bolts: position dia 0.4 (M) datums A, B(M) separate",
+		"frame bolts: position dia 0.4 (M) datums A, B(M)\n    composite dia 0.1 (M) datums A separate",
+		"frame tap: position dia 0.2 (M) datums A, B, C major-dia",
+		"frame tap: position dia 0.2 (M) datums A, B, C minor-dia separate",
+		"frame tap: position dia 0.2 (M) datums A, B, C pitch-dia",
+		"frame bore: position dia 0.1 (M) datums A, H(M)-J(M)",
+		"frame bore: position dia 0.1 (M) datums A, H (M)-J (M)",
+		"frame bore: position dia 0.1 (M) datums A, H(M)-X(M), C",
+		"frame bore: position dia 0.1 (M) datums A, H(L)-J-K(M)",
+		"frame bore: position dia 0.1 (M) datums A, H(M) -J",
+		"frame p: surface-profile 0.4 datums A, B, C all-around\n    composite 0.1 datums A",
+		"ref 60 from left to bore",
+		"ref 30deg from base to ramp",
+		"ref 1.106 from e1 to e2 along +x",
+		"ref 45deg from bolts.1 to flat about hub",
+		"ref size 25 of rim",
+		"basic 20 from left to A1",
+	} {
+		f := Parse("t.callouts", []byte(src+"\n"))
+		if len(f.Errors) > 0 {
+			t.Errorf("%q: %v", src, f.Errors[0])
+		}
+		if len(f.Stmts) != 1 {
+			t.Errorf("%q: %d statements, want 1", src, len(f.Stmts))
+		}
+	}
+}
+
 // TestSyntaxErrors: each bad statement gives one positioned message that
 // says what was expected, and the statements around it still parse.
 func TestSyntaxErrors(t *testing.T) {
@@ -106,6 +168,35 @@ func TestSyntaxErrors(t *testing.T) {
 		{"basic 30° from a to b", "1:9", "30deg"},
 		{"frame a: flatness 0.1 datums A - B", "1:32", "without spaces"},
 		{"feature x hole size 10 +-0.1 at (0,0,0)", "", ""},
+		{"basis", "1:6", "expected model or drawing after 'basis'"},
+		{"target A1 point base at (0, 0, 0)", "1:17", "expected 'on'"},
+		{"target A1 point on base (0, 0, 0)", "1:25", "expected 'at' and the target's point"},
+		{"target A1 point on base at (0, 0, 0) along +x", "1:38", "expected 'normal'"},
+		{"target A1 line on base from (0, 0, 0) (1, 0, 0)", "1:39", "expected 'to'"},
+		{"target", "1:7", "expected the target's name"},
+		{"frame a: flatness 0.005/ datums A", "1:26", "expected the unit length or area after '/'"},
+		{"frame a: position 0.1 along datums A", "1:29", "expected a direction"},
+		{"frame a: surface-profile 0.1 datums A all-round", "1:39", "unknown note 'all-round'; did you mean 'all-around'?"},
+		{"frame a: surface-profile 0.1 datums A xyzzy", "1:39", "unknown note 'xyzzy' after the datum references"},
+		{"frame a: surface-profile 0.1 xyzzy", "1:30", "a note (all-around"},
+		{"frame a: surface-profile 0.1 datums A between P", "1:48", "two points the profile runs between"},
+		{"frame a: surface-profile 0.1 datums A all-around all-over", "1:50", "one extent"},
+		{"frame a: surface-profile 0.1 all-around all-around", "1:41", "written twice"},
+		{"frame a: position 0.1 datums A major-dia minor-dia", "1:42", "one diameter of a thread"},
+		{"frame a: position 0.1 datums -B", "1:30", "unexpected '-B'"},
+		{"frame a: position 0.1 datums A, B -C", "1:35", "write a common datum as one word"},
+		{"frame a: position 0.1 datums A, B(M)- C", "1:37", "without spaces"},
+		{"frame a: position 0.1 datums A, B(F)-C(M)", "1:34", "only (M)"},
+		{"frame a: position 0.1 datums A, B(M)-C(E)", "1:39", "only (M)"},
+		{"feature a plane normal -w at (0,0,0)", "1:24", "unknown direction '-w'"},
+		{"feature a hole size 6 cbore 11 axis +z at (0, 0, 0)", "1:32", "the counterbore's depth"},
+		{"feature a hole size 6 cbore depth 3 axis +z at (0, 0, 0)", "1:29", "expected the counterbore's diameter"},
+		{"feature a hole size 6 csink 11 axis +z at (0, 0, 0)", "1:32", "the countersink's included angle"},
+		{"feature a hole size 6 csink 11 (E) angle 90deg axis +z at (0, 0, 0)", "1:32", "takes no modifier"},
+		{"feature a hole thread M8 axis +z at (0, 0, 0)", "1:23", "in double quotes"},
+		{"ref 40 rear to bore", "1:8", "expected 'from'"},
+		{"ref size 25 rim", "1:13", "expected 'of'"},
+		{"ref", "1:4", "expected a reference value"},
 	} {
 		f := Parse("t.callouts", []byte(c.src))
 		if c.want == "" {

@@ -22,13 +22,22 @@ import (
 // comment applies to the statement whose lines it is on, an own-line one to
 // the statement directly below it with only comment lines between).
 //
-// A block is a run of statements of the same kind with no blank line
-// between them (own-line comments do not end a block). Aligned columns:
-// the name of a feature, the letter of a datum (and its target when a
-// placement follows), the value of a basic dimension and of a dim. Frame
-// targets are not padded, so that the contract's example is its own
-// canonical form. A trailing comment follows its code after one space: no
-// column alignment, so that editing one line never rewrites its neighbours.
+// A block is a run of statements of the same form with no blank line
+// between them (own-line comments do not end a block). The form is the
+// keyword, and for basic dimensions also which of the two written forms
+// it is: a bolt circle (basic dia 80 through ... about ...) is not aligned
+// with the lengths and angles around it, whose values are shorter, so one
+// odd line does not pad all the others, and a bolt-circle line between two
+// runs of lengths ends the first. Aligned columns: the name of a feature,
+// the letter of a datum (and its target when a placement follows), the
+// value of a basic dimension and of a dim. Frame targets are not padded,
+// so that the contract's example is its own canonical form. A trailing
+// comment follows its code after one space: no column alignment, so that
+// editing one line never rewrites its neighbours.
+//
+// Line ends are the file's: a file whose first line ends in CR LF is
+// printed with CR LF throughout, any other with LF; a byte-order mark is
+// kept. Formatting does not change how a file is saved, only its layout.
 
 // indent is the indentation of a composite lower segment.
 const indent = "    "
@@ -52,7 +61,22 @@ func Format(f *File) ([]byte, error) {
 		}
 	}
 	p := newPrinter(f)
-	return p.print(), nil
+	out := p.print()
+	if bytes.HasPrefix(f.Src, bom) {
+		out = append(append([]byte{}, bom...), out...)
+	}
+	if firstLineCRLF(f.Src) {
+		out = bytes.ReplaceAll(out, []byte("\n"), []byte("\r\n"))
+	}
+	return out, nil
+}
+
+var bom = []byte("\xef\xbb\xbf")
+
+// firstLineCRLF reports whether the first line of src ends in CR LF.
+func firstLineCRLF(src []byte) bool {
+	i := bytes.IndexByte(src, '\n')
+	return i > 0 && src[i-1] == '\r'
 }
 
 // outLine is one line of output.
@@ -80,7 +104,7 @@ type printer struct {
 
 func newPrinter(f *File) *printer {
 	p := &printer{f: f, own: map[int]string{}, trailing: map[int][]string{}}
-	p.lines = splitLines(bytes.TrimPrefix(f.Src, []byte("\xef\xbb\xbf")))
+	p.lines = splitLines(bytes.TrimPrefix(f.Src, bom))
 	for _, c := range f.Comments {
 		text := strings.TrimRight(c.Text, " \t\r\f\v")
 		if c.Trailing {
@@ -208,13 +232,13 @@ func (p *printer) statement(i int, st Stmt, e Extent) {
 
 // align pads the aligned columns of each block and renders the first lines.
 func (p *printer) align() {
-	kind := func(i int) string { return p.f.Stmts[i].Keyword() }
+	kind := func(i int) string { return form(p.f.Stmts[i]) }
 	for a := 0; a < len(p.out); {
 		if p.out[a].stmt < 0 {
 			a++
 			continue
 		}
-		// the block: statements of a's kind until a blank line or another kind
+		// the block: statements of a's form until a blank line or another form
 		block := []int{a}
 		b := a + 1
 		for ; b < len(p.out); b++ {
@@ -254,6 +278,19 @@ func (p *printer) align() {
 	}
 }
 
+// form is what makes statements alike for alignment: the keyword, and
+// for a basic dimension whether it is a bolt circle, for a reference one
+// whether it is a size.
+func form(st Stmt) string {
+	if b, ok := st.(*BasicStmt); ok && b.Circle != nil {
+		return "basic circle"
+	}
+	if r, ok := st.(*RefStmt); ok && r.Size != nil {
+		return "ref size"
+	}
+	return st.Keyword()
+}
+
 // --- statements -------------------------------------------------------------
 
 // render returns a statement's first line as cells and the text of its
@@ -281,6 +318,15 @@ func render(st Stmt) (first []cell, rest []string) {
 		}
 		if s.Size != nil {
 			w.add("size", size(s.Size))
+		}
+		if s.Thread != nil {
+			w.add("thread", s.Thread.Designation)
+		}
+		if c := s.Cbore; c != nil {
+			w.add("cbore", size(c.Diameter), "depth", size(c.Depth))
+		}
+		if c := s.Csink; c != nil {
+			w.add("csink", size(c.Diameter), "angle", size(c.Angle))
 		}
 		if g := s.Geometry; g != nil {
 			w.add(g.Word.Value)
@@ -319,17 +365,7 @@ func render(st Stmt) (first []cell, rest []string) {
 			value = CanonicalWord(c.Zone.Value) + " " + c.Value.Text
 			w.add("through", c.Pattern.Value, "about", c.About.Value)
 		} else {
-			value = s.Value.Text
-			if s.Deg {
-				value += "deg"
-			}
-			w.add("from", s.From.Value, "to", s.To.Value)
-			if s.Along != nil {
-				w.add("along", direction(s.Along))
-			}
-			if s.About != nil {
-				w.add("about", s.About.Value)
-			}
+			value, w = measure(s.Value, s.Deg, s.From, s.To, s.Along, s.About)
 		}
 		return []cell{{text: "basic"}, {text: value, pad: true}, {text: w.String()}}, nil
 	case *DimStmt:
@@ -339,6 +375,38 @@ func render(st Stmt) (first []cell, rest []string) {
 			w.add("along", direction(s.Along))
 		}
 		return []cell{{text: "dim"}, {text: size(s.Size), pad: true}, {text: w.String()}}, nil
+	case *BasisStmt:
+		return fixed("basis", s.Basis.Value), nil
+	case *TargetStmt:
+		var w words
+		w.add(s.Shape.Value)
+		if a := s.Area; a != nil {
+			if a.Value != nil {
+				w.add(CanonicalWord(a.Dia), a.Value.Text)
+			} else {
+				w.add(strings.ToLower(a.Rect))
+			}
+		}
+		w.add("on", s.On.Value)
+		if s.At != nil {
+			w.add("at", vector(s.At))
+		} else {
+			w.add("from", vector(s.From), "to", vector(s.To))
+		}
+		if s.Normal != nil {
+			w.add("normal", direction(s.Normal))
+		}
+		return []cell{{text: "target"}, {text: s.Label.Value, pad: true}, {text: w.String()}}, nil
+	case *RefStmt:
+		var w words
+		var value string
+		if s.Size != nil {
+			value = "size " + s.Size.Text
+			w.add("of", s.Of.Value)
+		} else {
+			value, w = measure(s.Value, s.Deg, s.From, s.To, s.Along, s.About)
+		}
+		return []cell{{text: "ref"}, {text: value, pad: true}, {text: w.String()}}, nil
 	}
 	// Format refuses files with bad statements, so this is unreachable; keep
 	// the statement's words rather than lose them.
@@ -346,6 +414,24 @@ func render(st Stmt) (first []cell, rest []string) {
 		return fixed(strings.Join(strings.Fields(b.Text), " ")), nil
 	}
 	return fixed(st.Keyword()), nil
+}
+
+// measure writes a basic or reference distance or angle: its value, and
+// the words after it.
+func measure(v *Number, deg bool, from, to *Name, along *Direction, about *Name) (string, words) {
+	var w words
+	value := v.Text
+	if deg {
+		value += "deg"
+	}
+	w.add("from", from.Value, "to", to.Value)
+	if along != nil {
+		w.add("along", direction(along))
+	}
+	if about != nil {
+		w.add("about", about.Value)
+	}
+	return value, w
 }
 
 // words joins tokens with single spaces.
@@ -398,12 +484,23 @@ func tolerance(t *Tolerance) string {
 	if t.Zone != nil {
 		w.add(CanonicalWord(t.Zone.Value))
 	}
-	w.add(t.Value.Text)
+	value := t.Value.Text
+	if u := t.PerUnit; u != nil {
+		if u.Length != nil {
+			value += "/" + u.Length.Text
+		} else {
+			value += "/" + strings.ToLower(u.Area)
+		}
+	}
+	w.add(value)
 	for _, m := range t.Modifiers {
 		w.add(modifier(m.Symbol))
 		if m.Value != nil {
 			w.add(m.Value.Text)
 		}
+	}
+	if t.Along != nil {
+		w.add("along", direction(t.Along))
 	}
 	if len(t.Datums) > 0 {
 		refs := make([]string, len(t.Datums))
@@ -412,8 +509,21 @@ func tolerance(t *Tolerance) string {
 			for _, m := range d.Modifiers {
 				refs[i] += modifier(m.Symbol)
 			}
+			for _, p := range d.More {
+				refs[i] += p.Name
+				for _, m := range p.Modifiers {
+					refs[i] += modifier(m.Symbol)
+				}
+			}
 		}
 		w.add("datums", strings.Join(refs, ", "))
+	}
+	for _, n := range t.Notes {
+		if n.From != nil {
+			w.add("between", n.From.Value, n.To.Value)
+		} else {
+			w.add(n.Word)
+		}
 	}
 	return w.String()
 }

@@ -61,16 +61,59 @@ frame slot: position 0.2 (M) datums A, AB(L) # trailing
 frame skin: surface-profile 0.4 (U) 0.1 datums A-AB, C(M)
 frame balls.1: position sdia 0.3 (P) 12 datums A
 
-basic 30deg  from floor to ramp
-basic 1.5    from floor to balls.1 along (1, 0, 0)
+basic 30deg from floor to ramp
+basic 1.5   from floor to balls.1 along (1, 0, 0)
 basic dia 80 through balls about AB
 dim 40 +-0.1     from floor to slot along +x
 dim 12.5 +0.1 -0 from floor to web
+`,
+		`# The extensions of the notation, canonical as written.
+units mm
+standard asme-2018
+basis model
+
+feature base plane normal -z at (0, 0, 0)
+feature rear plane normal -y at (0, 0, 0)
+feature e1   line along +z at (0, 0, 0)
+feature tip  point at (1, 2, 3)
+feature rim  circle size 25 axis +z at (60, 40, 0)
+feature cb   hole size 6.6 +-0.1 cbore 11 +0.2 -0 depth 6.5 csink 13 angle 90deg axis -z at (20, 20, 10)
+feature tap  hole 2x thread "M8x1.25-6H" axis -z at (10, 10, 0) (20, 10, 0)
+
+target A1  point on base at (10, 10, 0) # a trailing comment
+target A2  area dia 6 on base at (90, 10, 0)
+# a comment inside a block
+target A3  area 10x20 on base at (50, 70, 0) normal +z
+target B12 line on rear from (0, 0, 5) to (80, 0, 5)
+
+datum A on base
+datum B on rear
+
+frame base: flatness 0.005/25x25
+frame e1: straightness 0.01/25
+frame cb: position 0.1 along +x datums A, B
+frame tap: position dia 0.2 (M) datums A, B(M)-A(M) major-dia separate
+frame base: surface-profile 0.5 datums A, B all-around
+    composite 0.1 datums A separate
+frame rim: line-profile 0.5 datums A between tip e1
+
+ref 60    from base to cb
+ref 90deg from base to rear
+ref size 25 of rim
 `,
 	}
 	for i, src := range canonical {
 		if got := format(t, src); got != src {
 			t.Errorf("case %d: canonical input changed:\n%s", i, lineDiff(src, got))
+		}
+		// Saved with CR LF line ends, and with a byte-order mark, it is
+		// canonical too: formatting keeps how the file is saved.
+		crlf := strings.ReplaceAll(src, "\n", "\r\n")
+		if got := format(t, crlf); got != crlf {
+			t.Errorf("case %d with CR LF: canonical input changed:\n%q", i, got)
+		}
+		if got := format(t, "\ufeff"+crlf); src != "" && got != "\ufeff"+crlf {
+			t.Errorf("case %d with a byte-order mark and CR LF: canonical input changed:\n%q", i, got)
 		}
 	}
 }
@@ -120,9 +163,27 @@ func TestFormatRewrites(t *testing.T) {
 			"basic 1 from a to b\n# closes\nbasic 2 from a to b\n"},
 		{"bolt circle and along",
 			"basic ⌀ 80 through bolts about A\nbasic 90 from bolts.1 to bolts.4 along (1,0,0)\n",
-			"basic dia 80 through bolts about A\nbasic 90     from bolts.1 to bolts.4 along (1, 0, 0)\n"},
-		{"CRLF and a byte-order mark",
-			"\ufeffunits mm\r\nstandard iso\r\n",
+			"basic dia 80 through bolts about A\nbasic 90 from bolts.1 to bolts.4 along (1, 0, 0)\n"},
+		{"a bolt circle does not pad the lengths around it, and ends their run",
+			"basic 60 from left to bore\nbasic 5 from rear to bore\nbasic dia 110 through bolts about bore\nbasic 7.5 from left to bolts.1\nbasic 15 from rear to bolts.1\nbasic 90deg from bolts.1 to bolts.2 about bore\n",
+			"basic 60 from left to bore\nbasic 5  from rear to bore\nbasic dia 110 through bolts about bore\nbasic 7.5   from left to bolts.1\nbasic 15    from rear to bolts.1\nbasic 90deg from bolts.1 to bolts.2 about bore\n"},
+		{"bolt circles align among themselves",
+			"basic dia 80 through inner about A\nbasic dia 110.5 through outer about A\n",
+			"basic dia 80    through inner about A\nbasic dia 110.5 through outer about A\n"},
+		{"extensions respelled",
+			"frame a: flatness 0.005 / 25X25\nframe b: position 1 datums A, H (M) -X (L)\ntarget A1 area ⌀ 6 on b at (0,0,0)\n",
+			"frame a: flatness 0.005/25x25\nframe b: position 1 datums A, H(M)-X(L)\ntarget A1 area dia 6 on b at (0, 0, 0)\n"},
+		{"countersink angle and thread",
+			"feature h hole size 6 thread  \"M8\" csink 12 angle 90 deg axis +z at (0,0,0)\n",
+			"feature h hole size 6 thread \"M8\" csink 12 angle 90deg axis +z at (0, 0, 0)\n"},
+		{"CRLF and a byte-order mark are kept",
+			"\ufeffunits  mm\r\nstandard iso\r\n",
+			"\ufeffunits mm\r\nstandard iso\r\n"},
+		{"CRLF throughout when the first line ends so",
+			"units mm\r\nstandard iso\n\n\n# c\r\nbasic 1 from a to b \\\r\n  along +x\r\n",
+			"units mm\r\nstandard iso\r\n\r\n# c\r\nbasic 1 from a to b along +x\r\n"},
+		{"LF when the first line ends so",
+			"units mm\nstandard iso\r\n",
 			"units mm\nstandard iso\n"},
 		{"no final newline",
 			"units mm",

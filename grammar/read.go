@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"math"
+	"regexp"
 	"strconv"
 	"strings"
 
@@ -107,18 +108,19 @@ func (r *resolver) dir(d *Direction) (model.Vec, bool) {
 func Resolve(f *File) *model.Part {
 	p := model.NewPart(source.NewFile(f.Name, f.Src))
 	r := &resolver{p: p}
+	p.NotText = f.Binary
 	for _, e := range f.Errors {
 		p.Problemf(model.Syntax, e.Span, "%s", e.Msg)
 	}
 	p.Statements = make([]model.Statement, len(f.Stmts))
-	texts := statementTexts(f, p.Source)
 	for i, st := range f.Stmts {
-		ms := model.Statement{Keyword: st.Keyword(), Span: st.Span(), First: f.Extents[i].First, Last: f.Extents[i].Last, Parsed: true, Text: texts[i]}
+		ms := model.Statement{Keyword: st.Keyword(), Span: st.Span(), First: f.Extents[i].First, Last: f.Extents[i].Last, Parsed: true}
 		if bs, ok := st.(*BadStmt); ok {
 			ms.Parsed, ms.Name, ms.Words = false, bs.Name, bs.Words
 		}
 		p.Statements[i] = ms
 	}
+	trailingComments(f, p.Statements)
 	p.Suppressions = directives(f)
 	// Pass 1: headers and feature declarations, so that references may
 	// come before declarations.
@@ -152,17 +154,26 @@ func Resolve(f *File) *model.Part {
 			case "iso":
 				p.Standard = model.ISO
 			default:
-				msg := "unknown standard '%s': write asme-2018, asme-2009 or iso"
-				if sg := spell.Nearest(w, model.StandardWords); sg != "" {
-					msg = "unknown standard '%s'; did you mean '" + sg + "'?"
-				}
-				r.errorf(s.Standard.Span(), msg, w)
+				r.unknownWord(s.Standard.Span(), "standard", w, "write asme-2018, asme-2009 or iso", model.StandardWords)
 			}
 			p.Headers = append(p.Headers, model.HeaderLine{Keyword: "standard", Value: w, Span: s.Span()})
+		case *BasisStmt:
+			w := s.Basis.Value
+			switch w {
+			case "model":
+				p.Basis = model.ModelBasis
+			case "drawing":
+				p.Basis = model.DrawingBasis
+			default:
+				r.unknownWord(s.Basis.Span(), "basis", w, "write 'basis model' (every nominal location and angle of the model is basic) or 'basis drawing'", model.BasisWords)
+			}
+			p.Headers = append(p.Headers, model.HeaderLine{Keyword: "basis", Value: w, Span: s.Span()})
 		case *FeatureStmt:
 			p.Declare(r.feature(s))
+		case *TargetStmt:
+			p.Declare(r.targetFeature(s))
 		case *BadStmt:
-			if s.Word == "feature" && s.Name != "" {
+			if s.Declares("feature") || s.Declares("target") {
 				p.Declare(&model.Feature{Name: s.Name, Span: s.Span(), NameSpan: s.Span(), Broken: true})
 			}
 		}
@@ -180,27 +191,44 @@ func Resolve(f *File) *model.Part {
 		case *DatumStmt:
 			r.datum(s)
 		case *BadStmt:
-			if s.Word == "datum" && s.Name != "" {
+			if s.Declares("datum") {
 				p.AddDatum(&model.Datum{Letter: s.Name, Span: s.Span(), LetterSpan: s.Span(), Broken: true})
 			}
 		}
 	}
 	for _, st := range f.Stmts {
 		switch s := st.(type) {
+		case *TargetStmt:
+			r.datumTarget(s)
 		case *FrameStmt:
 			r.frame(s)
 		case *BasicStmt:
 			r.basic(s)
 		case *DimStmt:
 			r.dim(s)
+		case *RefStmt:
+			r.ref(s)
 		}
 	}
 	p.Finish()
 	return p
 }
 
+// unknownWord reports a word that is none of words: the nearest one
+// suggested, or else the hint.
+func (r *resolver) unknownWord(sp source.Span, what, w, hint string, words []string) {
+	if sg := spell.Nearest(w, words); sg != "" {
+		r.errorf(sp, "unknown %s '%s'; did you mean '%s'?", what, w, sg)
+		return
+	}
+	r.errorf(sp, "unknown %s '%s': %s", what, w, hint)
+}
+
 // geometry forms allowed per kind (the contract's geometry table).
 var geometryWords = map[model.Kind][]string{
+	model.Point:     {"at"},
+	model.Line:      {"along"},
+	model.Circle:    {"axis"},
 	model.Plane:     {"normal"},
 	model.Slot:      {"normal", "between"},
 	model.Tab:       {"normal", "between"},
@@ -214,6 +242,9 @@ var geometryWords = map[model.Kind][]string{
 }
 
 var geometryExample = map[model.Kind]string{
+	model.Point:     "at (0, 0, 0)",
+	model.Line:      "along +z at (0, 0, 0)",
+	model.Circle:    "axis +z at (0, 0, 0) (its centre)",
 	model.Plane:     "normal +z at (0, 0, 0)",
 	model.Slot:      "normal +x at (0, 0, 0) or between FACE1 FACE2",
 	model.Tab:       "normal +x at (0, 0, 0) or between FACE1 FACE2",
@@ -242,7 +273,7 @@ func (r *resolver) feature(s *FeatureStmt) *model.Feature {
 		return ft
 	}
 	if s.Size != nil {
-		if !ft.Kind.IsFOS() {
+		if !ft.Kind.TakesSize() {
 			r.errorf(s.Size.Span(), "a %s is not a feature of size and takes no size; remove 'size ...' (or declare it as a slot, tab, hole, pin, socket or ball)", ft.Kind)
 		} else {
 			ft.Size = r.size(s.Size)
@@ -251,6 +282,7 @@ func (r *resolver) feature(s *FeatureStmt) *model.Feature {
 			}
 		}
 	}
+	r.holeForms(s, ft)
 	count := 0
 	if s.Count != nil {
 		c := r.num(s.Count.N)
@@ -314,33 +346,151 @@ func (r *resolver) feature(s *FeatureStmt) *model.Feature {
 	return ft
 }
 
-// statementTexts returns each statement's text as written, its physical
-// lines with trailing comments cut and runs of white space made one space.
-func statementTexts(f *File, src *source.File) []string {
-	cut := map[int]int{} // line -> column where its trailing comment starts
+// holeForms reads a feature's thread, counterbore and countersink.
+func (r *resolver) holeForms(s *FeatureStmt, ft *model.Feature) {
+	if s.Thread != nil {
+		if !ft.Kind.IsCylinder() {
+			r.errorf(s.Thread.Span(), "a screw thread is a hole's or a pin's; a %s takes no 'thread'", ft.Kind)
+		} else if t, err := strconv.Unquote(s.Thread.Designation); err != nil || strings.TrimSpace(t) == "" {
+			r.errorf(s.Thread.Span(), "write the thread's designation in double quotes, e.g. thread \"M8x1.25-6H\"")
+		} else {
+			ft.Thread, ft.ThreadSpan = t, s.Thread.Span()
+		}
+	}
+	if c := s.Cbore; c != nil {
+		if ft.Kind != model.Hole {
+			r.errorf(c.Span(), "a counterbore is a hole's; a %s takes no 'cbore'", ft.Kind)
+		} else {
+			ft.Counterbore = &model.Counterbore{Diameter: r.size(c.Diameter), Depth: r.size(c.Depth), Span: c.Span()}
+			r.lengthOnly(c.Diameter, "a counterbore's diameter")
+			r.lengthOnly(c.Depth, "a counterbore's depth")
+		}
+	}
+	if c := s.Csink; c != nil {
+		if ft.Kind != model.Hole {
+			r.errorf(c.Span(), "a countersink is a hole's; a %s takes no 'csink'", ft.Kind)
+		} else {
+			ft.Countersink = &model.Countersink{Diameter: r.size(c.Diameter), Angle: r.size(c.Angle), Span: c.Span()}
+			r.lengthOnly(c.Diameter, "a countersink's diameter")
+			if !c.Angle.Deg {
+				r.errorf(c.Angle.Span(), "a countersink's angle is an angle: write it with deg, e.g. angle 90deg")
+			}
+		}
+	}
+}
+
+// lengthOnly reports a length written as an angle.
+func (r *resolver) lengthOnly(s *Size, what string) {
+	if s.Deg {
+		r.errorf(s.Span(), "%s is a length, not an angle", what)
+	}
+}
+
+// targetLabelRE is a datum target's label: its datum's letter and a number.
+var targetLabelRE = regexp.MustCompile(`^([A-Z]{1,2})([0-9]+)$`)
+
+// targetFeature declares the point or line feature a datum target stands
+// for, so that dimensions may name it.
+func (r *resolver) targetFeature(s *TargetStmt) *model.Feature {
+	ft := &model.Feature{Name: s.Label.Value, NameSpan: s.Label.Span(), Span: s.Span(), DirDecimals: [3]int{-1, -1, -1}, HasGeometry: true, Kind: model.Point}
+	pt := s.At
+	if s.From != nil {
+		pt = s.From
+		ft.Kind = model.Line
+		ft.Dir = r.vec(s.To).Sub(r.vec(s.From)).Unit()
+	}
+	ft.Members = []*model.Member{{Feature: ft, Index: 1, Point: r.vec(pt), Decimals: decimals(pt), Span: pt.Span()}}
+	return ft
+}
+
+// datumTarget reads a datum target (its feature is declared in pass 1).
+func (r *resolver) datumTarget(s *TargetStmt) {
+	t := &model.DatumTarget{Label: s.Label.Value, LabelSpan: s.Label.Span(), Span: s.Span()}
+	t.Feature = r.p.Feature(t.Label)
+	if t.Feature == nil || t.Feature.Span != s.Span() {
+		return // the label is declared twice: name-duplicate reports it
+	}
+	t.Feature.DatumTarget = t
+	if m := targetLabelRE.FindStringSubmatch(t.Label); m != nil {
+		t.Letter = m[1]
+	} else {
+		r.errorf(s.Label.Span(), "'%s' is not a datum target's name: name a target by its datum's letter and a number, e.g. A1, A2", t.Label)
+		t.Broken = true
+	}
+	t.Shape = model.ParseTargetShape(s.Shape.Value)
+	switch {
+	case t.Shape == model.TargetShapeUnknown:
+		msg := fmt.Sprintf("unknown datum target '%s': write point, line or area", s.Shape.Value)
+		if sg := spell.Nearest(s.Shape.Value, model.TargetShapeWords); sg != "" {
+			msg = fmt.Sprintf("unknown datum target '%s'; did you mean '%s'?", s.Shape.Value, sg)
+		}
+		r.errorf(s.Shape.Span(), "%s", msg)
+		t.Broken = true
+	case t.Shape == model.TargetArea && s.Area == nil:
+		r.errorf(s.Shape.Span(), "an area target gives its size: area dia 8 (circular) or area 10x20 (rectangular)")
+	case t.Shape != model.TargetArea && s.Area != nil:
+		r.errorf(s.Area.Span(), "only an area target has a size; a %s target is written without one", t.Shape)
+	case t.Shape == model.TargetLine && s.From == nil:
+		r.errorf(s.At.Span(), "a line target runs between two points: write from (x, y, z) to (x, y, z)")
+		t.Broken = true
+	case t.Shape != model.TargetLine && s.From != nil:
+		r.errorf(s.From.Span(), "a %s target is at one point: write at (x, y, z)", t.Shape)
+		t.Broken = true
+	}
+	if a := s.Area; a != nil {
+		if a.Value != nil {
+			t.Dia = r.num(a.Value)
+		} else {
+			t.Width, t.Height = r.area(a.Rect, a.Span())
+		}
+	}
+	if s.From != nil {
+		t.Point, t.End = r.vec(s.From), r.vec(s.To)
+		if t.Point.Sub(t.End).Norm() == 0 {
+			r.errorf(s.To.Span(), "a line target runs between two different points")
+			t.Broken = true
+		}
+	} else {
+		t.Point = r.vec(s.At)
+		t.End = t.Point
+	}
+	if s.Normal != nil {
+		if n, ok := r.dir(s.Normal); ok {
+			t.Normal = n
+		}
+	}
+	t.On = *r.target(s.On)
+	r.p.AddTarget(t)
+}
+
+// area reads WxH: two positive lengths.
+func (r *resolver) area(text string, sp source.Span) (w, h float64) {
+	a, b, _ := strings.Cut(strings.ToLower(text), "x")
+	w, errW := strconv.ParseFloat(a, 64)
+	h, errH := strconv.ParseFloat(b, 64)
+	if errW != nil || errH != nil || math.IsInf(w, 0) || math.IsInf(h, 0) {
+		r.errorf(sp, "the area %s is out of range", text)
+		return 0, 0
+	}
+	return w, h
+}
+
+// trailingComments gives each statement the trailing comments on its
+// lines (comments and statements are both in file order).
+func trailingComments(f *File, sts []model.Statement) {
+	k := 0
 	for _, c := range f.Comments {
-		if c.Trailing {
-			cut[c.Span.Start.Line] = c.Span.Start.Col
+		if !c.Trailing {
+			continue
+		}
+		l := c.Span.Start.Line
+		for k < len(sts) && sts[k].Last < l {
+			k++
+		}
+		if k < len(sts) && sts[k].First <= l {
+			sts[k].Comments = append(sts[k].Comments, c.Span)
 		}
 	}
-	out := make([]string, len(f.Extents))
-	var b strings.Builder
-	for i, e := range f.Extents {
-		b.Reset()
-		for l := e.First; l <= e.Last; l++ {
-			line := src.LineBytes(l)
-			if col, ok := cut[l]; ok {
-				line = line[:src.Offset(source.Pos{Line: l, Col: col})-src.Offset(source.Pos{Line: l, Col: 1})]
-			}
-			if l == 1 {
-				line = bytes.TrimPrefix(line, []byte("\ufeff"))
-			}
-			b.Write(line)
-			b.WriteByte(' ')
-		}
-		out[i] = strings.Join(strings.Fields(b.String()), " ")
-	}
-	return out
 }
 
 // datumsSpan covers a tolerance's datum references and the word 'datums'
@@ -371,6 +521,9 @@ func (r *resolver) text(sp source.Span) string {
 
 func (r *resolver) size(s *Size) *model.Size {
 	out := &model.Size{Nominal: r.num(s.Nominal), Span: s.Span(), Envelope: s.Envelope != nil, Text: r.text(s.Span())}
+	if s.Envelope != nil {
+		out.EnvelopeSpan = s.Envelope.Span()
+	}
 	switch {
 	case s.PlusMinus != nil:
 		t := math.Abs(r.num(s.PlusMinus))
@@ -460,14 +613,18 @@ func (r *resolver) frame(s *FrameStmt) {
 		msg := fmt.Sprintf("unknown characteristic '%s': use one of %s", c, strings.Join(CharacteristicWords, ", "))
 		if sg := spell.Nearest(c, CharacteristicWords); sg != "" {
 			msg = fmt.Sprintf("unknown characteristic '%s'; did you mean '%s'?", c, sg)
+		} else if strings.EqualFold(c, "profile") {
+			msg = "'profile' alone names no characteristic: write surface-profile (profile of a surface) or line-profile (profile of a line)"
 		}
 		r.errorf(s.Characteristic.Span(), "%s", msg)
 	}
 	fr.Segments = append(fr.Segments, r.segment(s.Tolerance, false))
+	r.notes(fr, fr.Segments[0], s.Tolerance)
 	for _, cp := range s.Composites {
 		seg := r.segment(cp.Tolerance, true)
 		seg.Span = cp.Span()
 		fr.Segments = append(fr.Segments, seg)
+		r.notes(fr, seg, cp.Tolerance)
 	}
 	r.p.Frames = append(r.p.Frames, fr)
 }
@@ -490,6 +647,21 @@ func (r *resolver) segment(t *Tolerance, composite bool) *model.Segment {
 			seg.Zone = ""
 		}
 	}
+	if u := t.PerUnit; u != nil {
+		seg.PerUnit = &model.PerUnit{Span: u.Span(), Text: strings.TrimPrefix(r.text(u.Span()), "/")}
+		if u.Length != nil {
+			seg.PerUnit.Length = r.num(u.Length)
+		} else {
+			seg.PerUnit.Length, seg.PerUnit.Width = r.area(u.Area, u.Span())
+			seg.PerUnit.Area = true
+		}
+		seg.PerUnit.Text = strings.TrimSpace(seg.PerUnit.Text)
+	}
+	if t.Along != nil {
+		if v, ok := r.dir(t.Along); ok {
+			seg.ZoneDir, seg.ZoneDirSpan = &v, t.Along.Span()
+		}
+	}
 	for _, m := range t.Modifiers {
 		mod := model.Modifier{Letter: ModifierLetter(m.Symbol), Span: m.Span()}
 		if m.Value != nil {
@@ -505,31 +677,86 @@ func (r *resolver) segment(t *Tolerance, composite bool) *model.Segment {
 		r.errorf(t.Datums[3].Span(), "a frame references at most three datums (primary, secondary, tertiary); '%s' is a fourth", t.Datums[3].Name)
 	}
 	for _, d := range t.Datums {
-		ref := &model.DatumRef{Name: d.Name, Span: d.Span()}
-		for _, l := range strings.Split(d.Name, "-") {
+		seg.Refs = append(seg.Refs, r.datumRef(d))
+	}
+	if len(t.Datums) > 0 {
+		seg.DatumsSpan = r.datumsSpan(t)
+	}
+	return seg
+}
+
+// datumRef reads one datum reference: its letters, each with its datum and
+// material boundary.
+func (r *resolver) datumRef(d *DatumRef) *model.DatumRef {
+	ref := &model.DatumRef{Span: d.Span()}
+	// material returns the last (M) or (L) of ms; any other letter is a
+	// syntax finding already (grammar/check.go).
+	material := func(ms []*RefModifier) (string, source.Span) {
+		l, sp := "", source.Span{}
+		for _, m := range ms {
+			if ml := ModifierLetter(m.Symbol); ml == "M" || ml == "L" {
+				l, sp = ml, m.Span()
+			}
+		}
+		return l, sp
+	}
+	part := func(name string, ms []*RefModifier) {
+		mat, sp := material(ms)
+		for _, l := range strings.Split(name, "-") {
 			if l == "" {
 				r.errorf(d.Span(), "'%s' is not a datum reference: a common datum joins two letters, e.g. A-B", d.Name)
 				continue
 			}
 			ref.Letters = append(ref.Letters, l)
 			ref.Datums = append(ref.Datums, r.p.Datum(l))
+			ref.Materials = append(ref.Materials, mat)
+			ref.MatSpans = append(ref.MatSpans, sp)
 		}
-		for _, m := range d.Modifiers {
-			// Only (M) and (L) are material boundaries; any other letter is
-			// a syntax finding already (grammar/check.go).
-			if l := ModifierLetter(m.Symbol); l == "M" || l == "L" {
-				ref.Material, ref.MatSpan = l, m.Span()
-			}
-		}
+	}
+	part(d.Name, d.Modifiers)
+	names := []string{d.Name}
+	for _, m := range d.More {
+		part(strings.TrimPrefix(m.Name, "-"), m.Modifiers)
+		names = append(names, strings.TrimPrefix(m.Name, "-"))
+	}
+	ref.Name = strings.Join(names, "-")
+	if len(d.More) == 0 {
+		ref.Material, ref.MatSpan = material(d.Modifiers)
 		// The ref's own span ends at the letters; the modifier is separate.
 		ref.Span = source.Span{Start: d.Span().Start, End: source.Pos{Line: d.Span().Start.Line, Col: d.Span().Start.Col + len([]rune(d.Name))}}
-		ref.FullSpan = d.Span()
-		seg.Refs = append(seg.Refs, ref)
 	}
-	if len(t.Datums) > 0 {
-		seg.DatumsSpan = r.datumsSpan(t)
+	ref.FullSpan = d.Span()
+	return ref
+}
+
+// notes reads the notes of a frame's segment: a separate requirement on
+// the segment, and, on the upper segment only, the extent of a profile and
+// the diameter of a screw thread, which are the whole frame's.
+func (r *resolver) notes(fr *model.Frame, seg *model.Segment, t *Tolerance) {
+	for _, n := range t.Notes {
+		word := n.Word
+		if n.From != nil {
+			word = model.Between
+		}
+		switch word {
+		case "separate":
+			seg.Separate, seg.SeparateSpan = true, n.Span()
+			continue
+		}
+		if seg.Composite {
+			r.errorf(n.Span(), "'%s' is the whole frame's: write it on the frame's first line, not on a composite line", word)
+			continue
+		}
+		switch word {
+		case model.AllAround, model.AllOver, model.Between:
+			fr.Extent, fr.ExtentSpan = word, n.Span()
+			if n.From != nil {
+				fr.Between = [2]*model.Target{r.target(n.From), r.target(n.To)}
+			}
+		default:
+			fr.ThreadDiameter, fr.ThreadDiameterSpan = word, n.Span()
+		}
 	}
-	return seg
 }
 
 func (r *resolver) basic(s *BasicStmt) {
@@ -544,22 +771,28 @@ func (r *resolver) basic(s *BasicStmt) {
 		return
 	}
 	d.Value, d.ValueSpan, d.ValueText, d.Angle = r.num(s.Value), s.Value.Span(), numberText(s.Value), s.Deg
-	d.From, d.To = *r.target(s.From), *r.target(s.To)
-	if s.Along != nil {
-		if v, ok := r.dir(s.Along); ok {
+	r.measure(d, s.From, s.To, s.Along, s.About, "basic")
+	r.p.Dims = append(r.p.Dims, d)
+}
+
+// measure reads what a basic or reference distance or angle is measured
+// between, and along or about what.
+func (r *resolver) measure(d *model.Dimension, from, to *Name, along *Direction, about *Name, keyword string) {
+	d.From, d.To = *r.target(from), *r.target(to)
+	if along != nil {
+		if v, ok := r.dir(along); ok {
 			d.Along = &v
 		}
 		if d.Angle {
-			r.errorf(s.Along.Span(), "'along' measures a length; an angle takes no 'along'")
+			r.errorf(along.Span(), "'along' measures a length; an angle takes no 'along'")
 		}
 	}
-	if s.About != nil {
+	if about != nil {
 		if !d.Angle {
-			r.errorf(s.About.Span(), "'about' belongs to an angle about an axis, e.g. basic 45deg from bolts.1 to C about hub")
+			r.errorf(about.Span(), "'about' belongs to an angle about an axis, e.g. %s 45deg from bolts.1 to C about hub", keyword)
 		}
-		d.About = r.target(s.About)
+		d.About = r.target(about)
 	}
-	r.p.Dims = append(r.p.Dims, d)
 }
 
 func (r *resolver) dim(s *DimStmt) {
@@ -574,5 +807,18 @@ func (r *resolver) dim(s *DimStmt) {
 			d.Along = &v
 		}
 	}
+	r.p.Dims = append(r.p.Dims, d)
+}
+
+func (r *resolver) ref(s *RefStmt) {
+	d := &model.Dimension{Reference: true, Span: s.Span()}
+	if s.Size != nil {
+		d.Value, d.ValueSpan, d.ValueText = r.num(s.Size), s.Size.Span(), numberText(s.Size)
+		d.SizeOf = r.target(s.Of)
+		r.p.Dims = append(r.p.Dims, d)
+		return
+	}
+	d.Value, d.ValueSpan, d.ValueText, d.Angle = r.num(s.Value), s.Value.Span(), numberText(s.Value), s.Deg
+	r.measure(d, s.From, s.To, s.Along, s.About, "ref")
 	r.p.Dims = append(r.p.Dims, d)
 }

@@ -172,11 +172,11 @@ func TestReaderRecordsTheFileAsWritten(t *testing.T) {
 	if got := strings.Join(kw, " "); got != "units standard feature datum frame feature frame" {
 		t.Errorf("statements %q", got)
 	}
-	if st := p.Statements[5]; st.First != 7 || st.Last != 8 || st.Text != `feature lug tab size 10 +-0.1 between \ a b` {
-		t.Errorf("continued statement: lines %d-%d text %q", st.First, st.Last, st.Text)
+	if st := p.Statements[5]; st.First != 7 || st.Last != 8 || model.StatementText(p.Source, st) != `feature lug tab size 10 +-0.1 between \ a b` {
+		t.Errorf("continued statement: lines %d-%d text %q", st.First, st.Last, model.StatementText(p.Source, st))
 	}
-	if st := p.Statements[4]; st.Text != "frame bolts: position ⌀ 0.40 (M) datums A" {
-		t.Errorf("a trailing comment is not part of the statement's text: %q", st.Text)
+	if st := p.Statements[4]; model.StatementText(p.Source, st) != "frame bolts: position ⌀ 0.40 (M) datums A" {
+		t.Errorf("a trailing comment is not part of the statement's text: %q", model.StatementText(p.Source, st))
 	}
 	bad := p.Statements[6]
 	if !bad.Parsed {

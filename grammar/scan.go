@@ -62,6 +62,8 @@ var (
 	tokModifier   = lexerDef.Symbols()["Modifier"]
 	tokPlusMinus  = lexerDef.Symbols()["PlusMinus"]
 	tokDir        = lexerDef.Symbols()["Dir"]
+	tokArea       = lexerDef.Symbols()["Area"]
+	tokDash       = lexerDef.Symbols()["Dash"]
 	tokMember     = lexerDef.Symbols()["Member"]
 	tokSDia       = lexerDef.Symbols()["SDia"]
 	tokDia        = lexerDef.Symbols()["Dia"]
@@ -69,11 +71,11 @@ var (
 	tokRange      = lexerDef.Symbols()["Range"]
 	tokPunct      = lexerDef.Symbols()["Punct"]
 	scanRuleOrder = []func(s string, i int) int{
-		scanString, scanModifier, scanPlusMinus, scanDir, scanNumber, scanMember,
+		scanString, scanModifier, scanPlusMinus, scanDir, scanDash, scanArea, scanNumber, scanMember,
 		scanSDia, scanIdent, scanDia, scanSymbol, scanRange, scanPunct, scanWhitespace,
 	}
 	scanRuleTypes = []lexer.TokenType{
-		tokString, tokModifier, tokPlusMinus, tokDir, tokNumber, tokMember,
+		tokString, tokModifier, tokPlusMinus, tokDir, tokDash, tokArea, tokNumber, tokMember,
 		tokSDia, tokIdent, tokDia, tokSymbol, tokRange, tokPunct, tokWhitespace,
 	}
 )
@@ -194,21 +196,45 @@ func scanDir(s string, i int) int {
 	return i + 2
 }
 
+// `-[A-Za-z_][A-Za-z0-9_-]*`
+func scanDash(s string, i int) int {
+	if s[i] != '-' || i+1 >= len(s) || !isNameStart(s[i+1]) {
+		return -1
+	}
+	return nameEnd(s, i+2)
+}
+
+// unsignedLength is `(?:\d+\.\d+|\.\d+|\d+)` at s[i:]: its end, or -1.
+func unsignedLength(s string, i int) int {
+	switch {
+	case i < len(s) && isDigit(s[i]):
+		j := digits(s, i)
+		if j+1 < len(s) && s[j] == '.' && isDigit(s[j+1]) {
+			j = digits(s, j+1)
+		}
+		return j
+	case i+1 < len(s) && s[i] == '.' && isDigit(s[i+1]):
+		return digits(s, i+1)
+	}
+	return -1
+}
+
+// `(?:\d+\.\d+|\.\d+|\d+)[xX](?:\d+\.\d+|\.\d+|\d+)`
+func scanArea(s string, i int) int {
+	j := unsignedLength(s, i)
+	if j < 0 || j >= len(s) || s[j] != 'x' && s[j] != 'X' {
+		return -1
+	}
+	return unsignedLength(s, j+1)
+}
+
 // `[+-]?(?:\d+\.\d+|\.\d+|\d+)(?:[eE][+-]?\d+)?`
 func scanNumber(s string, i int) int {
 	j := i
 	if s[j] == '+' || s[j] == '-' {
 		j++
 	}
-	switch {
-	case j < len(s) && isDigit(s[j]):
-		j = digits(s, j)
-		if j+1 < len(s) && s[j] == '.' && isDigit(s[j+1]) {
-			j = digits(s, j+1)
-		}
-	case j+1 < len(s) && s[j] == '.' && isDigit(s[j+1]):
-		j = digits(s, j+1)
-	default:
+	if j = unsignedLength(s, j); j < 0 {
 		return -1
 	}
 	if j < len(s) && (s[j] == 'e' || s[j] == 'E') {

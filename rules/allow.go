@@ -28,8 +28,11 @@ A malformed suppression silences nothing.`,
 			default:
 				for _, id := range d.Rules {
 					if Lookup(id) == nil {
-						msg := "unknown rule '%s' in an allow comment: `datumlint rules` lists them"
-						p.Report(d.Span, msg, id)
+						if sg := Suggest(id); sg != "" {
+							p.Report(d.Span, "unknown rule '%s' in an allow comment; did you mean '%s'?", id, sg)
+						} else {
+							p.Report(d.Span, "unknown rule '%s' in an allow comment: `datumlint rules` lists them", id)
+						}
 					}
 				}
 			}

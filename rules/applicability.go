@@ -120,8 +120,8 @@ frame top: surface-profile 0.1 datums A`,
 		}
 		for _, fr := range p.Part.Frames {
 			f := fr.Target.Feature
-			if fr.Characteristic != model.Position || !fr.Target.Known() || f.Kind.IsFOS() {
-				continue
+			if fr.Characteristic != model.Position || !fr.Target.Known() || f.Kind.IsFOS() || f.Kind.IsElement() {
+				continue // a point, line or circle is not a surface for profile to take
 			}
 			sugg := "surface-profile " + fr.Upper().ValueText
 			if refs := fr.Upper().Refs; len(refs) > 0 {

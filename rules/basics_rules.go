@@ -4,8 +4,10 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/grammar/source"
 	"github.com/datumlint/datumlint/rules/basics"
 )
 
@@ -47,6 +49,8 @@ datum C on left
 frame bore: position dia 0.1 (M) datums A, B, C
 basic 60 from left to bore
 basic 40 from rear to bore`,
+	Fix:     "insert one basic line per missing quantity, with the model's value, beside the feature's other basic lines or after its frames",
+	FixSafe: true,
 	Run: func(p *Pass) {
 		// One finding per frame, naming every missing quantity: the frame
 		// is one annotation to fix, and one line of the drawing.
@@ -55,7 +59,7 @@ basic 40 from rear to bore`,
 				continue // a dimension to it may be in a line that did not parse
 			}
 			seen := map[string]bool{}
-			var msgs []string
+			var msgs, adds []string
 			for i, seg := range fr.Segments {
 				ms, ok := p.Basics().Missing(fr, i)
 				if !ok {
@@ -67,18 +71,74 @@ basic 40 from rear to bore`,
 						seen[msg] = true
 						msgs = append(msgs, msg)
 					}
+					if m.Suggest != "" && !seen["add:"+m.Suggest] {
+						seen["add:"+m.Suggest] = true
+						adds = append(adds, m.Suggest)
+					}
 				}
 			}
-			switch len(msgs) {
-			case 0:
-			case 1:
-				p.Report(fr.CharSpan, "%s", msgs[0])
-			default:
-				p.Report(fr.CharSpan, "%s; and %s", msgs[0], strings.Join(msgs[1:], "; and "))
+			if len(msgs) == 0 {
+				continue
 			}
+			d := Diagnostic{Span: fr.CharSpan, Message: msgs[0]}
+			if len(msgs) > 1 {
+				d.Message = fmt.Sprintf("%s; and %s", msgs[0], strings.Join(msgs[1:], "; and "))
+			}
+			if fix, ok := insertBasics(p, fr, adds); ok {
+				d.Fixes = []Fix{fix}
+			}
+			p.ReportDiagnostic(d)
 		}
 	},
 })
+
+// insertBasics is basic-missing's fix: one edit per missing quantity,
+// each inserting the `basic` line that the message suggests (the engine
+// writes it with the model's nominal value, in the file's units). The
+// lines go below the last basic dimension to or from the frame's feature,
+// or else below the last frame on it, so that they stay beside what they
+// complete; the file's line ends are kept. The fix is safe: a basic
+// dimension equal to the model adds no requirement the model does not
+// already have (ASME Y14.41-2019, model values are basic).
+func insertBasics(p *Pass, fr *model.Frame, adds []string) (Fix, bool) {
+	ft := fr.Target.Feature
+	if ft == nil || len(adds) == 0 {
+		return Fix{}, false
+	}
+	anchor := fr.Span.End.Line
+	for _, f := range p.Part.FramesOn(ft) {
+		anchor = max(anchor, f.Span.End.Line)
+	}
+	last := 0
+	for _, d := range p.Part.Dims {
+		on := d.From.Feature == ft || d.To.Feature == ft
+		if d.Circle != nil {
+			on = on || d.Circle.Pattern.Feature == ft
+		}
+		if d.Basic && on {
+			last = max(last, d.Span.End.Line)
+		}
+	}
+	if last > 0 {
+		anchor = last
+	}
+	file, eol := p.Part.Source, p.facts.lineEnd()
+	at := source.Pos{Line: anchor + 1, Col: 1}
+	before, after := "", eol
+	if anchor >= file.Lines() {
+		// The last line has no line end: end it first.
+		at = source.Pos{Line: anchor, Col: utf8.RuneCount(file.LineBytes(anchor)) + 1}
+		before, after = eol, ""
+	}
+	fix := Fix{Safe: true, Message: fmt.Sprintf("insert `%s`", adds[0])}
+	if len(adds) > 1 {
+		fix.Message = fmt.Sprintf("insert the %d basic dimensions: `%s`", len(adds), strings.Join(adds, "`, `"))
+	}
+	for _, a := range adds {
+		fix.Edits = append(fix.Edits, Edit{Span: source.Span{Start: at, End: at}, NewText: before + a + after})
+	}
+	return fix, true
+}
 
 func basicRefName(seg *model.Segment, k int) string {
 	if k < 0 || k >= len(seg.Refs) {
@@ -121,7 +181,9 @@ then disagree about the part. Lengths are compared within about a millionth of t
 angles as the angle or its supplement (lines have no sense). A bolt circle's diameter must pass
 through every member, and a width given between two faces must have their distance as its size.
 Two chains of basic dimensions that define one quantity differently always contain a link that
-disagrees with the model, and it is reported on that line.`,
+disagrees with the model, and it is reported on that line. A reference dimension is checked the
+same way (a reference size against the feature's nominal size), though it locates and
+tolerances nothing (extension).`,
 	Source: "ASME Y14.5-2018, basic dimensions (theoretically exact); ASME Y14.41-2019, agreement of annotation and model; ISO 1101:2017, theoretically exact dimensions",
 	Bad: `feature left plane normal -x at (0, 0, 0)
 feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)
@@ -134,6 +196,18 @@ basic 60 from left to bore`,
 			p.Report(m.Dim.ValueSpan, "%s", mismatchMessage(m))
 		}
 		tol := p.Part.Tolerance()
+		for _, d := range p.Part.Dims {
+			if d.SizeOf == nil || !d.SizeOf.Known() {
+				continue
+			}
+			f := d.SizeOf.Feature
+			switch {
+			case !f.Kind.TakesSize():
+				p.Report(d.SizeOf.Span, "%s is a %s, which has no size: a reference size belongs to a feature of size or a circle", f.Name, f.Kind)
+			case f.Size != nil && math.Abs(f.Size.Nominal-d.Value) > tol:
+				p.Report(d.ValueSpan, "the nominal size of %s is %s, not %s", f.Name, basics.Num(f.Size.Nominal), basics.Num(d.Value))
+			}
+		}
 		for _, f := range p.Part.Features {
 			a, b := f.Faces[0], f.Faces[1]
 			if a == nil || b == nil || !a.Resolved() || !b.Resolved() || !f.HasGeometry || f.Size == nil || f.Broken {
@@ -181,7 +255,10 @@ var BasicToleranced = Register(&Rule{
 	Rationale: `Position and located profile already say how far the feature may be from its true position,
 which basic dimensions define. A toleranced location dimension to the same feature adds a
 second, conflicting tolerance on the same location (and the tolerance stack of a chain of
-them): the standards require the location to be basic.`,
+them): the standards require the location to be basic. A toleranced dimension from a datum
+feature to a feature that nothing else locates (no frame, no datum) measures from the datum as
+its origin and locates that other feature, so it is not reported against the datum feature,
+even where the datum feature is itself under a located profile (common practice; extension).`,
 	Source: "ASME Y14.5-2018, position: true position established by basic dimensions; ISO 5458:2018 and ISO 1101:2017, theoretically exact dimensions",
 	Bad: `feature rear plane normal -y at (0, 0, 0)
 feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)

@@ -48,7 +48,11 @@ func Check(part *model.Part, s *Settings) []Diagnostic {
 				Message: fmt.Sprintf("internal error in rule %s while checking this file (please report it): %s", r.ID, err)})
 		}
 		for i := range found {
-			found[i].Severity = sev
+			// The configured severity applies to the rule's findings at its
+			// default; one the rule reported lower (Inform) stays lower.
+			if found[i].Severity == r.Severity || sev < found[i].Severity {
+				found[i].Severity = sev
+			}
 		}
 		out = append(out, found...)
 	}

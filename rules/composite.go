@@ -24,13 +24,17 @@ datumlint implements these conditions:
   starting with the primary, or fewer of them (the primary; primary and secondary; or all),
   or none: a datum the upper segment does not have, a different order, or a repeat that skips
   a datum before it (B alone, or A, C, under A, B, C) is reported;
-- composite position on a single feature, which has no pattern members to relate, is reported:
-  to refine its orientation use a separate orientation tolerance. Composite profile of a single
-  feature is a recognised form (the lower segment refines form and orientation) and is left
-  alone.
+- composite position on a single feature is information only. ASME Y14.5-2009 and -2018 describe
+  composite positional tolerancing for patterns, where the lower segment relates the members to
+  each other; as far as datumlint knows (from memory) neither forbids it on one feature, and
+  expert-drafted models use it there: with no members to relate, the lower segment refines the
+  orientation of the feature's zone to the datums it repeats, which a separate orientation
+  tolerance says more plainly (with no datums repeated it limits only the form of the axis).
+  Composite profile of a single feature is a recognised form (the lower segment refines form
+  and orientation) and is left alone.
 
 Every problem of one lower segment is reported in one finding on its composite line.`,
-	Source: "ASME Y14.5-2018, composite positional tolerancing and composite profile tolerancing (lower segments repeat the upper segment's datums in the same order of precedence; from memory, sections 10 and 11)",
+	Source: "ASME Y14.5-2018, composite positional tolerancing and composite profile tolerancing (lower segments repeat the upper segment's datums in the same order of precedence; from memory, sections 10 and 11); ASME Y14.5-2009, composite positional tolerancing of patterns (from memory, 7.5.1)",
 	Bad: `feature bolts hole 4x size 8.4 +-0.1 axis +z at (15, 15, 0) (105, 15, 0) (15, 65, 0) (105, 65, 0)
 frame bolts: position dia 0.4 (M) datums A, B, C
     composite dia 0.1 (M) datums B, A`,
@@ -65,11 +69,12 @@ func runCompositeInvalid(p *Pass) {
 			if msg := compositeDatumProblem(fr.Segments[0], lower); msg != "" {
 				problems = append(problems, msg)
 			}
-			if c == model.Position && !fr.Target.IsPattern() && fr.Target.Resolved() && !fr.Target.Feature.Broken {
-				problems = append(problems, fmt.Sprintf("'%s' is a single feature, not a pattern, so there are no members for the lower segment to relate: remove it, or control orientation with a separate tolerance (e.g. perpendicularity)", fr.Target.Name))
-			}
 			if len(problems) > 0 {
 				p.Report(lower.Span, "composite lower segment: %s", strings.Join(problems, "; "))
+				continue
+			}
+			if c == model.Position && !fr.Target.IsPattern() && fr.Target.Known() {
+				p.Inform(lower.Span, nil, "%s", singleCompositeNote(fr, lower))
 			}
 		}
 	}
@@ -121,4 +126,35 @@ func compositeDatumProblem(upper, lower *model.Segment) string {
 		}
 	}
 	return ""
+}
+
+// singleCompositeNote explains what a composite lower segment does on a
+// single feature: it orients the zone to the datums it repeats, or, with
+// none, limits only the form of the axis; and names the plainer frame.
+func singleCompositeNote(fr *model.Frame, lower *model.Segment) string {
+	head := fmt.Sprintf("composite position on the single feature '%s': with no pattern members to relate", fr.Target.Name)
+	tol := lower.ValueText
+	if lower.Zone != "" {
+		tol = lower.Zone + " " + tol
+	}
+	for _, m := range lower.Modifiers {
+		if m.Letter == "M" || m.Letter == "L" {
+			tol += " (" + m.Letter + ")"
+		}
+	}
+	if len(lower.Refs) == 0 {
+		return fmt.Sprintf("%s and no datums repeated, the lower segment limits only the form of its axis, as `frame %s: straightness %s` says plainly (legal, as far as datumlint knows)", head, fr.Target.Name, tol)
+	}
+	names := refNamesWithMaterial(lower.Refs)
+	c := model.Perpendicularity
+	if fe, de := elementOf(fr.Target.Feature), refElement(lower.Refs[0]); fe.exists && de.exists {
+		switch ang := fe.angleTo(de); {
+		case ang <= fe.slack+de.slack:
+			c = model.Parallelism
+		case ang < 90-fe.slack-de.slack:
+			c = model.Angularity
+		}
+	}
+	return fmt.Sprintf("%s, the lower segment refines only the orientation of its zone to %s (legal, as far as datumlint knows); a separate orientation tolerance says the same plainly: `frame %s: %s %s datums %s` in place of the composite line",
+		head, strings.Join(names, ", "), fr.Target.Name, c, tol, strings.Join(names, ", "))
 }

@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"bytes"
 	"strings"
 
 	"github.com/datumlint/datumlint/grammar/model"
@@ -17,6 +18,20 @@ type facts struct {
 	bas    *basics.Analysis
 	used   map[string]bool
 	broken map[string]bool
+	eol    string
+}
+
+// lineEnd is the line end that text a fix inserts takes: the file's own
+// (CRLF where its first line ends so, as rules/fix reads it).
+func (f *facts) lineEnd() string {
+	if f.eol == "" {
+		f.eol = "\n"
+		src := f.part.Source.Src
+		if i := bytes.IndexByte(src, '\n'); i > 0 && src[i-1] == '\r' {
+			f.eol = "\r\n"
+		}
+	}
+	return f.eol
 }
 
 func (f *facts) kinematics() *kinematics.Result {

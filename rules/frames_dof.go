@@ -51,7 +51,13 @@ frame bore: position dia 0.1 datums A, B, C`,
 				if st.Constrains > 0 || repeatsLetters(a.Segment.Refs[:k], r) {
 					continue // a repeated letter is datum-duplicate's finding
 				}
-				p.ReportDiagnostic(Diagnostic{Span: r.Span, Message: redundantReason(a, k, p.Part.Tolerance()),
+				msg := redundantReason(a, k, p.Part.Tolerance())
+				if isSelfReference(fr, r) {
+					// One finding for the slip: say that the datum is the
+					// feature's own (datum-self-reference leaves it here).
+					msg = fmt.Sprintf("%s is the datum that '%s' itself establishes, so it relates the feature to itself, %s", refName(r), fr.Target.Name, strings.TrimPrefix(msg, refName(r)+" "))
+				}
+				p.ReportDiagnostic(Diagnostic{Span: r.Span, Message: msg,
 					Fixes: []Fix{{Message: "remove datum " + refName(r) + " from the frame", Edits: []Edit{dropRef(p.Part.Source, a.Segment, k)}}}})
 			}
 		})
@@ -292,6 +298,9 @@ func redundantReason(a *kinematics.Segment, k int, tol float64) string {
 // microradian and offsets to tol (about a millionth of the part's size), as
 // the engine decides ranks.
 func sameConstraint(d, e *model.Datum, tol float64) string {
+	if len(d.Targets) > 0 || len(e.Targets) > 0 {
+		return "" // targets remove what they touch, not what their feature would
+	}
 	fd, fe := d.Target.Feature, e.Target.Feature
 	if fd == fe && (d.Target.Member == e.Target.Member) {
 		return "is on the same feature as"
@@ -354,7 +363,7 @@ func joinAnd(s []string) string {
 // cylinder, a cone, or spheres (a common datum of two spheres is an axis).
 func establishesAxis(r *model.DatumRef) bool {
 	for _, d := range r.Datums {
-		if d == nil || !d.Target.Resolved() {
+		if d == nil || !d.Target.Resolved() || len(d.Targets) > 0 {
 			continue
 		}
 		switch k := d.Target.Feature.Kind; {

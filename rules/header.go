@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"strconv"
 	"strings"
 
 	"github.com/datumlint/datumlint/grammar/model"
@@ -42,8 +43,8 @@ Y14.5-2018. A drawing states both in its title block; the callout file must too.
 	Bad:    "part \"Bracket BR-7\"\nunits mm",
 	Good:   "part \"Bracket BR-7\"\nunits mm\nstandard asme-2018",
 	Run: func(p *Pass) {
-		if len(p.Part.Statements) == 0 && len(p.Part.Problems) > 0 {
-			return // nothing was read (a QIF document the reader refused): the syntax finding says why
+		if p.Part.NotText {
+			return // not a callouts file at all: its syntax finding says so, once
 		}
 		has := map[string]bool{}
 		for _, h := range p.Part.Headers {
@@ -78,7 +79,7 @@ Y14.5-2018. A drawing states both in its title block; the callout file must too.
 // HeaderDuplicate reports a header written twice or after a feature.
 var HeaderDuplicate = Register(&Rule{
 	ID:       "header-duplicate",
-	Summary:  "a `part`, `units` or `standard` statement written twice, or after the first feature",
+	Summary:  "a `part`, `units`, `standard` or `basis` statement written twice, or after the first feature",
 	Severity: Error,
 	Rationale: `The header states once, before any feature, what the whole file is read in. A second
 'units' or 'standard' line leaves a reader unsure which one governs the lines above it.`,
@@ -112,12 +113,19 @@ var HeaderDuplicate = Register(&Rule{
 // GeometryInvalid reports nominal geometry that cannot be what was meant.
 var GeometryInvalid = Register(&Rule{
 	ID:       "geometry-invalid",
-	Summary:  "nominal geometry that cannot be built: a width between faces that are not two parallel planes",
+	Summary:  "nominal geometry that cannot be built: a width between faces that are not two parallel planes, a datum target off its feature, a counterbore or countersink that does not fit its hole",
 	Severity: Error,
 	Rationale: `A width (slot or tab) is two opposed parallel faces; its mid-plane, the datum or the axis
 of its tolerance zone, exists only if the faces are parallel planes. A width given 'between'
-two features that are not parallel planes describes nothing a gauge could establish.`,
-	Source: "ASME Y14.5-2018, definitions (feature of size: two opposed parallel surfaces); ISO 14405-1:2016, features of linear size",
+two features that are not parallel planes describes nothing a gauge could establish.
+
+A datum target is a place on its datum feature: a point, a line or an area where the
+simulator touches the part. One that is not on the feature's nominal surface touches
+nothing, and one on a surface whose normal the model does not give (a free-form surface) must
+say along which direction it touches. A counterbore or a countersink is wider than its
+hole, a counterbore has a depth and a countersink an included angle between 0 and 180
+degrees (extension).`,
+	Source: "ASME Y14.5-2018, definitions (feature of size: two opposed parallel surfaces) and datum targets; ISO 14405-1:2016, features of linear size; ISO 5459:2011, datum targets",
 	Bad:    "feature top plane normal +z at (0, 0, 10)\nfeature side plane normal +x at (0, 0, 0)\nfeature web tab size 10 +-0.1 between top side",
 	Good:   "feature top plane normal +z at (0, 0, 10)\nfeature bottom plane normal -z at (0, 0, 0)\nfeature web tab size 10 +-0.1 between top bottom",
 	Run: func(p *Pass) {
@@ -126,5 +134,66 @@ two features that are not parallel planes describes nothing a gauge could establ
 				p.Report(e.Span, "%s", e.Message)
 			}
 		}
+		for _, t := range p.Part.Targets {
+			targetGeometry(p, t)
+		}
+		for _, f := range p.Part.Features {
+			holeGeometry(p, f)
+		}
 	},
 })
+
+// targetGeometry reports a datum target off its feature's nominal surface,
+// or one with no normal to be touched along.
+func targetGeometry(p *Pass, t *model.DatumTarget) {
+	if t.Broken || !t.On.Known() || !t.On.Feature.HasGeometry {
+		return
+	}
+	ends := []model.Vec{t.Point}
+	if t.Shape == model.TargetLine {
+		ends = append(ends, t.End)
+	}
+	for _, e := range ends {
+		if d, ok := t.On.DistanceFrom(e); ok && d > p.Part.Tolerance() {
+			p.Report(t.Span, "datum target %s is not on %s: %s is %s from its nominal surface; put the target on the feature it touches", t.Label, t.On.Name, vecText(e), numText(d))
+			return
+		}
+	}
+	if _, ok := t.On.NormalAt(t.Point); !ok && t.Normal.Norm() == 0 {
+		p.Report(t.Span, "datum target %s is on the %s %s, whose normal at the target the model does not give: write the direction it is touched along, e.g. `normal +z`", t.Label, t.On.Feature.Kind, t.On.Name)
+	}
+}
+
+// holeGeometry reports a counterbore or countersink that does not fit its
+// hole.
+func holeGeometry(p *Pass, f *model.Feature) {
+	if f.Broken {
+		return
+	}
+	hole := 0.0
+	if f.Size != nil {
+		hole = f.Size.Max()
+	}
+	if c := f.Counterbore; c != nil {
+		switch {
+		case c.Diameter.Nominal <= hole:
+			p.Report(c.Diameter.Span, "the counterbore of %s is %s across, not wider than the hole (%s at its largest): give the counterbore's diameter", f.Name, numText(c.Diameter.Nominal), numText(hole))
+		case c.Depth.Nominal <= 0:
+			p.Report(c.Depth.Span, "the counterbore of %s has no depth (%s): give its depth", f.Name, numText(c.Depth.Nominal))
+		}
+	}
+	if c := f.Countersink; c != nil {
+		switch {
+		case c.Diameter.Nominal <= hole:
+			p.Report(c.Diameter.Span, "the countersink of %s is %s across at the surface, not wider than the hole (%s at its largest): give the countersink's diameter", f.Name, numText(c.Diameter.Nominal), numText(hole))
+		case c.Angle.Nominal <= 0 || c.Angle.Nominal >= 180:
+			p.Report(c.Angle.Span, "a countersink's included angle lies between 0 and 180 degrees, found %sdeg", numText(c.Angle.Nominal))
+		}
+	}
+}
+
+func numText(x float64) string { return strconv.FormatFloat(x, 'g', 6, 64) }
+
+func vecText(v model.Vec) string {
+	return "(" + numText(v[0]) + ", " + numText(v[1]) + ", " + numText(v[2]) + ")"
+}

@@ -67,14 +67,15 @@ var SizeMissing = Register(&Rule{
 	Severity: Error,
 	Rationale: `A feature of size (slot, tab, hole, pin, socket, ball) is controlled first by its size
 tolerance, and its maximum and least material conditions, on which (M) and (L) and the
-envelope rule depend, come from its limits of size. Without a size those cannot be known.`,
+envelope rule depend, come from its limits of size. Without a size those cannot be known. A
+screw thread's designation gives its size (extension: a threaded hole or pin needs no SIZE).`,
 	Source: "ASME Y14.5-2018, features of size and limits of size (Rule #1); ISO 14405-1:2016",
 	Bad:    "feature bore hole axis +z at (60, 40, 0)",
 	Good:   "feature bore hole size 25 +0.05 -0 axis +z at (60, 40, 0)",
 	Run: func(p *Pass) {
 		for _, f := range append(p.Part.Features, p.Part.Duplicates...) {
-			if f.Broken || !f.Kind.IsFOS() || f.Size != nil {
-				continue
+			if f.Broken || !f.Kind.IsFOS() || f.Size != nil || f.Thread != "" {
+				continue // a thread's designation gives its size
 			}
 			p.Report(f.NameSpan, "the %s '%s' is a feature of size but has no size: add one after the kind, e.g. %s",
 				f.Kind, f.Name, sizeExample(f))
@@ -89,3 +90,41 @@ func sizeExample(f *model.Feature) string {
 	}
 	return fmt.Sprintf("feature %s %s size 10 +0 -0.1 ...", f.Name, f.Kind)
 }
+
+// EnvelopeRedundant reports (E) on a size where an ASME edition governs.
+var EnvelopeRedundant = Register(&Rule{
+	ID:       "envelope-redundant",
+	Summary:  "(E) on a size under an ASME edition, where Rule #1 already applies the envelope",
+	Severity: Info,
+	Rationale: `(E), the envelope requirement, is how ISO 14405-1 asks that a feature of size not exceed its
+boundary of perfect form at MMC, because ISO 8015 makes independency the default: without it
+size and form are independent. Under ASME Y14.5 the envelope is the default instead: Rule #1
+already bounds the form of every regular feature of size by its limits of size, so (E) adds
+nothing and is not an ASME symbol. It is harmless, so the finding is information only: the
+file may have been written for ISO, or copied from an ISO drawing, and the standard header is
+worth a look. (Where the drawing's notes override Rule #1, the envelope is meant and (E)
+records it.)`,
+	Source:  "ASME Y14.5-2018, Rule #1, limits of size and the envelope principle (from memory, section 5.8); ASME Y14.5-2009, Rule #1; ISO 14405-1:2016, envelope requirement (E); ISO 8015:2011, independency principle",
+	Bad:     "feature pilot pin size 20 -0.007 -0.02 (E) axis +z at (0, 0, 0)",
+	Good:    "feature pilot pin size 20 -0.007 -0.02 axis +z at (0, 0, 0)",
+	Fix:     "remove (E), which Rule #1 already gives",
+	FixSafe: true,
+	Run: func(p *Pass) {
+		if !p.Part.Standard.IsASME() {
+			return
+		}
+		for _, f := range p.Part.Features {
+			if f.Broken || f.Size == nil || !f.Size.Envelope {
+				continue
+			}
+			d := Diagnostic{Span: f.Size.EnvelopeSpan,
+				Message: fmt.Sprintf("under %s Rule #1 already bounds the form of '%s' by its envelope at MMC, so (E) adds nothing (it is how ISO 14405-1 asks for the envelope, where independency is the default): remove it, or if the file follows ISO, write `standard iso`", p.Part.Standard, f.Name)}
+			if d.Span.IsZero() {
+				d.Span = f.Size.Span // a reader that does not say where (E) is
+			} else {
+				d.Fixes = []Fix{{Message: "remove (E)", Safe: true, Edits: []Edit{deleteWithBlankBefore(p.Part.Source, d.Span)}}}
+			}
+			p.ReportDiagnostic(d)
+		}
+	},
+})

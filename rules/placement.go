@@ -66,7 +66,7 @@ func runMidplaneAmbiguous(p *Pass) {
 		for _, seg := range fr.Segments {
 			faceOf := map[*model.Feature]*model.Datum{} // width -> first face datum seen
 			for _, r := range seg.Refs {
-				for _, d := range r.Datums {
+				for i, d := range r.Datums {
 					if !d.Usable() || d.Target.Member != nil {
 						continue
 					}
@@ -75,14 +75,15 @@ func runMidplaneAmbiguous(p *Pass) {
 					if w == nil {
 						continue
 					}
-					if r.Material != "" && !atBoundary[d] {
+					mat, _ := r.Boundary(i)
+					if mat != "" && !atBoundary[d] {
 						// modifier-illegal leaves faces of a width to this
 						// rule, so that one finding explains the mix-up.
 						if ok, _ := boundaryAllowed(p, d, fr); !ok {
 							atBoundary[d] = true
-							bound := map[string]string{"M": "MMB", "L": "LMB"}[r.Material]
+							bound := map[string]string{"M": "MMB", "L": "LMB"}[mat]
 							p.ReportRelated(d.LetterSpan, []Related{{r.Span, "referenced at " + bound + " here"}}, "datum %s is on the face '%s' of the %s '%s' and is referenced at %s (line %d), but a single face has no material boundary, only the width has: attach the letter to the width, `datum %s on %s` (its mid-plane, which may be referenced at %s), or remove (%s)",
-								d.Letter, f.Name, w.Kind, w.Name, bound, r.Span.Start.Line, d.Letter, w.Name, bound, r.Material)
+								d.Letter, f.Name, w.Kind, w.Name, bound, r.Span.Start.Line, d.Letter, w.Name, bound, mat)
 						}
 					}
 					other := faceOf[w]

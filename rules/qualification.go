@@ -13,7 +13,7 @@ import (
 // secondary or tertiary.
 var DatumUnqualified = Register(&Rule{
 	ID:       "datum-unqualified",
-	Summary:  "a datum feature without the control its precedence needs: form as primary, orientation or location to the datums above it as secondary or tertiary",
+	Summary:  "a datum feature without the control its precedence needs: form as primary, a relation to the datums above it as secondary or tertiary",
 	Severity: Warning,
 	Rationale: `A datum is only as good as the feature that gives it. The primary datum feature is what
 the part rests on, so its form must be controlled: flatness for a plane; cylindricity, or
@@ -23,13 +23,21 @@ are accepted (common practice). A feature of size has its form limited by the en
 principle under ASME (Rule #1, ASME Y14.5-2018), but under ISO the independency principle
 (ISO 8015:2011) leaves form uncontrolled unless the size carries the envelope requirement (E)
 (ISO 14405-1) or the feature has an explicit form tolerance. A secondary or tertiary datum
-feature is set up against the datums of higher precedence, so it needs a tolerance that relates
-it to at least one of them: orientation, position, profile or runout. For a common datum (A-B)
-each feature of the pair is checked as if it were that datum (common practice).
+feature is set up against the datums of higher precedence, so something must relate it to at
+least one of them: a tolerance on it (orientation, position, profile or runout) that references
+one of them; or, through a datum above both, a tolerance on it and one on the higher datum's
+feature that reference the same datum (B and D both controlled to A are related through A);
+or, the other way round, a tolerance on the higher datum's feature that references it (the
+plane D profiled to A, B, C relates B and D). The last relates the two as well, but in the
+reverse of the precedence that the frame uses, so it is reported as information only; only a
+datum feature that none of these relates is a warning (ASME Y14.5-2018, datum feature
+controls; from memory, section 7). For a common datum (A-B) each feature of the pair is
+checked as if it were that datum (common practice).
 
 Checked per use: a letter that is primary in one frame and secondary in another must meet
-both requirements.`,
-	Source: "datum feature qualification, common practice; ASME Y14.5-2018, Rule #1 (envelope principle); ISO 8015:2011, independency principle; ISO 14405-1:2016, envelope requirement (E)",
+both requirements. A datum established by datum targets needs neither: the targets, at their
+basic places, are what the part is set up on (extension).`,
+	Source: "datum feature qualification, common practice; ASME Y14.5-2018, datum feature controls (from memory, section 7) and Rule #1 (envelope principle); ISO 8015:2011, independency principle; ISO 14405-1:2016, envelope requirement (E)",
 	Bad: `feature base plane normal -z at (0, 0, 0)
 feature rear plane normal -y at (0, 0, 0)
 feature top plane normal +z at (0, 0, 10)
@@ -85,7 +93,15 @@ func runDatumUnqualified(p *Pass) {
 		if !d.Usable() || len(uses[d]) == 0 || p.facts.brokenMentions()[f.Name] {
 			continue
 		}
+		if len(d.Targets) > 0 || f.Kind.IsElement() {
+			// A datum established by datum targets is qualified by the
+			// targets' basic places, not by a control of the whole
+			// surface (ASME Y14.5-2018, datum targets; from memory); a
+			// point, line or circle has no frame requirements of its own.
+			continue
+		}
 		var problems []string
+		var note *relationNote
 		primary, related := false, false
 		for _, u := range uses[d] {
 			switch {
@@ -95,16 +111,30 @@ func runDatumUnqualified(p *Pass) {
 					problems = append(problems, msg)
 				}
 			case u.index > 0 && !related:
-				if msg := relationProblem(p, d, u); msg != "" {
+				msg, n := relationProblem(p, d, u)
+				if msg != "" {
 					related = true // one finding per datum is enough to act on
 					problems = append(problems, msg)
+				} else if n != nil && note == nil {
+					note = n
 				}
 			}
 		}
 		if len(problems) > 0 {
 			p.Report(d.LetterSpan, "%s", strings.Join(problems, "; also, "))
 		}
+		if note != nil && !related {
+			p.Inform(d.LetterSpan, note.related, "%s", note.message)
+		}
 	}
+}
+
+// relationNote is information about a secondary or tertiary datum feature
+// that is related to a higher-precedence datum only the other way round: a
+// frame on the higher datum's feature references it.
+type relationNote struct {
+	message string
+	related []Related
 }
 
 // framesOnDatum returns the frames that control the datum's target: frames
@@ -157,7 +187,10 @@ var formChars = map[model.Kind]struct {
 
 // hasFormControl reports whether the target carries a form control for its
 // kind. Frames that reference the datum's own letter do not count (a
-// feature cannot be controlled relative to itself).
+// feature cannot be controlled relative to itself: datum-self-reference),
+// except form frames: a form tolerance wrongly given datums still controls
+// form, and datums-forbidden alone reports the datums (one mistake, one
+// finding).
 func hasFormControl(part *model.Part, t *model.Target, letter string) bool {
 	fc, ok := formChars[t.Feature.Kind]
 	if !ok {
@@ -165,7 +198,7 @@ func hasFormControl(part *model.Part, t *model.Target, letter string) bool {
 	}
 	have := map[model.Characteristic]bool{}
 	for _, fr := range framesOnDatum(part, t) {
-		if letter != "" && fr.RefersTo(letter) {
+		if letter != "" && fr.RefersTo(letter) && fr.Characteristic.Category() != model.Form {
 			continue
 		}
 		have[fr.Characteristic] = true
@@ -221,45 +254,112 @@ func primaryProblem(p *Pass, d *model.Datum, ref *model.DatumRef) string {
 		d.Letter, as, d.Target.Name, fmt.Sprintf(formChars[f.Kind].hint, exampleValue(p.Part, "0.02")))
 }
 
-// relationProblem says what a datum used as secondary or tertiary lacks:
-// a frame on it (orientation, position, profile or runout) that references
-// at least one of the datums before it in this use, or "".
-func relationProblem(p *Pass, d *model.Datum, u datumUse) string {
+// relationProblem says what a datum used as secondary or tertiary lacks,
+// or "" where something relates it to a datum before it in this use
+// (ASME Y14.5-2018, datum feature controls; from memory, section 7):
+//
+//   - a frame on it (orientation, location, profile or runout) that
+//     references one of the datums before it: the usual qualification;
+//   - through a datum above both: a frame on it and a frame on the
+//     feature of a datum before it reference one same datum (B and D both
+//     to A relate B and D through A's datum reference frame);
+//   - the other way round: a frame on the feature of a datum before it
+//     references this datum (the plane D profiled to A|B|C relates B and
+//     D). That relates them too, but in the reverse of the precedence this
+//     frame uses, so it is returned as a note (information), not a problem.
+//
+// Only a datum feature that none of these relates gets a problem.
+func relationProblem(p *Pass, d *model.Datum, u datumUse) (string, *relationNote) {
 	higher := map[string]bool{}
 	var names []string
+	var above []*model.Datum
 	for _, r := range u.higher {
 		if !r.Resolved() {
-			return "" // datum-undefined or name-undefined reports it
+			return "", nil // datum-undefined or name-undefined reports it
 		}
 		for _, hd := range r.Datums {
 			if hd == d {
-				return "" // a letter repeated in one frame: datum-duplicate reports it
+				return "", nil // a letter repeated in one frame: datum-duplicate reports it
 			}
+			above = append(above, hd)
 		}
 		names = append(names, r.Name)
 		for _, l := range r.Letters {
 			higher[l] = true
 		}
 	}
-	for _, fr := range framesOnDatum(p.Part, &d.Target) {
-		switch fr.Characteristic.Category() {
-		case model.Orientation, model.Location, model.Profile, model.Runout:
-		default:
+	mine := relatedLetters(p.Part, &d.Target)
+	for l := range mine {
+		if higher[l] {
+			return "", nil
+		}
+	}
+	for _, hd := range above {
+		if !hd.Usable() {
 			continue
 		}
-		for _, seg := range fr.Segments {
-			for _, r := range seg.Refs {
-				for _, l := range r.Letters {
-					if higher[l] {
-						return ""
-					}
-				}
+		for l := range relatedLetters(p.Part, &hd.Target) {
+			if mine[l] && l != d.Letter && l != hd.Letter {
+				return "", nil // through a datum above both
+			}
+		}
+	}
+	for _, hd := range above {
+		if !hd.Usable() {
+			continue
+		}
+		if fr := relatingFrame(p.Part, &hd.Target, d.Letter); fr != nil {
+			return "", &relationNote{
+				message: fmt.Sprintf("datum %s is used as %s to %s, and '%s' is related to %s only the other way round, by the %s of '%s' (datum %s) to %s on line %d: the two are related, so this is not a warning, but the order of that control is the reverse of this frame's precedence; to state it in this order, add e.g. `frame %s: %s datums %s`",
+					d.Letter, precedenceWord(u.index), strings.Join(names, ", "), d.Target.Name, hd.Letter, fr.Characteristic, hd.Target.Name, hd.Letter, d.Letter, fr.Span.Start.Line,
+					d.Target.Name, relationHint(p.Part, d, u.higher[0]), strings.Join(names, ", ")),
+				related: []Related{{fr.CharSpan, fmt.Sprintf("the %s that relates %s to %s", fr.Characteristic, hd.Letter, d.Letter)}},
 			}
 		}
 	}
 	return fmt.Sprintf("datum %s is used as %s to %s but no tolerance relates '%s' to %s; add e.g. `frame %s: %s datums %s`",
 		d.Letter, precedenceWord(u.index), strings.Join(names, ", "), d.Target.Name, orList(names),
-		d.Target.Name, relationHint(p.Part, d, u.higher[0]), strings.Join(names, ", "))
+		d.Target.Name, relationHint(p.Part, d, u.higher[0]), strings.Join(names, ", ")), nil
+}
+
+// relates reports whether a frame can relate its feature to the datums it
+// references: orientation, location, profile or runout.
+func relates(fr *model.Frame) bool {
+	switch fr.Characteristic.Category() {
+	case model.Orientation, model.Location, model.Profile, model.Runout:
+		return true
+	}
+	return false
+}
+
+// relatedLetters returns the datum letters that frames on the target relate
+// it to.
+func relatedLetters(part *model.Part, t *model.Target) map[string]bool {
+	out := map[string]bool{}
+	for _, fr := range framesOnDatum(part, t) {
+		if !relates(fr) {
+			continue
+		}
+		for _, seg := range fr.Segments {
+			for _, r := range seg.Refs {
+				for _, l := range r.Letters {
+					out[l] = true
+				}
+			}
+		}
+	}
+	return out
+}
+
+// relatingFrame returns the first frame on the target that relates it to
+// the letter, or nil.
+func relatingFrame(part *model.Part, t *model.Target, letter string) *model.Frame {
+	for _, fr := range framesOnDatum(part, t) {
+		if relates(fr) && fr.RefersTo(letter) {
+			return fr
+		}
+	}
+	return nil
 }
 
 func orList(names []string) string {

@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"github.com/datumlint/datumlint/grammar/source"
+	"github.com/datumlint/datumlint/grammar/spell"
 
 	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/rules/basics"
@@ -150,14 +151,26 @@ func (p *Pass) ReportRelated(sp source.Span, related []Related, format string, a
 	p.ReportDiagnostic(Diagnostic{Span: sp, Related: related, Message: fmt.Sprintf(format, args...)})
 }
 
+// Inform records a finding at info severity, whatever the rule's default:
+// an advisory finding of a rule whose other findings are warnings or
+// errors (a refinement that is legal but unusual). The configuration can
+// lower it further or turn the rule off, never raise it above info.
+func (p *Pass) Inform(sp source.Span, related []Related, format string, args ...any) {
+	p.ReportDiagnostic(Diagnostic{Span: sp, Related: related, Severity: Info, Message: fmt.Sprintf(format, args...)})
+}
+
 // ReportDiagnostic records a finding given as data (with related places
-// and fixes); the file, rule and severity are the pass's.
+// and fixes); the file and rule are the pass's. Its severity is the
+// rule's default unless the rule set a lower one (see Inform).
 func (p *Pass) ReportDiagnostic(d Diagnostic) {
 	sp := d.Span
 	if sp.End.Line == 0 || sp.End.Before(sp.Start) {
 		sp.End = source.Pos{Line: sp.Start.Line, Col: sp.Start.Col + 1}
 	}
-	d.Span, d.File, d.Rule, d.Severity = sp, p.Part.Source.Name, p.Rule.ID, p.Rule.Severity
+	if d.Severity == Off || d.Severity > p.Rule.Severity {
+		d.Severity = p.Rule.Severity
+	}
+	d.Span, d.File, d.Rule = sp, p.Part.Source.Name, p.Rule.ID
 	*p.out = append(*p.out, d)
 }
 
@@ -185,6 +198,32 @@ func All() []*Rule {
 
 // Lookup returns the rule with the identifier, or nil.
 func Lookup(id string) *Rule { return registry[id] }
+
+// IDs returns every rule identifier, sorted.
+func IDs() []string {
+	all := All()
+	out := make([]string, len(all))
+	for i, r := range all {
+		out[i] = r.ID
+	}
+	return out
+}
+
+// Suggest returns the rule identifier that an unknown one probably meant,
+// or "": the same words in another case or joined by '_' or spaces
+// (Basic-Missing, basic_missing), or a typo of at most two edits
+// (basic-missng). Every place that takes a rule identifier (explain,
+// --enable and --disable, allow comments, .datumlint.toml) offers it.
+func Suggest(id string) string {
+	norm := strings.NewReplacer("_", "-", " ", "-").Replace(strings.ToLower(strings.TrimSpace(id)))
+	if Lookup(norm) != nil {
+		return norm
+	}
+	if norm == "" {
+		return ""
+	}
+	return spell.Nearest(norm, IDs())
+}
 
 // Validate reports what is missing from a rule's documentation.
 func Validate(r *Rule) error {

@@ -12,6 +12,7 @@ import (
 
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/lint"
+	"github.com/datumlint/datumlint/rules/longtest"
 )
 
 // want is one expected finding, written in a test file as a trailing
@@ -141,7 +142,13 @@ func TestRuleData(t *testing.T) {
 					}
 				}
 			}
-			checkWants(t, f, src, rules.Check(grammar.Read(f, src), s))
+			ds := rules.Check(grammar.Read(f, src), s)
+			checkWants(t, f, src, ds)
+			for _, d := range ds {
+				if r := rules.Lookup(d.Rule); len(d.Fixes) > 0 && (r == nil || r.Fix == "") {
+					t.Errorf("%s offers a fix that its rule does not document (Rule.Fix)", d.Rule)
+				}
+			}
 		})
 	}
 }
@@ -212,13 +219,15 @@ func count(rule, src string) int {
 	return n
 }
 
-// TestNoPanicOnEveryPrefix feeds every prefix of the test files (cut at any
-// byte) through the whole check: bad input yields findings, never a panic.
+// TestNoPanicOnEveryPrefix feeds prefixes of the test files (cut at every
+// 7th byte in the long run, every 31st otherwise) through the whole check:
+// bad input yields findings, never a panic.
 func TestNoPanicOnEveryPrefix(t *testing.T) {
 	files, _ := filepath.Glob(filepath.Join("testdata", "*.callouts"))
+	step := longtest.N(31, 7)
 	for _, f := range files {
 		src, _ := os.ReadFile(f)
-		for i := 0; i < len(src); i += 7 {
+		for i := 0; i < len(src); i += step {
 			for _, d := range rules.Check(grammar.Read(f, src[:i]), nil) {
 				if d.Rule == rules.InternalRule {
 					t.Fatalf("%s cut at %d: %s", f, i, d.Message)

@@ -14,6 +14,7 @@ import (
 	"github.com/datumlint/datumlint/rules/dof"
 	"github.com/datumlint/datumlint/rules/kinematics"
 	"github.com/datumlint/datumlint/rules/lint"
+	"github.com/datumlint/datumlint/rules/setup"
 )
 
 func newDofCmd() *cobra.Command {
@@ -23,7 +24,10 @@ func newDofCmd() *cobra.Command {
 		Short: "Show the degrees of freedom each datum reference removes, frame by frame",
 		Long: `For every control frame of FILE, in file order: each datum reference with the motions it
 removes (in precedence order), the motions the frame leaves free, and which of those move the
-tolerance zone (for orientation tolerances, which free rotations turn it).
+tolerance zone (for orientation tolerances, which free rotations turn it). With --format json
+each frame also carries its inspection set-up under "simulators": the datum feature simulator
+of each reference, its size at MMB or LMB, how it stands to those before it and the least
+contact it needs.
 
 Exit 0: every statement parsed; 1: the file has syntax errors (printed on stderr; the frames
 that were read are still shown); 2: usage error or an unreadable file.`,
@@ -33,36 +37,80 @@ that were read are still shown); 2: usage error or an unreadable file.`,
 		},
 	}
 	cmd.Flags().StringVar(&format, "format", "text", "output format: text or json")
+	if err := cmd.RegisterFlagCompletionFunc("format", fixedValues("text", "one table per frame (the default)", "json", "one object per frame")); err != nil {
+		panic(err)
+	}
 	return cmd
 }
 
-// dofRef is one datum reference in `dof --format json`.
+// dofRef is one datum reference in `dof --format json`: the contract's
+// keys, and the motions it removes (an extension: docs/notation.md, "The
+// dof output"), named as in free and zone_free.
 type dofRef struct {
-	Ref        string `json:"ref"`
-	Constrains int    `json:"constrains"`
+	Ref        string   `json:"ref"`
+	Constrains int      `json:"constrains"`
+	Removes    []string `json:"removes"`
 }
 
 // dofSegment is a composite lower segment (an extension of version 0:
 // docs/notation.md, "The dof output").
 type dofSegment struct {
-	Line     int      `json:"line"`
-	Datums   []dofRef `json:"datums"`
-	Free     []string `json:"free"`
-	ZoneFree []string `json:"zone_free"`
-	Error    string   `json:"error,omitempty"`
+	Line       int            `json:"line"`
+	Datums     []dofRef       `json:"datums"`
+	Free       []string       `json:"free"`
+	ZoneFree   []string       `json:"zone_free"`
+	Simulators []dofSimulator `json:"simulators"`
+	Error      string         `json:"error,omitempty"`
+}
+
+// dofSimulator is the datum feature simulator of one reference, from
+// rules/setup (an extension: docs/notation.md, "The dof output").
+type dofSimulator struct {
+	Ref         string          `json:"ref"`
+	Precedence  string          `json:"precedence"`
+	Boundary    string          `json:"boundary"`
+	Kind        string          `json:"kind"`
+	Description string          `json:"description"`
+	Features    []dofSimFeature `json:"features"`
+	Relations   []dofRelation   `json:"relations"`
+	Constrains  int             `json:"constrains"`
+	Contact     dofContact      `json:"contact"`
+}
+
+type dofSimFeature struct {
+	Datum    string   `json:"datum"`
+	Feature  string   `json:"feature"`
+	Shape    string   `json:"shape"`
+	Members  int      `json:"members"`
+	Size     *float64 `json:"size,omitempty"`
+	SizeFrom string   `json:"size_from,omitempty"`
+}
+
+type dofRelation struct {
+	To          string   `json:"to"`
+	Orientation string   `json:"orientation,omitempty"`
+	Angle       *float64 `json:"angle,omitempty"`
+	Distance    *float64 `json:"distance,omitempty"`
+	Text        string   `json:"text"`
+}
+
+type dofContact struct {
+	Points int    `json:"points"`
+	Text   string `json:"text"`
 }
 
 // dofFrame is the contract's object for one frame; field order follows the
 // contract.
 type dofFrame struct {
-	Feature        string       `json:"feature"`
-	Line           int          `json:"line"`
-	Characteristic string       `json:"characteristic"`
-	Datums         []dofRef     `json:"datums"`
-	Free           []string     `json:"free"`
-	ZoneFree       []string     `json:"zone_free"`
-	Composite      []dofSegment `json:"composite,omitempty"`
-	Error          string       `json:"error,omitempty"`
+	Feature        string         `json:"feature"`
+	Line           int            `json:"line"`
+	Characteristic string         `json:"characteristic"`
+	Datums         []dofRef       `json:"datums"`
+	Free           []string       `json:"free"`
+	ZoneFree       []string       `json:"zone_free"`
+	Simulators     []dofSimulator `json:"simulators"`
+	Composite      []dofSegment   `json:"composite,omitempty"`
+	Error          string         `json:"error,omitempty"`
 }
 
 func runDof(stdout, stderr io.Writer, path, format string) error {
@@ -85,10 +133,11 @@ func runDof(stdout, stderr io.Writer, path, format string) error {
 	}
 	part := lint.Read(path, src)
 	kin := kinematics.Analyze(part)
+	setups := setup.Analyze(part, kin)
 
 	frames := make([]dofFrame, 0, len(part.Frames))
 	for _, fr := range part.Frames {
-		frames = append(frames, describeFrame(kin, fr))
+		frames = append(frames, describeFrame(kin, setups, fr))
 	}
 	if format == "json" {
 		enc := json.NewEncoder(stdout)
@@ -122,24 +171,58 @@ func unwrapPathErr(err error) error {
 	return err
 }
 
-func describeFrame(kin *kinematics.Result, fr *model.Frame) dofFrame {
+func describeFrame(kin *kinematics.Result, setups *setup.Result, fr *model.Frame) dofFrame {
 	out := dofFrame{Feature: fr.Target.Name, Line: fr.Span.Start.Line, Characteristic: string(fr.Characteristic)}
 	segs := kin.Segments(fr)
-	up := describeSegment(segs[0])
-	out.Datums, out.Free, out.ZoneFree, out.Error = up.Datums, up.Free, up.ZoneFree, up.Error
+	up := describeSegment(segs[0], setups)
+	out.Datums, out.Free, out.ZoneFree, out.Simulators, out.Error = up.Datums, up.Free, up.ZoneFree, up.Simulators, up.Error
 	for _, a := range segs[1:] {
-		out.Composite = append(out.Composite, describeSegment(a))
+		out.Composite = append(out.Composite, describeSegment(a, setups))
 	}
 	return out
 }
 
-func describeSegment(a *kinematics.Segment) dofSegment {
-	out := dofSegment{Line: a.Segment.Span.Start.Line, Datums: []dofRef{}, Free: names(a.Free()), ZoneFree: names(a.ZoneFree())}
+func describeSegment(a *kinematics.Segment, setups *setup.Result) dofSegment {
+	out := dofSegment{Line: a.Segment.Span.Start.Line, Datums: []dofRef{}, Free: names(a.Free()), ZoneFree: names(a.ZoneFree()),
+		Simulators: simulators(setups.Of(a.Segment.Refs))}
 	if !a.Resolved {
 		out.Error = a.Problem
 	}
 	for _, st := range a.Steps() {
-		out.Datums = append(out.Datums, dofRef{Ref: st.Name, Constrains: st.Constrains})
+		out.Datums = append(out.Datums, dofRef{Ref: st.Name, Constrains: st.Constrains, Removes: names(st.Removed)})
+	}
+	return out
+}
+
+// simulators is a set-up in the JSON's shape: empty for a frame without
+// datums or one whose datums could not be worked out.
+func simulators(s *setup.Setup) []dofSimulator {
+	out := []dofSimulator{}
+	if s == nil {
+		return out
+	}
+	for _, r := range s.References {
+		sim := dofSimulator{Ref: r.Ref, Precedence: r.PrecedenceWord(), Boundary: r.BoundaryWord(), Kind: r.Kind(),
+			Description: r.Describe(), Features: []dofSimFeature{}, Relations: []dofRelation{},
+			Constrains: r.Constrains, Contact: dofContact{Points: r.Contact.Points, Text: r.Contact.Text}}
+		for _, e := range r.Elements {
+			f := dofSimFeature{Datum: e.Letter, Feature: e.Feature, Shape: e.Shape.String(), Members: e.Members, SizeFrom: e.From}
+			if e.SizeKnown {
+				f.Size = &e.Size
+			}
+			sim.Features = append(sim.Features, f)
+		}
+		for _, rel := range r.Relations {
+			j := dofRelation{To: rel.To, Orientation: rel.Orientation, Text: rel.Text()}
+			if rel.HasAngle {
+				j.Angle = &rel.Angle
+			}
+			if rel.HasDistance {
+				j.Distance = &rel.Distance
+			}
+			sim.Relations = append(sim.Relations, j)
+		}
+		out = append(out, sim)
 	}
 	return out
 }
@@ -196,6 +279,9 @@ func segmentLabel(seg *model.Segment) string {
 		b.WriteString(seg.Zone + " ")
 	}
 	fmt.Fprintf(&b, "%g", seg.Value)
+	if seg.PerUnit != nil {
+		b.WriteString("/" + seg.PerUnit.Text)
+	}
 	for _, m := range seg.Modifiers {
 		b.WriteString(" (" + m.Letter + ")")
 		if m.Letter == "P" || m.Letter == "U" {
@@ -211,17 +297,20 @@ func segmentLabel(seg *model.Segment) string {
 		if k > 0 {
 			b.WriteString(", ")
 		}
-		b.WriteString(strings.Join(r.Letters, "-"))
-		if r.Material != "" {
-			b.WriteString("(" + r.Material + ")")
-		}
+		b.WriteString(r.Label())
 	}
 	return b.String()
 }
 
+// motionList names motions for the text table, in its words
+// (dof.Phrase: "translation along x", "rotation about z through ...").
 func motionList(ms []dof.Motion) string {
 	if len(ms) == 0 {
 		return "none"
 	}
-	return strings.Join(names(ms), ", ")
+	out := make([]string, len(ms))
+	for i, m := range ms {
+		out[i] = dof.Phrase(m.Name)
+	}
+	return strings.Join(out, ", ")
 }

@@ -29,7 +29,7 @@ func (f fixFlags) on() bool { return f.fix || f.all }
 // syntax finding is never written. It returns the fixed text of each file
 // it changed, which with --diff stands in for the file in the check.
 func runFixes(stdout, stderr io.Writer, f fixFlags, args []string, cfg *configSetup, maxBytes int64) (map[string][]byte, error) {
-	files, _ := lint.Collect(args, cfg.exclude) // unreadable paths are reported by the check
+	files := lint.Collect(args, cfg.exclude).Files // unreadable paths are reported by the check
 	fixed := map[string][]byte{}
 	for _, path := range files {
 		settings, err := cfg.settingsFor(path)

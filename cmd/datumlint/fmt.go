@@ -33,7 +33,8 @@ Folders are walked for *.callouts (QIF files are left alone); with no PATH the c
 standard input. For one file, stdout is exactly its canonical text; for several, each is
 preceded by a line "==> PATH <==" and followed by a blank line.
 
-  -w       rewrite the files that change, atomically (temporary file and rename, mode kept)
+  -w       rewrite the files that change, atomically (temporary file and rename; mode and
+           line ends kept)
   --check  list the files that would change, and exit 1 if there are any
   --diff   print a unified diff (a/PATH, b/PATH) of what would change
 
@@ -95,8 +96,9 @@ func runFmt(stdout, stderr io.Writer, stdin io.Reader, f *fmtFlags, args []strin
 		}
 		results = append(results, r)
 	} else {
-		files, errs := lint.Collect(paths, nil)
-		for _, e := range errs {
+		found := lint.Collect(paths, nil)
+		printWarnings(stderr, found.Warnings)
+		for _, e := range found.Errors {
 			fmt.Fprintf(stderr, "datumlint: %s\n", e)
 			fail(2)
 		}
@@ -104,7 +106,7 @@ func runFmt(stdout, stderr io.Writer, stdin io.Reader, f *fmtFlags, args []strin
 		for _, p := range paths {
 			named[filepath.Clean(p)] = true
 		}
-		for _, p := range files {
+		for _, p := range found.Files {
 			if !lint.Editable(p) {
 				// fmt lays out the notation; a QIF file is never rewritten.
 				if named[filepath.Clean(p)] {

@@ -114,3 +114,47 @@ func mustStat(t *testing.T, p string) os.FileInfo {
 	}
 	return st
 }
+
+// -w keeps the file's line ends and mode: a file saved with CR LF is
+// rewritten with CR LF (and its byte-order mark), and --check finds a CR LF
+// file that is otherwise canonical already canonical.
+func TestFmtWriteKeepsLineEnds(t *testing.T) {
+	dir := t.TempDir()
+	crlf := func(s string) string { return strings.ReplaceAll(s, "\n", "\r\n") }
+	files := map[string]struct{ in, want string }{
+		"crlf.callouts": {crlf(fmtMessy), crlf(fmtCanonical)},
+		"bom.callouts":  {"\ufeff" + crlf(fmtMessy), "\ufeff" + crlf(fmtCanonical)},
+		"lf.callouts":   {fmtMessy, fmtCanonical},
+	}
+	for name, f := range files {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, []byte(f.in), 0o600); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.Chmod(p, 0o751); err != nil {
+			t.Fatal(err)
+		}
+	}
+	var out, errb bytes.Buffer
+	if code := run([]string{"fmt", "-w", dir}, &out, &errb); code != 0 {
+		t.Fatalf("exit %d: %s", code, errb.String())
+	}
+	for name, f := range files {
+		p := filepath.Join(dir, name)
+		if b, _ := os.ReadFile(p); string(b) != f.want {
+			t.Errorf("%s after -w: %q, want %q", name, b, f.want)
+		}
+		if st := mustStat(t, p); st.Mode().Perm() != 0o751 {
+			t.Errorf("%s: mode %v after -w, want 0751", name, st.Mode().Perm())
+		}
+	}
+	out.Reset()
+	if code := run([]string{"fmt", "--check", dir}, &out, &errb); code != 0 || out.Len() != 0 {
+		t.Errorf("--check after -w: exit %d, listed %q; want 0 and nothing", code, out.String())
+	}
+	// Printed to stdout, the canonical text keeps the line ends as well.
+	out.Reset()
+	if code := run([]string{"fmt", filepath.Join(dir, "crlf.callouts")}, &out, &errb); code != 0 || out.String() != crlf(fmtCanonical) {
+		t.Errorf("fmt of a CR LF file: exit %d, %q", code, out.String())
+	}
+}

@@ -79,6 +79,22 @@ func TestCheckJSONOnHostileFiles(t *testing.T) {
 	}
 }
 
+// A binary file is one finding in the text output too, with no source
+// line: its bytes would be sent to the terminal raw.
+func TestCheckTextOnBinaryFile(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "binary.callouts")
+	os.WriteFile(path, []byte("\x7fELF\x02\x01\x01\x00"+strings.Repeat("\x00\xff", 500)), 0o644)
+	var stdout, stderr bytes.Buffer
+	code := run([]string{"check", "--color", "never", path}, &stdout, &stderr)
+	want := path + ":1:1: error syntax: this file holds binary data (a NUL byte), not callout text; check that the right file was named\n"
+	if code != 1 || stdout.String() != want {
+		t.Errorf("exit %d, stdout %q; want 1 and exactly %q", code, stdout.String(), want)
+	}
+	if stderr.String() != "1 file checked: 1 error\n" {
+		t.Errorf("stderr %q, want the one-line summary", stderr.String())
+	}
+}
+
 func TestCheckReportsUnreadablePathsAndChecksTheRest(t *testing.T) {
 	dir, _ := hostileTree(t)
 	os.Mkdir(filepath.Join(dir, "folder.callouts"), 0o755)

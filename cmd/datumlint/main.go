@@ -5,7 +5,6 @@ package main
 
 import (
 	"errors"
-	"fmt"
 	"io"
 	"os"
 
@@ -39,7 +38,7 @@ notes, local codes and qualified engineering judgement decide.`,
 	}
 	root.SetOut(stdout)
 	root.SetErr(stderr)
-	root.AddCommand(newCheckCmd(), newDofCmd(), newFmtCmd(), newImportCmd(), newRulesCmd(), newExplainCmd())
+	root.AddCommand(newCheckCmd(), newReportCmd(), newDofCmd(), newFmtCmd(), newImportCmd(), newRulesCmd(), newExplainCmd(), newLSPCmd())
 	return root
 }
 
@@ -53,11 +52,11 @@ func run(args []string, stdout, stderr io.Writer) int {
 	var ee *exitError
 	if errors.As(err, &ee) {
 		if ee.msg != "" {
-			fmt.Fprintln(stderr, "datumlint:", ee.msg)
+			printError(stderr, "", ee)
 		}
 		return ee.code
 	}
-	fmt.Fprintln(stderr, "datumlint:", err)
+	printError(stderr, "", err)
 	return 2
 }
 

@@ -13,6 +13,7 @@ import (
 	"strings"
 	"unicode"
 
+	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/grammar/source"
 
 	"github.com/datumlint/datumlint/rules"
@@ -27,7 +28,6 @@ import (
 const (
 	sarifSchema    = "https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/schemas/sarif-schema-2.1.0.json"
 	informationURI = "https://github.com/datumlint/datumlint"
-	rulesDocURI    = informationURI + "/blob/main/docs/rules.md"
 	srcRoot        = "SRCROOT"
 	// fingerprintKey names our partialFingerprints entry (SARIF §3.27.17:
 	// a versioned name, so a change of method does not match old results).
@@ -281,7 +281,7 @@ func sarifRuleOf(r *rules.Rule) sarifRule {
 		Properties:           map[string]any{"source": r.Source},
 	}
 	if r != internalRule {
-		out.HelpURI = rulesDocURI + "#" + r.ID
+		out.HelpURI = ruledoc.URL(r.ID)
 	}
 	return out
 }
@@ -356,7 +356,7 @@ func regionOf(sp source.Span) *sarifRegion {
 }
 
 // statementText gives the normalised text of the statement holding a line
-// of a file (model.Statement.Text: comments removed, runs of spaces made
+// of a file (model.StatementText: comments removed, runs of spaces made
 // one). A line outside every statement (a comment line, an empty file)
 // stands for itself.
 func statementText(f *lint.File, line int) string {
@@ -366,7 +366,7 @@ func statementText(f *lint.File, line int) string {
 	st := f.Statements
 	i := sort.Search(len(st), func(i int) bool { return st[i].Last >= line })
 	if i < len(st) && st[i].First <= line {
-		return st[i].Text
+		return model.StatementText(f.Source, st[i])
 	}
 	text := strings.TrimRight(string(f.Source.LineBytes(line)), "\r")
 	if line == 1 {

@@ -3,7 +3,6 @@ package main
 import (
 	"fmt"
 	"io"
-	"os"
 	"strings"
 	"unicode/utf8"
 
@@ -14,19 +13,45 @@ import (
 	"github.com/datumlint/datumlint/rules/lint"
 )
 
+// autoNoColor is fatih/color's own choice, made when the program starts:
+// no colour where NO_COLOR is set (and not empty), TERM is dumb or standard
+// output is not a terminal.
+var autoNoColor = color.NoColor
+
+// setColor applies --color. The explicit flag wins over the environment
+// (the convention of no-color.org: NO_COLOR is a user's default, which a
+// flag given on the command line overrides): always colours even with
+// NO_COLOR set; auto honours it.
 func setColor(mode string) error {
 	switch mode {
 	case "auto":
-		// fatih/color already turns colour off for NO_COLOR, TERM=dumb and
-		// output that is not a terminal.
+		color.NoColor = autoNoColor
 	case "always":
-		color.NoColor = os.Getenv("NO_COLOR") != ""
+		color.NoColor = false
 	case "never":
 		color.NoColor = true
 	default:
 		return fmt.Errorf("--color takes auto, always or never, not %q", mode)
 	}
+	// A colour made while NO_COLOR is set remembers it; say again, to each,
+	// what was decided.
+	for _, c := range palette() {
+		if color.NoColor {
+			c.DisableColor()
+		} else {
+			c.EnableColor()
+		}
+	}
 	return nil
+}
+
+// palette lists the colours of the text output.
+func palette() []*color.Color {
+	out := []*color.Color{posColor, ruleColor, caretColor}
+	for _, c := range sevColor {
+		out = append(out, c)
+	}
+	return out
 }
 
 var (
@@ -62,7 +87,7 @@ func writeText(w io.Writer, res *lint.Result) error {
 			if d.Span.Start.Line == 1 {
 				line = strings.TrimPrefix(line, "\ufeff")
 			}
-			if len(line) > 400 || !utf8.ValidString(line) {
+			if len(line) > 400 || !utf8.ValidString(line) || hasControl(line) {
 				continue // an overlong or binary line helps no one on a terminal
 			}
 			fmt.Fprintf(w, "    %s\n", line)
@@ -70,6 +95,17 @@ func writeText(w io.Writer, res *lint.Result) error {
 		}
 	}
 	return nil
+}
+
+// hasControl reports a control character other than a tab, which a
+// terminal would act on rather than show.
+func hasControl(s string) bool {
+	for _, r := range s {
+		if r < 0x20 && r != '\t' || r == 0x7f {
+			return true
+		}
+	}
+	return false
 }
 
 // underline builds "    ^^^^" under columns [from, to) of line, keeping

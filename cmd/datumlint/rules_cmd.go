@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"io"
 	"strings"
 	"text/tabwriter"
 
@@ -16,30 +17,45 @@ func newRulesCmd() *cobra.Command {
 		Short: "List every rule with its default severity and summary",
 		Args:  cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			tw := tabwriter.NewWriter(cmd.OutOrStdout(), 0, 4, 2, ' ', 0)
-			for _, r := range rules.All() {
-				fmt.Fprintf(tw, "%s\t%s\t%s\n", r.ID, r.Severity, strings.ReplaceAll(r.Summary, "`", ""))
-			}
-			return tw.Flush()
+			return listRules(cmd.OutOrStdout())
 		},
 	}
 }
 
+// listRules prints every rule: identifier, default severity, summary.
+func listRules(w io.Writer) error {
+	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)
+	for _, r := range rules.All() {
+		fmt.Fprintf(tw, "%s\t%s\t%s\n", r.ID, r.Severity, strings.ReplaceAll(r.Summary, "`", ""))
+	}
+	return tw.Flush()
+}
+
 func newExplainCmd() *cobra.Command {
 	return &cobra.Command{
-		Use:   "explain RULE",
+		Use:   "explain [RULE]",
 		Short: "Explain a rule: summary, rationale with its source, a bad and a good example",
-		Args:  cobra.ExactArgs(1),
-		ValidArgsFunction: func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
-			var ids []string
-			for _, r := range rules.All() {
-				ids = append(ids, r.ID)
+		Long: `Explain a rule: its summary, rationale with its published source, a bad and a good
+example. With no RULE, list the rules (as datumlint rules does). A rule named almost right
+(another case, '_' for '-', a typo) gets a did-you-mean; an unknown rule exits 2.`,
+		Args: cobra.MaximumNArgs(1),
+		ValidArgsFunction: func(_ *cobra.Command, args []string, toComplete string) ([]string, cobra.ShellCompDirective) {
+			if len(args) > 0 {
+				return nil, cobra.ShellCompDirectiveNoFileComp
 			}
+			ids, _ := ruleIDs(nil, nil, toComplete)
 			return ids, cobra.ShellCompDirectiveNoFileComp
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if len(args) == 0 {
+				fmt.Fprintln(cmd.ErrOrStderr(), "datumlint explain RULE explains one of these rules:")
+				return listRules(cmd.OutOrStdout())
+			}
 			r := rules.Lookup(args[0])
 			if r == nil {
+				if sg := rules.Suggest(args[0]); sg != "" {
+					return &exitError{2, fmt.Sprintf("no rule %q; did you mean %q? (datumlint explain %s)", args[0], sg, sg)}
+				}
 				return &exitError{2, fmt.Sprintf("no rule %q: `datumlint rules` lists them", args[0])}
 			}
 			fmt.Fprint(cmd.OutOrStdout(), Explain(r))

@@ -99,9 +99,22 @@ func (p *Part) Lookup(name string, sp source.Span) *Target {
 	return t
 }
 
-// Finish indexes the part and works out its extent; a reader calls it once,
-// after the last element is added.
+// AddTarget adds a datum target; Finish links it to the datum of its
+// letter.
+func (p *Part) AddTarget(t *DatumTarget) { p.Targets = append(p.Targets, t) }
+
+// Finish indexes the part, links datum targets to their datums and works
+// out the part's extent; a reader calls it once, after the last element is
+// added.
 func (p *Part) Finish() {
+	for _, d := range p.Datums {
+		d.Targets = nil
+	}
+	for _, t := range p.Targets {
+		if d := p.byLetter[t.Letter]; d != nil && t.Letter != "" {
+			d.Targets = append(d.Targets, t)
+		}
+	}
 	p.framesOn = make(map[*Feature][]*Frame, len(p.Features))
 	for _, fr := range p.Frames {
 		if f := fr.Target.Feature; f != nil {

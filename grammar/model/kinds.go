@@ -15,9 +15,17 @@ const (
 	Cone
 	Extrusion
 	Surface
+	// Point, Line and Circle are elements of the part's geometry that
+	// dimensions and datum targets reach (a vertex, a straight or a
+	// circular edge, a line on a surface, a datum target point or line):
+	// not surfaces and not features of size, with no frame requirements
+	// of their own.
+	Point
+	Line
+	Circle
 )
 
-var kindNames = []string{"unknown", "plane", "slot", "tab", "hole", "pin", "socket", "ball", "cone", "extrusion", "surface"}
+var kindNames = []string{"unknown", "plane", "slot", "tab", "hole", "pin", "socket", "ball", "cone", "extrusion", "surface", "point", "line", "circle"}
 
 // KindWords lists the feature kinds as written.
 var KindWords = kindNames[1:]
@@ -43,6 +51,14 @@ func (k Kind) IsFOS() bool {
 	}
 	return false
 }
+
+// IsElement reports whether the kind is a point, a line or a circle: an
+// element of the geometry rather than a surface (see Point).
+func (k Kind) IsElement() bool { return k == Point || k == Line || k == Circle }
+
+// TakesSize reports whether a feature of the kind may be given a size: a
+// feature of size, and a circle, whose size is its diameter.
+func (k Kind) TakesSize() bool { return k.IsFOS() || k == Circle }
 
 // Internal reports whether the material is outside the feature (a slot, a
 // hole, a socket): its MMC is its smallest size.
@@ -74,9 +90,77 @@ func (k Kind) DatumGives() string {
 		return "frame free along its direction"
 	case Surface:
 		return "full frame"
+	case Point:
+		return "point"
+	case Line:
+		return "line"
+	case Circle:
+		return "axis and centre"
 	}
 	return "unknown"
 }
+
+// Basis says which of the model's nominal values are basic.
+type Basis int
+
+const (
+	// DrawingBasis: only what is written basic (a basic dimension, or an
+	// implied basic zero, 0 or 90 degrees) is; the default.
+	DrawingBasis Basis = iota
+	// ModelBasis: every nominal location and angle of the model is basic,
+	// as in a model-based definition (ASME Y14.41-2019, model values are
+	// basic; from memory).
+	ModelBasis
+)
+
+// BasisWords lists the bases as written.
+var BasisWords = []string{"drawing", "model"}
+
+func (b Basis) String() string { return BasisWords[b] }
+
+// TargetShape is what a datum target is (ASME Y14.5-2018 and ISO
+// 5459:2011, datum targets).
+type TargetShape int
+
+const (
+	TargetShapeUnknown TargetShape = iota
+	TargetPoint
+	TargetLine
+	TargetArea
+)
+
+var targetShapeNames = []string{"unknown", "point", "line", "area"}
+
+// TargetShapeWords lists the target shapes as written.
+var TargetShapeWords = targetShapeNames[1:]
+
+func (t TargetShape) String() string { return targetShapeNames[t] }
+
+// ParseTargetShape reads a target shape word.
+func ParseTargetShape(w string) TargetShape {
+	for i, n := range targetShapeNames[1:] {
+		if n == w {
+			return TargetShape(i + 1)
+		}
+	}
+	return TargetShapeUnknown
+}
+
+// Extents of a profile tolerance (ASME Y14.5-2018, all around, all over,
+// between; ISO 1101:2017, all around).
+const (
+	AllAround = "all-around"
+	AllOver   = "all-over"
+	Between   = "between"
+)
+
+// Thread diameters a tolerance on a screw thread may apply to; the pitch
+// diameter is the default (ASME Y14.5-2018, screw threads; from memory).
+const (
+	MajorDiameter = "major-dia"
+	MinorDiameter = "minor-dia"
+	PitchDiameter = "pitch-dia"
+)
 
 // Units of the file.
 type Units int

@@ -11,7 +11,12 @@
 // precision of values that messages quote, and the suppressions.
 package model
 
-import "github.com/datumlint/datumlint/grammar/source"
+import (
+	"bytes"
+	"strings"
+
+	"github.com/datumlint/datumlint/grammar/source"
+)
 
 // Size is a feature's size or a dimension's tolerance: a nominal with an
 // upper and a lower deviation (limits are stored the same way).
@@ -20,6 +25,8 @@ type Size struct {
 	Upper, Lower float64 // signed deviations
 	Toleranced   bool    // false where only a nominal was written
 	Envelope     bool    // (E): ISO 14405-1 envelope requirement
+	// EnvelopeSpan is where (E) was written, where a reader knows it.
+	EnvelopeSpan source.Span
 	Span         source.Span
 	// Text is the size as written, for messages that quote it.
 	Text string
@@ -57,6 +64,32 @@ type Feature struct {
 	// Broken marks a name recovered from a statement that did not parse,
 	// so that references to it do not cascade into more findings.
 	Broken bool
+
+	// Thread is a screw thread's designation ("M8x1.25-6H"); "" for a
+	// feature that is not threaded. A tolerance or datum on a thread
+	// applies to its pitch cylinder unless a frame says otherwise (ASME
+	// Y14.5-2018, screw threads; from memory).
+	Thread     string
+	ThreadSpan source.Span
+	// Counterbore and Countersink are a hole's; nil where none was given.
+	Counterbore *Counterbore
+	Countersink *Countersink
+	// DatumTarget is set on the point or line feature a datum target
+	// stands for, so that dimensions may name the target.
+	DatumTarget *DatumTarget
+}
+
+// Counterbore is a counterbore of a hole: its diameter and depth.
+type Counterbore struct {
+	Diameter, Depth *Size
+	Span            source.Span
+}
+
+// Countersink is a countersink of a hole: its diameter at the surface and
+// its included angle in degrees (Angle.Nominal).
+type Countersink struct {
+	Diameter, Angle *Size
+	Span            source.Span
 }
 
 // Known reports whether the feature was read well enough for rules to
@@ -158,6 +191,37 @@ type Datum struct {
 	Placement     string // "" when not given
 	PlacementSpan source.Span
 	Broken        bool
+	// Targets are the datum targets that establish the datum (Finish
+	// links them by letter); empty for a datum established by its whole
+	// feature.
+	Targets []*DatumTarget
+}
+
+// DatumTarget is a datum target: a point, a line or an area of a datum
+// feature where the datum feature simulator touches it (ASME Y14.5-2018,
+// datum targets; ISO 5459:2011). A datum established by targets takes its
+// degrees of freedom from them.
+type DatumTarget struct {
+	// Label is the target's name: its datum's letter and a number ("A1").
+	Label     string
+	LabelSpan source.Span
+	Span      source.Span
+	// Letter is the datum the target establishes.
+	Letter string
+	Shape  TargetShape
+	// On is the feature the target lies on.
+	On Target
+	// Point is the point of a point target and the centre of an area;
+	// a line target runs from Point to End.
+	Point, End Vec
+	// Normal is the surface normal written with the target; zero where
+	// none was, and the surface's own normal at Point applies.
+	Normal Vec
+	// An area target is circular of diameter Dia, or Width by Height.
+	Dia, Width, Height float64
+	// Feature is the point or line feature that stands for the target.
+	Feature *Feature
+	Broken  bool
 }
 
 // Usable reports whether the datum was declared by a statement that parsed
@@ -166,14 +230,62 @@ func (d *Datum) Usable() bool { return d != nil && !d.Broken && d.Target.Known()
 
 // DatumRef is one datum reference of a frame segment.
 type DatumRef struct {
-	Name     string   // as written: "A" or "A-B"
-	Letters  []string // "A", "B"
-	Datums   []*Datum // parallel to Letters; nil where undefined
-	Material string   // "", "M" (MMB) or "L" (LMB)
+	Name    string   // as written, without modifiers: "A" or "A-B"
+	Letters []string // "A", "B"
+	Datums  []*Datum // parallel to Letters; nil where undefined
+	// Material is the modifier written after the whole reference: "", "M"
+	// (MMB) or "L" (LMB).
+	Material string
 	MatSpan  source.Span
-	Span     source.Span
+	// Materials and MatSpans are each letter's material boundary,
+	// parallel to Letters: the modifier written after that letter of a
+	// common datum (H(M)-J(M)), or else the reference's own.
+	Materials []string
+	MatSpans  []source.Span
+	Span      source.Span
 	// FullSpan covers the reference as written, its modifiers included.
 	FullSpan source.Span
+}
+
+// Boundary returns the material boundary of letter i of the reference
+// and where its modifier is written.
+func (r *DatumRef) Boundary(i int) (string, source.Span) {
+	if i < len(r.Materials) {
+		return r.Materials[i], r.MatSpans[i]
+	}
+	return r.Material, r.MatSpan
+}
+
+// Label writes the reference with its material boundaries: A-B(M) where
+// one modifier is the whole reference's, H(M)-J(M) where each letter has
+// its own, A where it has none.
+func (r *DatumRef) Label() string {
+	if r.Material != "" || len(r.Materials) == 0 {
+		s := strings.Join(r.Letters, "-")
+		if r.Material != "" {
+			s += "(" + r.Material + ")"
+		}
+		return s
+	}
+	parts := make([]string, len(r.Letters))
+	for i, l := range r.Letters {
+		parts[i] = l
+		if m, _ := r.Boundary(i); m != "" {
+			parts[i] += "(" + m + ")"
+		}
+	}
+	return strings.Join(parts, "-")
+}
+
+// AnyBoundary reports whether some letter of the reference is at MMB or
+// LMB.
+func (r *DatumRef) AnyBoundary() bool {
+	for i := range r.Letters {
+		if m, _ := r.Boundary(i); m != "" {
+			return true
+		}
+	}
+	return r.Material != ""
 }
 
 // Common reports whether the reference is a common datum (A-B).
@@ -222,6 +334,29 @@ type Segment struct {
 	// zone ("composite surface-profile 0.1"); "" where none was.
 	Named     Characteristic
 	NamedSpan source.Span
+	// PerUnit is a tolerance per unit length or area (0.01/25,
+	// 0.005/25x25); nil where the tolerance applies to the whole feature.
+	PerUnit *PerUnit
+	// ZoneDir is the direction of a parallel-planes zone (the planes are
+	// normal to it): a position of a hole or pin toleranced in one
+	// direction (bidirectional positional tolerancing); nil otherwise.
+	ZoneDir     *Vec
+	ZoneDirSpan source.Span
+	// Separate is a separate requirement: the segment's zone is not
+	// simultaneous with others on the same datums (ASME Y14.5-2018,
+	// simultaneous requirements).
+	Separate     bool
+	SeparateSpan source.Span
+}
+
+// PerUnit is a tolerance that applies to any length, or (Area) any
+// rectangular area Length by Width, of the feature.
+type PerUnit struct {
+	Length, Width float64
+	Area          bool
+	Span          source.Span
+	// Text is the unit as written after the slash ("25x25").
+	Text string
 }
 
 // Modifier returns the modifier with the letter, if present.
@@ -250,6 +385,16 @@ type Frame struct {
 	CharSpan       source.Span
 	Segments       []*Segment // [0] is the upper segment
 	Span           source.Span
+	// Extent is where a profile applies: "" (the feature as named),
+	// AllAround, AllOver or Between, from Between[0] to Between[1].
+	Extent     string
+	ExtentSpan source.Span
+	Between    [2]*Target
+	// ThreadDiameter is the diameter of a screw thread the frame applies
+	// to, where the frame says so (MajorDiameter, MinorDiameter,
+	// PitchDiameter); "" for the default, the pitch diameter.
+	ThreadDiameter     string
+	ThreadDiameterSpan source.Span
 }
 
 // Upper returns the frame's first segment.
@@ -278,9 +423,15 @@ func (f *Frame) RefersTo(letter string) bool {
 	return false
 }
 
-// Dimension is a basic or a toleranced dimension.
+// Dimension is a basic, a toleranced or a reference dimension.
 type Dimension struct {
-	Basic     bool
+	Basic bool
+	// Reference marks a reference dimension: given for information,
+	// checked against the model, it locates and tolerances nothing.
+	Reference bool
+	// SizeOf is the feature whose size a reference size gives; nil for a
+	// distance or an angle.
+	SizeOf    *Target
 	Angle     bool
 	Value     float64
 	ValueSpan source.Span
@@ -349,15 +500,36 @@ type Statement struct {
 	First, Last int
 	// Parsed is false for a statement that did not parse.
 	Parsed bool
-	// Text is the statement as written with comments removed and runs of
-	// white space made one space: what it says, apart from where it
-	// stands (SARIF fingerprints hash it).
-	Text string
+	// Comments are the trailing comments on the statement's lines (which
+	// StatementText leaves out).
+	Comments []source.Span
 	// Name is the name or letter a statement that did not parse declares,
 	// where it could be read; Words are the names written in it. They keep
 	// one typo from cascading into name-undefined or datum-unused findings.
 	Name  string
 	Words []string
+}
+
+// StatementText is a statement as written with its trailing comments
+// removed and runs of white space made one space: what it says, apart from
+// where it stands (SARIF fingerprints hash it). A byte order mark is not
+// part of the text.
+func StatementText(src *source.File, st Statement) string {
+	var b strings.Builder
+	for l := st.First; l <= st.Last; l++ {
+		line := src.LineBytes(l)
+		for _, c := range st.Comments {
+			if c.Start.Line == l {
+				line = line[:src.Offset(c.Start)-src.Offset(source.Pos{Line: l, Col: 1})]
+			}
+		}
+		if l == 1 {
+			line = bytes.TrimPrefix(line, []byte("\ufeff"))
+		}
+		b.Write(line)
+		b.WriteByte(' ')
+	}
+	return strings.Join(strings.Fields(b.String()), " ")
 }
 
 // Suppression is an allow directive: `# datumlint: allow RULE -- reason`.
@@ -386,10 +558,16 @@ type Part struct {
 	// placement checks).
 	Headers []HeaderLine
 
+	// Basis says which nominal values are basic: DrawingBasis unless the
+	// part is a model-based definition (ModelBasis).
+	Basis Basis
+
 	Features []*Feature
 	Datums   []*Datum
 	Frames   []*Frame
 	Dims     []*Dimension
+	// Targets are the datum targets, in file order.
+	Targets []*DatumTarget
 
 	// Duplicates are features declared under a name already taken.
 	Duplicates []*Feature
@@ -402,6 +580,11 @@ type Part struct {
 	Statements []Statement
 	// Suppressions are the allow directives, in file order.
 	Suppressions []*Suppression
+	// NotText marks a file that is not text in the reader's format at all
+	// (binary data): its one Syntax problem says so, and nothing is said
+	// of what such a file lacks (no header-missing), so that it gets one
+	// finding.
+	NotText bool
 
 	// Center and Scale describe the part's extent: the centre and the
 	// diagonal of the box around all nominal points (at least 1).

@@ -25,9 +25,8 @@
 // root's start tag, FileUnits, each standard, datum definition, target and
 // reference frame, feature definition, nominal and item, characteristic
 // definition, nominal and item, the part and its PMI displays), each with
-// its lines and a stable text (its element name and id) that SARIF
-// fingerprints hash; Headers are the part's name, units and standard in
-// file order; Member.Decimals are the decimal places a point says it has
+// its lines (SARIF fingerprints hash the element as written); Headers
+// are the part's name, units and standard in file order; Member.Decimals are the decimal places a point says it has
 // (decimalPlaces, xDecimalPlaces ...) where it is read unconverted, else -1.
 //
 // # Refused documents and limits

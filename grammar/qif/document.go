@@ -310,8 +310,8 @@ type Document struct {
 	// the root's start tag, FileUnits, each standard, datum definition and
 	// target, datum reference frame, feature definition, nominal, item and
 	// zone, characteristic definition, nominal and item, the part and its
-	// PMI displays (model.Statement: Keyword the element's name, Text its
-	// name and id).
+	// PMI displays (model.Statement: Keyword the element's name; the text
+	// that SARIF fingerprints hash is the element as written).
 	Statements []model.Statement
 
 	nominals map[ID]*FeatureNominal
@@ -503,7 +503,7 @@ func (r *docReader) document(root *node) {
 	// The root's start tag is a statement of its own: where a finding
 	// about the whole document (no units, no standard) stands.
 	d.Statements = append(d.Statements, model.Statement{Keyword: root.name, Span: d.Root, First: d.Root.Start.Line,
-		Last: d.Root.End.Line, Parsed: true, Text: stmtText(root)})
+		Last: d.Root.End.Line, Parsed: true})
 	for _, n := range root.kids {
 		switch n.name {
 		case "FileUnits":
@@ -552,16 +552,7 @@ func (r *docReader) stmt(n *node) {
 	last := r.f.Position(max(end-1, n.from)).Line
 	r.doc.Statements = append(r.doc.Statements, model.Statement{Keyword: n.name,
 		Span: source.Span{Start: r.f.Position(n.from), End: r.f.Position(end)}, First: r.f.Position(n.from).Line, Last: last,
-		Parsed: true, Text: stmtText(n)})
-}
-
-// stmtText is a statement's stable description: the element's name and id
-// ("PositionCharacteristicNominal id=3093"), or its name alone.
-func stmtText(n *node) string {
-	if id, ok := n.attr("id"); ok {
-		return n.name + " id=" + strings.TrimSpace(id)
-	}
-	return n.name
+		Parsed: true})
 }
 
 func (r *docReader) unit(n *node) *Unit {

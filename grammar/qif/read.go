@@ -54,6 +54,7 @@ func Read(name string, src []byte) *model.Part {
 	res, err := ReadFile(f)
 	if err != nil {
 		p := model.NewPart(f)
+		p.NotText = true // not a QIF 3 document: one finding, nothing said of what it lacks
 		var e *Error
 		if errors.As(err, &e) {
 			p.Problemf(model.Syntax, e.Span, "%s", e.Msg)

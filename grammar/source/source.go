@@ -155,3 +155,68 @@ func (f *File) Offset(p Pos) int {
 	}
 	return off
 }
+
+// The Language Server Protocol counts a position's character in UTF-16
+// code units from the start of its line, both 0-based (LSP 3.17, "Position":
+// the default position encoding); the notation counts characters, 1-based.
+// A character outside the Basic Multilingual Plane is one column and two
+// UTF-16 code units.
+
+// UTF16 converts p into a 0-based line and a 0-based UTF-16 offset in that
+// line. Columns past the line's end (a finding just after the last
+// character) count one code unit each, so that a span keeps its length; a
+// line past the end of the file keeps its number.
+func (f *File) UTF16(p Pos) (line, char int) {
+	if p.Line < 1 {
+		return 0, 0
+	}
+	line = p.Line - 1
+	b := f.LineBytes(p.Line)
+	col := 1
+	for len(b) > 0 && col < p.Col {
+		r, n := utf8.DecodeRune(b)
+		b = b[n:]
+		char += utf16Len(r)
+		col++
+	}
+	if col < p.Col {
+		char += p.Col - col
+	}
+	return line, char
+}
+
+// FromUTF16 converts a 0-based line and UTF-16 offset into a position. As
+// the protocol asks, an offset past the line's end means the line's end;
+// an offset inside a surrogate pair means the character it is part of; a
+// line past the end of the file means the end of the file, and negative
+// values the start.
+func (f *File) FromUTF16(line, char int) Pos {
+	if line < 0 {
+		return Pos{Line: 1, Col: 1}
+	}
+	if line >= f.Lines() {
+		return f.Position(len(f.Src))
+	}
+	b := f.LineBytes(line + 1)
+	col, units := 1, 0
+	for len(b) > 0 {
+		r, n := utf8.DecodeRune(b)
+		w := utf16Len(r)
+		if units+w > char {
+			break
+		}
+		units += w
+		b = b[n:]
+		col++
+	}
+	return Pos{Line: line + 1, Col: col}
+}
+
+// utf16Len is the number of UTF-16 code units of a rune; an invalid byte
+// (utf8.RuneError) is one, as its replacement character is.
+func utf16Len(r rune) int {
+	if r >= 0x10000 && r <= utf8.MaxRune {
+		return 2
+	}
+	return 1
+}

@@ -47,3 +47,47 @@ func TestSpan(t *testing.T) {
 		t.Error("zero span")
 	}
 }
+
+func TestUTF16(t *testing.T) {
+	// 𝜙 (U+1D719) is one character and two UTF-16 code units; ⌀ is one of
+	// each; the second line ends in CR LF.
+	f := NewFile("x", []byte("a𝜙b\r\n⌀c\nlast"))
+	cases := []struct {
+		pos        Pos
+		line, char int
+	}{
+		{Pos{1, 1}, 0, 0},
+		{Pos{1, 2}, 0, 1},
+		{Pos{1, 3}, 0, 3}, // after the surrogate pair
+		{Pos{1, 4}, 0, 4}, // the line's end
+		{Pos{1, 5}, 0, 5}, // past it: one unit a column
+		{Pos{1, 7}, 0, 7},
+		{Pos{2, 2}, 1, 1},
+		{Pos{3, 5}, 2, 4},
+	}
+	for _, c := range cases {
+		if l, ch := f.UTF16(c.pos); l != c.line || ch != c.char {
+			t.Errorf("UTF16(%v) = %d:%d, want %d:%d", c.pos, l, ch, c.line, c.char)
+		}
+		if c.pos.Col <= len([]rune(string(f.LineBytes(c.pos.Line))))+1 {
+			if back := f.FromUTF16(c.line, c.char); back != c.pos {
+				t.Errorf("FromUTF16(%d, %d) = %v, want %v", c.line, c.char, back, c.pos)
+			}
+		}
+	}
+	if got := f.FromUTF16(0, 2); got != (Pos{1, 2}) {
+		t.Errorf("an offset inside a surrogate pair: %v, want the pair's character 1:2", got)
+	}
+	if got := f.FromUTF16(0, 99); got != (Pos{1, 4}) {
+		t.Errorf("an offset past the line's end: %v, want the end 1:4", got)
+	}
+	if got := f.FromUTF16(1, 99); got != (Pos{2, 3}) {
+		t.Errorf("past the end of a CR LF line: %v, want 2:3 (before the CR)", got)
+	}
+	if got := f.FromUTF16(7, 0); got != (Pos{3, 5}) {
+		t.Errorf("a line past the end: %v, want the end of the file 3:5", got)
+	}
+	if got := f.FromUTF16(-1, 3); got != (Pos{1, 1}) {
+		t.Errorf("a negative line: %v", got)
+	}
+}

@@ -75,6 +75,13 @@ func (a *Analysis) ask(fr *model.Frame, seg int) missingResult {
 	if ask, _ := Asks(fr, s); !ask {
 		return missingResult{ok: true}
 	}
+	if a.part.Basis == model.ModelBasis {
+		// Every nominal location and angle of the model is basic (ASME
+		// Y14.41-2019, model values are basic; from memory): nothing is
+		// missing. Written basic dimensions are still checked against the
+		// model (Mismatches).
+		return missingResult{ok: true}
+	}
 	an := a.kin.Segment(fr, seg)
 	if !an.Resolved || an.DRF == nil {
 		return missingResult{}
@@ -83,7 +90,74 @@ func (a *Analysis) ask(fr *model.Frame, seg int) missingResult {
 	if !ok {
 		return missingResult{}
 	}
+	q.Refs = targetFeatures(s, q.Refs)
+	q.Free = zoneInvariance(fr, q.Free)
 	return missingResult{a.Engine().Missing(q), true}
+}
+
+// targetFeatures adds, to each reference's members, the members of the
+// features its datums' targets lie on: a datum established by targets on
+// more than its own feature (two faces of a vee) holds all of them.
+func targetFeatures(seg *model.Segment, refs [][]*model.Member) [][]*model.Member {
+	for k, r := range seg.Refs {
+		if k >= len(refs) {
+			break
+		}
+		for _, d := range r.Datums {
+			if d == nil {
+				continue
+			}
+			for _, t := range d.Targets {
+				if !t.On.Resolved() {
+					continue
+				}
+				ms := t.On.Feature.Members
+				if t.On.Member != nil {
+					ms = []*model.Member{t.On.Member}
+				}
+				for _, m := range ms {
+					if !containsMember(refs[k], m) {
+						refs[k] = append(refs[k], m)
+					}
+				}
+			}
+		}
+	}
+	return refs
+}
+
+func containsMember(ms []*model.Member, m *model.Member) bool {
+	for _, x := range ms {
+		if x == m {
+			return true
+		}
+	}
+	return false
+}
+
+// zoneInvariance adds to the free motions those that leave a position
+// zone with a direction unchanged, for a hole or pin: a parallel-planes
+// zone normal to u about the axis does not care where the axis is along
+// the planes (across u) or how it leans within them (a turn about u), so
+// basic dimensions are asked only along u (bidirectional positional
+// tolerancing: each frame locates the feature in its direction; ASME
+// Y14.5-2018, from memory).
+func zoneInvariance(fr *model.Frame, free [][]dof.Twist) [][]dof.Twist {
+	u := fr.Upper().ZoneDir
+	if u == nil || fr.Characteristic != model.Position || !fr.Target.Resolved() || !fr.Target.Feature.Kind.IsCylinder() {
+		return free
+	}
+	axis := fr.Target.Feature.Dir.Unit()
+	along := axis.Cross(*u)
+	if along.Norm() == 0 {
+		return free // a direction along the axis: zone-shape reports it
+	}
+	extra := []dof.Twist{{V: dof.Vec(along.Unit())}, {W: dof.Vec(u.Unit())}}
+	out := make([][]dof.Twist, len(free))
+	for k, f := range free {
+		out[k] = append(append([]dof.Twist(nil), f...), extra...)
+	}
+	return out
 }
 
 // Located reports whether a frame's datums and basic dimensions fix the
@@ -115,39 +189,39 @@ func (a *Analysis) Toleranced() []Toleranced {
 	}
 	a.tolDone = true
 	for _, d := range a.part.Dims {
-		if d.Basic || d.Circle != nil {
-			continue
+		if d.Basic || d.Circle != nil || d.Reference {
+			continue // a reference dimension locates nothing
 		}
-		ends := [2]*model.Target{&d.To, &d.From}
-		for i, t := range ends {
+		for i, t := range []*model.Target{&d.To, &d.From} {
 			if !t.Resolved() || t.Feature.Broken {
 				continue
 			}
-			c, ok := locatedBy(a.part, t.Feature)
-			if !ok {
+			if fromDatum(a.part, t, []*model.Target{&d.From, &d.To}[i]) {
 				continue
 			}
-			if other := ends[1-i]; isDatumFeature(a.part, t) && other.Resolved() && !isDatumFeature(a.part, other) {
-				if _, also := locatedBy(a.part, other.Feature); !also {
-					// A toleranced dimension from a datum feature to a
-					// feature nothing else locates locates that feature
-					// from the datum feature; the datum feature's own
-					// place is its frame's (ASME Y14.5-2018, dimensioning
-					// from a datum feature, from memory).
-					continue
-				}
+			if c, ok := locatedBy(a.part, t.Feature); ok {
+				a.toleranced = append(a.toleranced, Toleranced{d, t.Feature, c})
+				break
 			}
-			a.toleranced = append(a.toleranced, Toleranced{d, t.Feature, c})
-			break
 		}
 	}
 	return a.toleranced
 }
 
-// isDatumFeature reports whether a datum feature symbol is on the target's
-// feature.
-func isDatumFeature(part *model.Part, t *model.Target) bool {
-	return t.Resolved() && len(part.DatumsOn(t.Feature)) > 0
+// fromDatum reports whether a toleranced dimension between t and other
+// measures from t as a datum feature: t carries a datum, and other is
+// neither located by a frame nor a datum feature itself, so the dimension
+// locates other from the datum (dimensioning from a datum as the origin:
+// common practice) and leaves t's own location, which its frames give,
+// alone.
+func fromDatum(part *model.Part, t, other *model.Target) bool {
+	if len(part.DatumsOn(t.Feature)) == 0 || !other.Resolved() || other.Feature.Broken {
+		return false
+	}
+	if _, ok := locatedBy(part, other.Feature); ok {
+		return false
+	}
+	return len(part.DatumsOn(other.Feature)) == 0
 }
 
 // locatedBy returns the characteristic of the first frame that places a

@@ -7,17 +7,21 @@
 package config
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
+	"math"
 	"os"
 	"path"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strings"
 	"sync"
 
 	"github.com/BurntSushi/toml"
 
+	"github.com/datumlint/datumlint/grammar/spell"
 	"github.com/datumlint/datumlint/rules"
 )
 
@@ -40,25 +44,34 @@ type Config struct {
 	Rules map[string]rules.Severity
 }
 
-// raw is the file's schema, as TOML decodes it.
-type raw struct {
-	FailOn   *severityText            `toml:"fail-on"`
-	Exclude  []string                 `toml:"exclude"`
-	MaxBytes *int64                   `toml:"max-bytes"`
-	Rules    map[string]*severityText `toml:"rules"`
+// Keys are the top-level keys of the file, in the order messages name them.
+var Keys = []string{"fail-on", "exclude", "max-bytes", "rules"}
+
+// Error is one mistake in a configuration file, at a line where it can be
+// found (0 where it cannot).
+type Error struct {
+	File string
+	Line int
+	Msg  string
 }
 
-// severityText validates a severity while decoding, so that TOML reports
-// the line of a bad value.
-type severityText struct{ s rules.Severity }
-
-func (t *severityText) UnmarshalText(b []byte) error {
-	s, err := rules.ParseSeverity(string(b))
-	if err != nil {
-		return fmt.Errorf("unknown severity %q: use \"error\", \"warning\", \"info\" or \"off\"", string(b))
+func (e *Error) Error() string {
+	if e.Line > 0 {
+		return fmt.Sprintf("%s:%d: %s", e.File, e.Line, e.Msg)
 	}
-	t.s = s
-	return nil
+	return fmt.Sprintf("%s: %s", e.File, e.Msg)
+}
+
+// Errors are every mistake found in one file, in line order; Error joins
+// them one to a line.
+type Errors []*Error
+
+func (es Errors) Error() string {
+	out := make([]string, len(es))
+	for i, e := range es {
+		out[i] = e.Error()
+	}
+	return strings.Join(out, "\n")
 }
 
 // Load reads and checks a configuration file.
@@ -74,65 +87,149 @@ func Load(file string) (*Config, error) {
 	return Parse(file, src)
 }
 
-// Parse checks the text of a configuration file named file. Errors name the
+// Parse checks the text of a configuration file named file. A file that is
+// not TOML gives one error, where the TOML parser stopped; otherwise every
+// mistake is reported at once (Errors, in line order), each naming the
 // file and, where it can be found, the line: "FILE:LINE: what is wrong".
 func Parse(file string, src []byte) (*Config, error) {
-	var r raw
-	md, err := toml.Decode(string(src), &r)
-	if err != nil {
+	var top map[string]any
+	if _, err := toml.Decode(string(src), &top); err != nil {
 		var pe toml.ParseError
 		if errors.As(err, &pe) && pe.Position.Line > 0 {
-			return nil, fmt.Errorf("%s:%d: %s", file, pe.Position.Line, pe.Message)
+			return nil, Errors{{file, pe.Position.Line, pe.Message}}
 		}
-		return nil, fmt.Errorf("%s: %v", file, err)
-	}
-	at := func(key ...string) string {
-		if l := keyLine(string(src), key); l > 0 {
-			return fmt.Sprintf("%s:%d", file, l)
-		}
-		return file
-	}
-	if und := md.Undecoded(); len(und) > 0 {
-		k := und[0]
-		return nil, fmt.Errorf("%s: unknown key %q: the keys are fail-on, exclude, max-bytes and the [rules] table", at(k...), k.String())
+		return nil, Errors{{file, 0, err.Error()}}
 	}
 	abs, err := filepath.Abs(file)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %v", file, err)
 	}
-	c := &Config{Path: file, Dir: filepath.Dir(abs), Exclude: r.Exclude, Rules: map[string]rules.Severity{}}
-	if r.FailOn != nil {
-		if r.FailOn.s == rules.Off {
-			return nil, fmt.Errorf("%s: fail-on takes \"error\", \"warning\" or \"info\", not \"off\"", at("fail-on"))
-		}
-		c.FailOn, c.FailOnSet = r.FailOn.s, true
+	c := &Config{Path: file, Dir: filepath.Dir(abs), Rules: map[string]rules.Severity{}}
+	var errs Errors
+	report := func(key []string, format string, args ...any) {
+		errs = append(errs, &Error{file, keyLine(string(src), key), fmt.Sprintf(format, args...)})
 	}
-	if r.MaxBytes != nil {
-		if *r.MaxBytes <= 0 {
-			return nil, fmt.Errorf("%s: max-bytes must be a positive number of bytes, not %d", at("max-bytes"), *r.MaxBytes)
+	for _, k := range sortedKeys(top) {
+		v := top[k]
+		key := []string{k}
+		switch k {
+		case "fail-on":
+			sev, ok := severityOf(v)
+			switch {
+			case !ok:
+				if w, isText := v.(string); isText {
+					report(key, "unknown severity %q: use \"error\", \"warning\" or \"info\"", w)
+				} else {
+					report(key, "fail-on takes a severity in quotes: \"error\", \"warning\" or \"info\"")
+				}
+			case sev == rules.Off:
+				report(key, "fail-on takes \"error\", \"warning\" or \"info\", not \"off\"")
+			default:
+				c.FailOn, c.FailOnSet = sev, true
+			}
+		case "exclude":
+			list, ok := v.([]any)
+			if !ok {
+				report(key, "exclude takes a list of globs, e.g. exclude = [\"build/**\"]")
+				continue
+			}
+			for _, g := range list {
+				gs, ok := g.(string)
+				if !ok {
+					report(key, "exclude takes a list of globs in quotes, e.g. exclude = [\"build/**\"]")
+					continue
+				}
+				if err := checkGlob(gs); err != nil {
+					report(key, "bad exclude pattern %q: %v", gs, err)
+					continue
+				}
+				c.Exclude = append(c.Exclude, gs)
+			}
+		case "max-bytes":
+			n, ok := v.(int64)
+			switch {
+			case !ok:
+				report(key, "max-bytes takes a whole number of bytes, e.g. max-bytes = 1000000")
+			case n <= 0:
+				report(key, "max-bytes must be a positive number of bytes, not %d", n)
+			default:
+				c.MaxBytes = n
+			}
+		case "rules":
+			table, ok := v.(map[string]any)
+			if !ok {
+				report(key, "rules is a table of rule severities: write [rules] and then lines such as datum-unused = \"off\"")
+				continue
+			}
+			for _, id := range sortedKeys(table) {
+				rk := []string{"rules", id}
+				if slices.Contains(Keys, id) && id != "rules" {
+					report(rk, "%s is a top-level key, not a rule: move it above [rules]", id)
+					continue
+				}
+				if rules.Lookup(id) == nil {
+					if sg := rules.Suggest(id); sg != "" {
+						report(rk, "unknown rule %q in [rules]; did you mean %q?", id, sg)
+					} else {
+						report(rk, "unknown rule %q in [rules]: `datumlint rules` lists them", id)
+					}
+					continue
+				}
+				sev, ok := severityOf(table[id])
+				if !ok {
+					if w, isText := table[id].(string); isText {
+						report(rk, "unknown severity %q for rule %s: use \"error\", \"warning\", \"info\" or \"off\"", w, id)
+					} else {
+						report(rk, "rule %s takes a severity in quotes: \"error\", \"warning\", \"info\" or \"off\"", id)
+					}
+					continue
+				}
+				c.Rules[id] = sev
+			}
+		default:
+			hint := "the keys are fail-on, exclude, max-bytes and the [rules] table"
+			if sg := spell.Nearest(k, Keys); sg != "" {
+				hint = fmt.Sprintf("did you mean %q?", sg)
+			} else if id := rules.Suggest(k); id != "" {
+				hint = fmt.Sprintf("a rule's severity goes in the [rules] table, as %s = \"...\" under [rules]", id)
+			}
+			report(key, "unknown key %q: %s", k, hint)
 		}
-		c.MaxBytes = *r.MaxBytes
 	}
-	for _, g := range c.Exclude {
-		if err := checkGlob(g); err != nil {
-			return nil, fmt.Errorf("%s: bad exclude pattern %q: %v", at("exclude"), g, err)
-		}
-	}
-	ids := make([]string, 0, len(r.Rules))
-	for id := range r.Rules {
-		ids = append(ids, id)
-	}
-	sort.Strings(ids) // report the same error every time
-	for _, id := range ids {
-		if rules.Lookup(id) == nil {
-			return nil, fmt.Errorf("%s: unknown rule %q in [rules]: `datumlint rules` lists them", at("rules", id), id)
-		}
-		if r.Rules[id] == nil {
-			return nil, fmt.Errorf("%s: rule %q has no severity", at("rules", id), id)
-		}
-		c.Rules[id] = r.Rules[id].s
+	if len(errs) > 0 {
+		// In line order; a mistake whose line was not found goes last.
+		slices.SortStableFunc(errs, func(a, b *Error) int {
+			la, lb := a.Line, b.Line
+			if la == 0 {
+				la = math.MaxInt
+			}
+			if lb == 0 {
+				lb = math.MaxInt
+			}
+			return cmp.Compare(la, lb)
+		})
+		return nil, errs
 	}
 	return c, nil
+}
+
+// severityOf reads a severity written as a string.
+func severityOf(v any) (rules.Severity, bool) {
+	s, ok := v.(string)
+	if !ok {
+		return 0, false
+	}
+	sev, err := rules.ParseSeverity(s)
+	return sev, err == nil
+}
+
+func sortedKeys[V any](m map[string]V) []string {
+	ks := make([]string, 0, len(m))
+	for k := range m {
+		ks = append(ks, k)
+	}
+	sort.Strings(ks)
+	return ks
 }
 
 // keyLine finds the line on which a dotted key is defined, by a plain scan
@@ -279,19 +376,26 @@ func (o Overrides) Check() error {
 	dis := map[string]bool{}
 	for _, id := range o.Disable {
 		if rules.Lookup(id) == nil {
-			return fmt.Errorf("--disable: unknown rule %q: `datumlint rules` lists them", id)
+			return unknownFlagRule("--disable", id)
 		}
 		dis[id] = true
 	}
 	for _, id := range o.Enable {
 		if rules.Lookup(id) == nil {
-			return fmt.Errorf("--enable: unknown rule %q: `datumlint rules` lists them", id)
+			return unknownFlagRule("--enable", id)
 		}
 		if dis[id] {
 			return fmt.Errorf("rule %q is both enabled and disabled on the command line", id)
 		}
 	}
 	return nil
+}
+
+func unknownFlagRule(flag, id string) error {
+	if sg := rules.Suggest(id); sg != "" {
+		return fmt.Errorf("%s: unknown rule %q; did you mean %q?", flag, id, sg)
+	}
+	return fmt.Errorf("%s: unknown rule %q: `datumlint rules` lists them", flag, id)
 }
 
 // Settings combines a configuration (nil for none) with the command line:

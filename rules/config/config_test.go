@@ -1,6 +1,7 @@
 package config
 
 import (
+	"errors"
 	"os"
 	"path/filepath"
 	"strings"
@@ -61,6 +62,83 @@ func TestParseErrors(t *testing.T) {
 				t.Errorf("error = %v, want it to contain %q", err, tc.want)
 			}
 		})
+	}
+}
+
+// Every mistake of a file is reported at once, in line order, each on its
+// line, with a hint where one is sure: a top-level key written under
+// [rules] belongs above it, a rule written almost right gets a
+// did-you-mean, a rule's severity written at the top goes under [rules].
+func TestParseReportsEveryErrorInLineOrder(t *testing.T) {
+	src := `max-bytes = -5
+fail_on = "error"
+datum-unused = "off"
+exclude = ["ok/**", "a**b"]
+
+[rules]
+zone-shape = "loud"
+fail-on = "error"
+basic_missing = "off"
+Basic-Missing = "info"
+basic-missng = "warning"
+datum-letter = 3
+no-such-rule = "off"
+`
+	_, err := Parse("f.toml", []byte(src))
+	var errs Errors
+	if !errors.As(err, &errs) {
+		t.Fatalf("error %v (%T), want config.Errors", err, err)
+	}
+	want := []string{
+		`f.toml:1: max-bytes must be a positive number of bytes, not -5`,
+		`f.toml:2: unknown key "fail_on": did you mean "fail-on"?`,
+		`f.toml:3: unknown key "datum-unused": a rule's severity goes in the [rules] table, as datum-unused = "..." under [rules]`,
+		`f.toml:4: bad exclude pattern "a**b"`,
+		`f.toml:7: unknown severity "loud" for rule zone-shape`,
+		`f.toml:8: fail-on is a top-level key, not a rule: move it above [rules]`,
+		`f.toml:9: unknown rule "basic_missing" in [rules]; did you mean "basic-missing"?`,
+		`f.toml:10: unknown rule "Basic-Missing" in [rules]; did you mean "basic-missing"?`,
+		`f.toml:11: unknown rule "basic-missng" in [rules]; did you mean "basic-missing"?`,
+		`f.toml:12: rule datum-letter takes a severity in quotes`,
+		"f.toml:13: unknown rule \"no-such-rule\" in [rules]: `datumlint rules` lists them",
+	}
+	if len(errs) != len(want) {
+		t.Fatalf("%d errors, want %d:\n%v", len(errs), len(want), err)
+	}
+	for i, w := range want {
+		if !strings.HasPrefix(errs[i].Error(), w) {
+			t.Errorf("error %d = %q, want it to start %q", i, errs[i], w)
+		}
+	}
+	if lines := strings.Split(err.Error(), "\n"); len(lines) != len(want) {
+		t.Errorf("the joined message has %d lines, want one per error:\n%v", len(lines), err)
+	}
+}
+
+// Each hint is a promise: doing what it says clears the error.
+func TestParseHintsClearTheirErrors(t *testing.T) {
+	for _, tc := range []struct{ name, bad, good string }{
+		{"top-level key under [rules]", "[rules]\nfail-on = \"error\"\n", "fail-on = \"error\"\n[rules]\n"},
+		{"rule at the top", "datum-unused = \"off\"\n", "[rules]\ndatum-unused = \"off\"\n"},
+		{"misspelt key", "fail_on = \"error\"\n", "fail-on = \"error\"\n"},
+		{"misspelt rule", "[rules]\nbasic_missing = \"off\"\n", "[rules]\nbasic-missing = \"off\"\n"},
+	} {
+		if _, err := Parse("f.toml", []byte(tc.bad)); err == nil {
+			t.Errorf("%s: %q parsed", tc.name, tc.bad)
+		}
+		if _, err := Parse("f.toml", []byte(tc.good)); err != nil {
+			t.Errorf("%s: doing what the hint says still fails: %v", tc.name, err)
+		}
+	}
+}
+
+// --enable and --disable offer the rule meant.
+func TestOverridesSuggest(t *testing.T) {
+	for _, o := range []Overrides{{Enable: []string{"basic_missing"}}, {Disable: []string{"Basic-Missing"}}, {Disable: []string{"basic-missng"}}} {
+		err := o.Check()
+		if err == nil || !strings.Contains(err.Error(), `did you mean "basic-missing"?`) {
+			t.Errorf("%+v: error %v, want a did-you-mean", o, err)
+		}
 	}
 }
 

@@ -7,6 +7,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/datumlint/datumlint/rules/longtest"
 )
 
 // The engine is held to the reference engine of reference_test.go on
@@ -169,10 +171,7 @@ func SameMotions(f Frame, a, b []Motion) bool {
 
 func TestFastMatchesReferenceOnRandomFrames(t *testing.T) {
 	rng := rand.New(rand.NewPCG(2011, 5459))
-	n := 20000
-	if testing.Short() {
-		n = 2000
-	}
+	n := longtest.N(2000, 20000)
 	closed := 0
 	for range n {
 		sc := randomScenario(rng)

@@ -20,9 +20,17 @@ const (
 	Cone                       // the axis and apex of a cone
 	Prismatic                  // a linear extruded shape, free only along its direction
 	Complex                    // a free-form surface: no motion leaves it unchanged
+	// Contact is a point contact on a surface: a datum target point (or
+	// area, or one end of a line target) where a simulator touches the
+	// datum feature along the surface's normal Dir at Point. It stops the
+	// one motion that moves that point of the surface along the normal
+	// (ASME Y14.5-2018, datum targets; ISO 5459:2011, datum targets), so
+	// three contacts not on one line of a plane remove what the plane
+	// does, two along a line two, one one.
+	Contact
 )
 
-var classNames = [...]string{"unknown", "plane", "cylinder", "sphere", "cone", "prismatic", "complex"}
+var classNames = [...]string{"unknown", "plane", "cylinder", "sphere", "cone", "prismatic", "complex", "contact"}
 
 func (c Class) String() string {
 	if c < 0 || int(c) >= len(classNames) {
@@ -53,7 +61,7 @@ func (s Surface) Valid() bool {
 		return true
 	case Sphere:
 		return finite(s.Point)
-	case Plane, Cylinder, Cone, Prismatic:
+	case Plane, Cylinder, Cone, Prismatic, Contact:
 		n := norm(s.Dir)
 		return finite(s.Point) && n > 0 && !math.IsInf(n, 0) && !math.IsNaN(n)
 	}
@@ -71,6 +79,7 @@ func (s Surface) Valid() bool {
 //	cone       ω·ti = 0,         v + ω×p = 0
 //	prismatic  ω = 0,            v·ti = 0
 //	complex    ξ = 0
+//	contact    d·(v + ω×p) = 0
 //
 // The identity a·(ω×p) = ω·(p×a) turns each into a row (p×a, a).
 func (s Surface) conditions(f Frame) [][]float64 {
@@ -129,6 +138,8 @@ func (s Surface) appendConditions(dst []float64, f Frame) []float64 {
 		trans(x)
 		trans(y)
 		trans(z)
+	case Contact:
+		at(d)
 	}
 	return dst
 }

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"math"
 	"strconv"
+	"strings"
 )
 
 // readableSplit returns motions that, together with k, span s (k ⊂ s, both
@@ -168,6 +169,33 @@ func (f Frame) Name(t Twist) string {
 		}
 	}
 	return f.formattedName(t, wn, vn)
+}
+
+// Phrase turns a motion's contract name into the words of the dof text
+// table, one way for every motion: "translation along x", "translation
+// along (0.6, 0.8, 0)", "rotation about z", "rotation about z through
+// (40, 30, 0)", "rotation about (0.6, 0, 0.8) through (1, 2, 3)". An axis
+// of the part is named by its letter wherever it stands; the JSON keeps
+// the contract's names.
+func Phrase(name string) string {
+	kind, rest, ok := strings.Cut(name, " ")
+	if !ok {
+		return name
+	}
+	switch kind {
+	case "translation":
+		return "translation along " + rest
+	case "rotation":
+		dir, through, hasPoint := strings.Cut(rest, " through ")
+		if a := axisName(dir); a != "" {
+			dir = a
+		}
+		if hasPoint {
+			return "rotation about " + dir + " through " + through
+		}
+		return "rotation about " + dir
+	}
+	return name
 }
 
 var (

@@ -3,6 +3,7 @@ package dof
 import (
 	"math"
 	"reflect"
+	"strings"
 	"testing"
 )
 
@@ -88,6 +89,32 @@ func TestMotionTwistsAreClean(t *testing.T) {
 			if x != 0 && math.Abs(x) < 1e-9 || math.Signbit(x) && x == 0 {
 				t.Errorf("%q has dust %v in %+v", m.Name, x, m.Twist)
 			}
+		}
+	}
+}
+
+// Phrase words every kind of motion one way for the text table: along a
+// direction, about an axis, through a point where it does not pass
+// through the origin, an axis of the part by its letter.
+func TestPhrase(t *testing.T) {
+	for name, want := range map[string]string{
+		"translation x":                                      "translation along x",
+		"translation (0.6, -0.8, 0)":                         "translation along (0.6, -0.8, 0)",
+		"rotation z":                                         "rotation about z",
+		"rotation (0, 0, 1) through (40, 30, 0)":             "rotation about z through (40, 30, 0)",
+		"rotation (1, 0, 0) through (0, 5, 2)":               "rotation about x through (0, 5, 2)",
+		"rotation (0.707107, 0.707107, 0) through (0, 0, 0)": "rotation about (0.707107, 0.707107, 0) through (0, 0, 0)",
+		"no motion":                                          "no motion",
+	} {
+		if got := Phrase(name); got != want {
+			t.Errorf("Phrase(%q) = %q, want %q", name, got, want)
+		}
+	}
+	// Every name the engine gives reads as one of the two phrasings.
+	for _, tw := range []Twist{{V: Vec{3, -4, 0}}, {W: Vec{0, 0, 1}, V: Vec{40, -60, 0}}, {W: Vec{1, 1, 0}}, {W: Vec{0, 2, 0}}} {
+		p := Phrase(plate.Name(tw))
+		if !strings.HasPrefix(p, "translation along ") && !strings.HasPrefix(p, "rotation about ") {
+			t.Errorf("%v: %q reads neither as a translation along nor a rotation about", tw, p)
 		}
 	}
 }

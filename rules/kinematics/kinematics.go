@@ -33,6 +33,16 @@ func SurfaceClass(k model.Kind) dof.Class {
 		return dof.Prismatic
 	case model.Surface:
 		return dof.Complex
+	// Elements of the geometry have the invariance of what they are: a
+	// line that of an axis, a point that of a centre, a circle that of
+	// its axis through its centre (turning about it only, which is the
+	// cone class's invariance).
+	case model.Line:
+		return dof.Cylinder
+	case model.Point:
+		return dof.Sphere
+	case model.Circle:
+		return dof.Cone
 	}
 	return 0 // unknown kind: no conditions (dof.Surface.Valid is false)
 }
@@ -72,11 +82,56 @@ func targetSurfaces(t *model.Target) []dof.Surface {
 // A pattern used as one datum stacks all its members' conditions (ASME
 // Y14.5-2018, patterns of features as datum features). A datum whose target
 // did not resolve gives no surfaces and so removes nothing.
+//
+// A datum established by datum targets takes its conditions from the
+// targets instead (ContactSurfaces).
 func DatumSurfaces(d *model.Datum) dof.Datum {
-	if d == nil || !d.Target.Resolved() || !hasGeometry(d.Target.Feature) {
+	if d == nil {
+		return nil
+	}
+	if len(d.Targets) > 0 {
+		var out dof.Datum
+		for _, t := range d.Targets {
+			out = append(out, ContactSurfaces(t)...)
+		}
+		return out
+	}
+	if !d.Target.Resolved() || !hasGeometry(d.Target.Feature) {
 		return nil
 	}
 	return dof.Datum(targetSurfaces(&d.Target))
+}
+
+// ContactSurfaces maps a datum target to point contacts (dof.Contact): a
+// point target to one at its point, a line target to one at each end, an
+// area target to one at its centre (a target area is touched as a point
+// in the datum scheme: common practice; a flat-ended simulator of the
+// area's size), each along the surface's normal where the target lies (a
+// target on an inclined face, a cylinder or a cone acts as it lies: ASME
+// Y14.5-2018, datum targets). The normal is the one written with the
+// target, or else the surface's own (model.Target.NormalAt); a target
+// with neither, or one that did not read, gives nothing.
+func ContactSurfaces(t *model.DatumTarget) []dof.Surface {
+	if t == nil || t.Broken {
+		return nil
+	}
+	normal := func(p model.Vec) (model.Vec, bool) {
+		if t.Normal.Norm() > 0 {
+			return t.Normal, true
+		}
+		return t.On.NormalAt(p)
+	}
+	points := []model.Vec{t.Point}
+	if t.Shape == model.TargetLine {
+		points = append(points, t.End)
+	}
+	var out []dof.Surface
+	for _, p := range points {
+		if n, ok := normal(p); ok {
+			out = append(out, dof.Surface{Class: dof.Contact, Dir: dof.Vec(n), Point: dof.Vec(p)})
+		}
+	}
+	return out
 }
 
 // RefSurfaces maps a datum reference to the engine: for a common datum
@@ -125,10 +180,20 @@ func RefSurfaces(r *model.DatumRef) dof.Datum {
 // invariant only under what leaves all of them unchanged (ASME
 // Y14.5-2018, pattern location).
 //
+// A position written with a zone direction (bidirectional positional
+// tolerancing: a parallel-planes zone normal to that direction about each
+// member's axis or centre; ASME Y14.5-2018, from memory) is a zone between
+// two planes: the plane class with that normal through each member.
+//
 // Every segment of a frame controls the same feature with the same zone
 // shape, so the zone is the frame's.
 func ZoneOf(fr *model.Frame) dof.Zone {
 	surfs := targetSurfaces(&fr.Target)
+	if u := fr.Upper().ZoneDir; u != nil && fr.Characteristic.Category() == model.Location {
+		for i := range surfs {
+			surfs[i].Class, surfs[i].Dir = dof.Plane, dof.Vec(*u)
+		}
+	}
 	z := dof.Zone{Surfaces: surfs}
 	switch fr.Characteristic.Category() {
 	case model.Orientation:
@@ -336,11 +401,22 @@ func segmentProblem(fr *model.Frame, s *model.Segment) string {
 	case !hasGeometry(t.Feature):
 		return fmt.Sprintf("%s has no readable geometry", t.Name)
 	}
-	for _, r := range s.Refs {
+	return RefsProblem(s.Refs)
+}
+
+// RefsProblem says why a datum reference list cannot be analysed (a datum
+// that is not declared, or is on a feature that is not declared or has no
+// readable geometry), or "" when every reference can be.
+func RefsProblem(refs []*model.DatumRef) string {
+	for _, r := range refs {
 		for i, d := range r.Datums {
 			switch {
 			case d == nil:
 				return fmt.Sprintf("datum %s is not declared", r.Letters[i])
+			case len(d.Targets) > 0:
+				if why := targetsProblem(d); why != "" {
+					return why
+				}
 			case !d.Target.Resolved():
 				return fmt.Sprintf("datum %s is on %s, which is not a declared feature", d.Letter, d.Target.Name)
 			case !hasGeometry(d.Target.Feature):
@@ -349,6 +425,21 @@ func segmentProblem(fr *model.Frame, s *model.Segment) string {
 		}
 		if len(r.Datums) == 0 {
 			return fmt.Sprintf("datum reference %s names no datum", r.Name)
+		}
+	}
+	return ""
+}
+
+// targetsProblem says why a datum's targets cannot be analysed, or "".
+func targetsProblem(d *model.Datum) string {
+	for _, t := range d.Targets {
+		switch {
+		case t.Broken:
+			return fmt.Sprintf("datum target %s of datum %s does not read", t.Label, d.Letter)
+		case !t.On.Resolved():
+			return fmt.Sprintf("datum target %s is on %s, which is not a declared feature", t.Label, t.On.Name)
+		case len(ContactSurfaces(t)) == 0:
+			return fmt.Sprintf("datum target %s gives no normal to touch it along: write one, e.g. normal +z", t.Label)
 		}
 	}
 	return ""

@@ -14,6 +14,7 @@ import (
 
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/lint/internal/gen"
+	"github.com/datumlint/datumlint/rules/longtest"
 )
 
 // Hostile input: each file gives a clear, positioned finding or none, and
@@ -94,6 +95,22 @@ func hostileFiles() map[string]hostile {
 		"only comments":    {"# nothing but a comment\n# datumlint: allow syntax -- no reason to\n", rules.HeaderMissing.ID, 0},
 		"continuation eof": {contract + "frame bore: position dia \\", rules.Syntax.ID, 29},
 		"control chars":    {strings.Replace(contract, "units mm", "units \x1b[31mmm", 1), rules.Syntax.ID, 2},
+	}
+}
+
+// A binary file is one finding, whatever else it seems to lack or hold: a
+// file that is not text is not also reported as missing its header.
+func TestBinaryFileIsOneFinding(t *testing.T) {
+	for name, src := range map[string]string{
+		"executable":         "\x7fELF\x02\x01\x01\x00\x00\x00\x00\x00" + strings.Repeat("\x00\xff\x10", 300),
+		"header, then a NUL": "units mm\nstandard iso\n\x00\x01",
+		"a NUL, no header":   "frame bore: flatness 0.1\n\x00",
+		"with a BOM":         "\xef\xbb\xbf\x00\x00",
+	} {
+		ds := rules.Check(Read("b"+Ext, []byte(src)), nil)
+		if len(ds) != 1 || ds[0].Rule != rules.Syntax.ID || !strings.Contains(ds[0].Message, "binary data") || ds[0].Span.Start != (source.Pos{Line: 1, Col: 1}) {
+			t.Errorf("%s: want one syntax finding at 1:1 about binary data, got %s", name, summary(ds))
+		}
 	}
 }
 
@@ -189,9 +206,7 @@ func TestLineEndsAndBOMDoNotChangeFindings(t *testing.T) {
 // A 10 MB file (built here, not committed): every plate of a generated
 // repository in one file, so every name is declared many times over.
 func TestTenMegabyteFile(t *testing.T) {
-	if testing.Short() {
-		t.Skip("builds and checks a 10 MB file")
-	}
+	longtest.Skip(t, "builds and checks a 10 MB file")
 	var b bytes.Buffer
 	for i := 0; b.Len() < 10<<20; i++ {
 		b.Write(gen.Plate(i))
@@ -279,12 +294,18 @@ func TestUnreadablePaths(t *testing.T) {
 		errs[e.Path] = e.Err.Error()
 	}
 	for path, want := range map[string]string{
-		loop1: "", loop2: "", filepath.Join(dir, "dangling"+Ext): "no such file", folder: "folder", missing: "no such file",
+		loop1: "", loop2: "", filepath.Join(dir, "dangling"+Ext): "no such file", missing: "no such file",
 	} {
 		msg, ok := errs[path]
 		if !ok || !strings.Contains(msg, want) {
 			t.Errorf("%s: want an error containing %q, got %q (reported: %v)", filepath.Base(path), want, msg, res.Errors)
 		}
+	}
+	if _, ok := errs[folder]; ok {
+		t.Errorf("the folder named like a file is an error; it should be a warning only: %v", res.Errors)
+	}
+	if len(res.Warnings) != 1 || res.Warnings[0].Path != folder {
+		t.Errorf("warnings %v, want one about %s", res.Warnings, folder)
 	}
 	checked := map[string]bool{}
 	for _, f := range res.Files {

@@ -8,6 +8,7 @@ package lint
 import (
 	"errors"
 	"fmt"
+	"io"
 	"io/fs"
 	"os"
 	"path/filepath"
@@ -156,6 +157,9 @@ func (e *PathError) Error() string { return fmt.Sprintf("%s: %v", e.Path, e.Err)
 // File is what a run read and found in one file.
 type File struct {
 	Path string
+	// Root is the path on the command line the file was found under: the
+	// folder that was walked, or the file itself where it was named.
+	Root string
 	// Source is the file as read: kept where it has findings, or with
 	// Options.KeepParts; nil otherwise, and where the file was not read.
 	Source *source.File
@@ -167,11 +171,14 @@ type File struct {
 }
 
 // Result is the outcome of a run: one File per checked file, in the order
-// of a serial run, and the paths that could not be read.
+// of a serial run, the paths that could not be read, the likely mistakes
+// that did not stop the run, and how many walked files were excluded.
 type Result struct {
-	Files  []*File
-	Errors []*PathError
-	byPath map[string]*File
+	Files    []*File
+	Errors   []*PathError
+	Warnings []*PathError
+	Excluded int
+	byPath   map[string]*File
 }
 
 // Diagnostics returns every file's findings, sorted by file, line and
@@ -196,30 +203,53 @@ func (r *Result) File(path string) *File {
 	return r.byPath[path]
 }
 
+// Found is what Collect found under the paths.
+type Found struct {
+	// Files are the files to check, in order.
+	Files []string
+	// Roots are, for each file, the path it was found under (the walked
+	// folder, or the file as named).
+	Roots []string
+	// Errors are the paths that could not be read; a run that has any
+	// exits 2.
+	Errors []*PathError
+	// Warnings are likely mistakes that do not stop anything: a folder
+	// named like a callouts file, whose files are still checked.
+	Warnings []*PathError
+	// Excluded counts the walked files that exclude left out.
+	Excluded int
+}
+
 // Collect expands paths into the files to check: files as named, folders
-// walked for the extensions a reader knows, in sorted order. Missing or unreadable paths,
-// permission errors and symbolic link loops become PathErrors.
-func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError) {
-	var files []string
+// walked for the extensions a reader knows, in sorted order. Missing or
+// unreadable paths, permission errors and symbolic link loops become
+// Errors; a folder named like a callouts file is a Warning.
+func Collect(paths []string, exclude func(string) bool) Found {
+	var out Found
+	var files, roots []string
 	var errs []*PathError
 	seen := map[string]bool{}
+	var root string
+	named := func(p string) {
+		// Likely a mistake (an export that made a folder per part): say
+		// so, and still check the files inside.
+		out.Warnings = append(out.Warnings, &PathError{p, fmt.Errorf("a folder named like %s; the files inside it are checked", like(p))})
+	}
 	add := func(p string) {
 		// x.callouts and ./x.callouts are one file, checked once.
 		if c := filepath.Clean(p); !seen[c] {
 			seen[c] = true
-			files = append(files, p)
+			files, roots = append(files, p), append(roots, root)
 		}
 	}
-	for _, root := range paths {
+	for _, root = range paths {
 		info, err := os.Stat(root)
 		if err != nil {
 			errs = append(errs, &PathError{root, friendlyErr(err)})
 			continue
 		}
 		if info.IsDir() && namedLikeFile(filepath.Clean(root)) {
-			// Named like a file but a folder: report it (exit 2), and
-			// still check what is inside.
-			errs = append(errs, &PathError{root, fmt.Errorf("a folder named like %s; the files inside it are checked", like(root))})
+			named(root)
 		}
 		if !info.IsDir() {
 			if !info.Mode().IsRegular() {
@@ -242,9 +272,7 @@ func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError)
 					return fs.SkipDir // .git and other hidden folders
 				}
 				if p != root && namedLikeFile(d.Name()) {
-					// Likely a mistake (an export that made a folder per part);
-					// say so, and still check the files inside.
-					errs = append(errs, &PathError{p, fmt.Errorf("a folder named like %s; the files inside it are checked", like(d.Name()))})
+					named(p)
 				}
 				return nil
 			}
@@ -263,6 +291,7 @@ func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError)
 				}
 			}
 			if exclude != nil && exclude(p) {
+				out.Excluded++
 				return nil
 			}
 			add(p)
@@ -272,7 +301,8 @@ func Collect(paths []string, exclude func(string) bool) ([]string, []*PathError)
 			errs = append(errs, &PathError{root, friendlyErr(err)})
 		}
 	}
-	return files, errs
+	out.Files, out.Roots, out.Errors = files, roots, errs
+	return out
 }
 
 func friendlyErr(err error) error {
@@ -291,8 +321,9 @@ func friendlyErr(err error) error {
 
 // Run checks every file under paths.
 func Run(paths []string, opt Options) Result {
-	files, errs := Collect(paths, opt.Exclude)
-	res := Result{Files: make([]*File, len(files)), Errors: errs}
+	found := Collect(paths, opt.Exclude)
+	files := found.Files
+	res := Result{Files: make([]*File, len(files)), Errors: found.Errors, Warnings: found.Warnings, Excluded: found.Excluded}
 	workers := opt.Workers
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
@@ -318,12 +349,49 @@ func Run(paths []string, opt Options) Result {
 	}
 	close(next)
 	wg.Wait()
+	for i, f := range res.Files {
+		f.Root = found.Roots[i]
+	}
 	for _, e := range pathErrs {
 		if e != nil {
 			res.Errors = append(res.Errors, e)
 		}
 	}
 	sort.SliceStable(res.Errors, func(i, j int) bool { return res.Errors[i].Path < res.Errors[j].Path })
+	return res
+}
+
+// RunReader checks one file read from r (standard input) under the name
+// given, which chooses the reader and the settings (Options.SettingsFor)
+// and names the file in the findings. Input over the size limit is not
+// read past it and gets the same one finding as a file over the limit.
+func RunReader(name string, r io.Reader, opt Options) Result {
+	f := &File{Path: name}
+	res := Result{Files: []*File{f}}
+	max := opt.MaxBytes
+	if max <= 0 {
+		max = DefaultMaxBytes
+	}
+	settings := opt.Settings
+	if opt.SettingsFor != nil {
+		s, err := opt.SettingsFor(name)
+		if err != nil {
+			res.Errors = append(res.Errors, &PathError{name, err})
+			return res
+		}
+		settings = s
+	}
+	src, err := io.ReadAll(io.LimitReader(r, max+1))
+	if err != nil {
+		res.Errors = append(res.Errors, &PathError{name, err})
+		return res
+	}
+	if int64(len(src)) > max {
+		f.Diagnostics = []rules.Diagnostic{{File: name, Rule: rules.Syntax.ID, Severity: rules.Error, Span: source.Line(1),
+			Message: fmt.Sprintf("the input is over the size limit of %d bytes; it was not read (raise the limit with --max-bytes if it really is one part)", max)}}
+		return res
+	}
+	CheckSource(f, src, settings, opt.KeepParts)
 	return res
 }
 

@@ -1,6 +1,7 @@
 // Package ruledoc renders a rule's documentation as Markdown: the one
-// rendering behind docs/rules.md (rules/gendocs) and the help of the SARIF
-// rule descriptors (cmd/datumlint).
+// rendering behind docs/rules.md (rules/gendocs), the help of the SARIF
+// rule descriptors (cmd/datumlint) and the language server's hovers; and it
+// says where each rule's section of docs/rules.md is published.
 package ruledoc
 
 import (
@@ -9,6 +10,14 @@ import (
 
 	"github.com/datumlint/datumlint/rules"
 )
+
+// RulesDoc is the published address of docs/rules.md.
+const RulesDoc = "https://github.com/datumlint/datumlint/blob/main/docs/rules.md"
+
+// URL is the address of a rule's section of docs/rules.md: the section's
+// heading is the rule's identifier, which is its anchor. SARIF's helpUri and
+// the language server's codeDescription both use it.
+func URL(id string) string { return RulesDoc + "#" + id }
 
 // Markdown renders a rule's summary, rationale, source and, where it has
 // them, its bad and good examples as code blocks. It has no heading, so

@@ -1,6 +1,7 @@
 package ruledoc
 
 import (
+	"os"
 	"strings"
 	"testing"
 
@@ -22,5 +23,23 @@ func TestMarkdown(t *testing.T) {
 	r.Fix, r.FixSafe = "remove it", true
 	if got := Markdown(r); !strings.Contains(got, "Fix: remove it (safe: `check --fix` applies it)") {
 		t.Errorf("a rule with a safe fix: %q", got)
+	}
+}
+
+// TestURLMatchesHeading checks that a rule's address points at a heading
+// that docs/rules.md has: its anchor is the identifier itself.
+func TestURLMatchesHeading(t *testing.T) {
+	doc, err := os.ReadFile("../../docs/rules.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, r := range rules.All() {
+		u := URL(r.ID)
+		if !strings.HasPrefix(u, RulesDoc+"#") {
+			t.Fatalf("URL(%q) = %q", r.ID, u)
+		}
+		if !strings.Contains(string(doc), "\n## "+strings.TrimPrefix(u, RulesDoc+"#")+"\n") {
+			t.Errorf("docs/rules.md has no section %q for %s", "## "+r.ID, u)
+		}
 	}
 }

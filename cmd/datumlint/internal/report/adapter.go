@@ -15,6 +15,7 @@ import (
 	"github.com/datumlint/datumlint/rules/dof"
 	"github.com/datumlint/datumlint/rules/kinematics"
 	"github.com/datumlint/datumlint/rules/material"
+	"github.com/datumlint/datumlint/rules/setup"
 )
 
 // This file is the only one that reads the part model, the rules and the
@@ -27,11 +28,15 @@ import (
 // model.Modifier, model.DatumRef, model.Datum (with their spans),
 // source.File (Offset, LineBytes), rules.Diagnostic, rules.Lookup,
 // kinematics.Result.Segment and kinematics.Segment (DRF.Steps, DRF.Free,
-// Zone.Free, Resolved, Problem), dof.Motion, and rules/material.
+// Zone.Free, Resolved, Problem), dof.Motion, rules/material, and
+// rules/setup (Result.Frames, Result.Of, Setup, Reference, Element).
 
 // File is one checked file, as the report command has it.
 type File struct {
-	Path     string
+	Path string
+	// Root is the path on the command line the file was found under (a
+	// folder, or the file itself); WriteSite mirrors folders below it.
+	Root     string
 	Source   []byte
 	Part     *model.Part
 	Findings []rules.Diagnostic
@@ -67,10 +72,21 @@ func Build(f File) *Page {
 	if part.Standard == model.StandardUnknown {
 		p.Standard = "not stated"
 	}
+	setups := setup.Analyze(part, kin)
+	p.Setups = setupsOf(setups)
+	ids := map[string]string{}
+	for _, s := range p.Setups {
+		ids[s.Label] = s.ID
+	}
 	for _, fr := range part.Frames {
 		e := FrameEntry{Frame: frameOf(src, fr)}
-		for i := range fr.Segments {
+		for i, seg := range fr.Segments {
 			e.DOF = append(e.DOF, dofOfSegment(kin.Segment(fr, i), fr, i))
+			id := ""
+			if s := setups.Of(seg.Refs); s != nil {
+				id = ids[s.Label()]
+			}
+			e.SetupIDs = append(e.SetupIDs, id)
 		}
 		p.Frames = append(p.Frames, e)
 	}
@@ -78,7 +94,7 @@ func Build(f File) *Page {
 		p.Datums = append(p.Datums, draw.DatumSymbol{Letter: d.Letter, Target: d.Target.Name,
 			Line: d.Span.Start.Line, Statement: statementText(src, d.Span)})
 	}
-	p.Materials = materials(part, src)
+	p.Materials = materials(part, src, setups)
 	p.Views = viewsOf(part)
 	frameSpans := make([]source.Span, len(part.Frames))
 	for i, fr := range part.Frames {
@@ -157,22 +173,15 @@ func frameOf(src *source.File, fr *model.Frame) draw.Frame {
 			// its letters (ASME Y14.5-2018, common datum features at MMB,
 			// from memory).
 			var ref draw.DatumRef
-			for _, l := range r.Letters {
-				ref.Letters = append(ref.Letters, draw.DatumLetter{Letter: l, Material: r.Material})
+			for i, l := range r.Letters {
+				mat, _ := r.Boundary(i)
+				ref.Letters = append(ref.Letters, draw.DatumLetter{Letter: l, Material: mat})
 			}
 			seg.Datums = append(seg.Datums, ref)
 		}
 		out.Segments = append(out.Segments, seg)
 	}
 	return out
-}
-
-func refLabel(r *model.DatumRef) string {
-	s := strings.Join(r.Letters, "-")
-	if r.Material != "" {
-		s += "(" + r.Material + ")"
-	}
-	return s
 }
 
 // dofOfSegment turns the engine's analysis into the chart's data.
@@ -198,7 +207,7 @@ func dofOfSegment(a *kinematics.Segment, fr *model.Frame, i int) draw.DOF {
 	}
 	steps := a.DRF.Steps()
 	for k, r := range fr.Segments[i].Refs {
-		st := draw.DOFStep{Ref: refLabel(r)}
+		st := draw.DOFStep{Ref: r.Label()}
 		if k < len(steps) {
 			st.Removes = steps[k].Constrains
 			st.Removed = motions(steps[k].Removed)
@@ -244,8 +253,9 @@ func column(t dof.Twist) int {
 
 // materials works out a figure for every tolerance at MMC or LMC on a
 // feature of size, and for every datum feature of size referenced at MMB
-// or LMB (once per letter, boundary and higher-precedence datums).
-func materials(part *model.Part, src *source.File) []MaterialEntry {
+// or LMB (once per letter, boundary and higher-precedence datums), whose
+// boundary is the one its simulator in the set-up is built to.
+func materials(part *model.Part, src *source.File, setups *setup.Result) []MaterialEntry {
 	var out []MaterialEntry
 	units := part.Units.String()
 	if part.Units == model.UnitsUnknown {
@@ -272,51 +282,120 @@ func materials(part *model.Part, src *source.File) []MaterialEntry {
 					}
 				}
 			}
+			su := setups.Of(seg.Refs)
+			if su == nil {
+				continue
+			}
 			var higher []string
-			for _, r := range seg.Refs {
-				rc := material.ConditionOf(r.Material)
-				for i, l := range r.Letters {
-					if rc == material.RFS || i >= len(r.Datums) || r.Datums[i] == nil || !r.Datums[i].Target.Resolved() {
-						continue
-					}
-					feat := r.Datums[i].Target.Feature
-					s, ok := material.SizeOf(feat)
-					if !ok {
-						continue
-					}
-					key := fmt.Sprintf("%s|%s|%v", l, strings.Join(higher, ","), rc)
-					if seen[key] {
+			for _, r := range su.References {
+				for _, e := range r.Elements {
+					key := fmt.Sprintf("%s|%s|%v", e.Letter, strings.Join(higher, ","), e.Boundary)
+					if e.Boundary == material.RFS || !e.SizeKnown || !e.HasLimits || seen[key] {
 						continue
 					}
 					seen[key] = true
-					b, err := material.BoundaryOf(s, rc, material.Relations(part, feat, higher))
-					if err != nil {
-						continue
-					}
+					b := e.Boundary.Boundary()
 					after := "as primary"
 					if len(higher) > 0 {
 						after = "after " + strings.Join(higher, ", ")
 					}
-					e := MaterialEntry{Line: seg.Span.Start.Line, Figure: draw.MaterialFigure{
-						Title: fmt.Sprintf("datum %s on %s at %s %s, line %d", l, r.Datums[i].Target.Name, rc.Boundary(), after, seg.Span.Start.Line),
-						Units: units, Internal: s.Internal, Condition: rc.String(), MMC: s.MMC(), LMC: s.LMC(),
-						Datum: true, Boundary: b.Size}}
-					switch {
-					case b.From == "":
-						e.Notes = append(e.Notes, fmt.Sprintf("No tolerance relates %s to the datums before it, so its %s is its %s.", feat.Name, rc.Boundary(), rc))
-					default:
-						e.Notes = append(e.Notes, fmt.Sprintf("The %s is the virtual condition from %s.", rc.Boundary(), b.From))
+					m := MaterialEntry{Line: seg.Span.Start.Line, Figure: draw.MaterialFigure{
+						Title: fmt.Sprintf("datum %s on %s at %s %s, line %d", e.Letter, e.Feature, b, after, seg.Span.Start.Line),
+						Units: units, Internal: e.Limits.Internal, Condition: e.Boundary.String(), MMC: e.Limits.MMC(), LMC: e.Limits.LMC(),
+						Datum: true, Boundary: e.Size}}
+					if e.From == "" {
+						m.Notes = append(m.Notes, fmt.Sprintf("No tolerance relates %s to the datums before it, so its %s is its %s.", e.Feature, b, e.Boundary))
+					} else {
+						m.Notes = append(m.Notes, fmt.Sprintf("The %s is the virtual condition from %s.", b, e.From))
 					}
-					if b.Ambiguous {
-						e.Notes = append(e.Notes, "Several tolerances give different boundaries; state the boundary's value on the drawing. The one furthest outside the material is shown.")
+					if e.Ambiguous {
+						m.Notes = append(m.Notes, "Several tolerances give different boundaries; state the boundary's value on the drawing. The one furthest outside the material is shown.")
 					}
-					out = append(out, e)
+					out = append(out, m)
 				}
-				higher = append(higher, r.Letters...)
+				higher = append(higher, r.Name)
 			}
 		}
 	}
 	return out
+}
+
+// setupsOf lists the inspection set-up of every distinct datum reference
+// frame, in the order the frames first use them.
+func setupsOf(res *setup.Result) []SetupEntry {
+	all, uses := res.Frames()
+	out := make([]SetupEntry, 0, len(all))
+	for i, s := range all {
+		e := SetupEntry{ID: fmt.Sprintf("setup-%d", i+1), Label: s.Label(), Problem: s.Problem,
+			Figure: draw.Setup{Label: s.Label()}}
+		for _, u := range uses[s] {
+			line := u.Frame.Segments[u.Segment].Span.Start.Line
+			what := fmt.Sprintf("line %d: %s %s", line, u.Frame.Target.Name, u.Frame.Characteristic)
+			if u.Segment > 0 {
+				what += " (composite segment)"
+			}
+			e.Uses = append(e.Uses, SetupUse{FrameLine: u.Frame.Span.Start.Line, Text: what})
+		}
+		for _, r := range s.References {
+			row := SetupRow{Ref: r.Ref, Precedence: r.PrecedenceWord(), Boundary: r.BoundaryWord(), Kind: r.Kind(),
+				Describe: r.Describe(), Constrains: r.Constrains, Points: r.Contact.Points, Contact: r.Contact.Text,
+				Adjustable: r.Adjustable()}
+			sim := draw.Simulator{Ref: r.Ref, Precedence: r.PrecedenceWord(), Shape: simShapes[r.Shape], Kind: r.Kind(),
+				Adjustable: r.Adjustable(), Fixed: r.Fixed(), Points: r.Contact.Points, Constrains: r.Constrains}
+			for k, el := range r.Elements {
+				if k == 0 {
+					sim.Internal, sim.Members = el.Internal, el.Members
+				}
+				if el.SizeKnown {
+					size := sizeText(el)
+					row.Sizes = append(row.Sizes, fmt.Sprintf("%s on %s: %s", el.Letter, el.Feature, size))
+					if k == 0 {
+						sim.Size = size
+					}
+					if el.From != "" {
+						row.Sizes[len(row.Sizes)-1] += ", the virtual condition from " + el.From
+					} else {
+						row.Sizes[len(row.Sizes)-1] += fmt.Sprintf(", its %s (no tolerance relates it to the datums before it)", el.Boundary)
+					}
+					if el.Ambiguous {
+						row.Sizes[len(row.Sizes)-1] += "; several tolerances give different boundaries: state it on the drawing"
+					}
+				} else if el.Fixed && !el.HasLimits && sizedShape(el) {
+					row.Sizes = append(row.Sizes, fmt.Sprintf("%s on %s: not worked out (the feature has no readable size)", el.Letter, el.Feature))
+				}
+			}
+			for _, rel := range r.Relations {
+				row.Relations = append(row.Relations, rel.Text())
+			}
+			sim.Relations = row.Relations
+			e.Rows = append(e.Rows, row)
+			e.Figure.Simulators = append(e.Figure.Simulators, sim)
+		}
+		out = append(out, e)
+	}
+	return out
+}
+
+var simShapes = map[setup.Shape]draw.SimShape{
+	setup.Plane: draw.SimPlane, setup.Width: draw.SimWidth, setup.Cylinder: draw.SimCylinder,
+	setup.Sphere: draw.SimSphere, setup.Cone: draw.SimCone, setup.Extrusion: draw.SimExtrusion,
+	setup.Surface: draw.SimSurface,
+}
+
+func sizedShape(e setup.Element) bool {
+	return e.Shape == setup.Width || e.Shape == setup.Cylinder || e.Shape == setup.Sphere
+}
+
+// sizeText writes a fixed simulator's size with its sign: ⌀ for a
+// cylinder, S⌀ for a sphere, nothing for a width.
+func sizeText(e setup.Element) string {
+	switch e.Shape {
+	case setup.Cylinder:
+		return "⌀" + draw.Number(e.Size)
+	case setup.Sphere:
+		return "S⌀" + draw.Number(e.Size)
+	}
+	return draw.Number(e.Size)
 }
 
 var itemKinds = map[model.Kind]draw.ItemKind{

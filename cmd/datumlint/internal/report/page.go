@@ -33,15 +33,19 @@ func (c Counts) Add(d Counts) Counts {
 
 // Page is one part's report.
 type Page struct {
-	Path     string // the file as named on the command line
-	Title    string // the part's name, or the file's stem
-	Units    string
-	Standard string
-	Counts   Counts
+	Path string // the file as named on the command line
+	// IndexHref links back to the index of a report ("" for a page on its
+	// own: no link).
+	IndexHref string
+	Title     string // the part's name, or the file's stem
+	Units     string
+	Standard  string
+	Counts    Counts
 
 	Frames    []FrameEntry
 	Datums    []draw.DatumSymbol
 	Materials []MaterialEntry
+	Setups    []SetupEntry
 	Views     draw.Views
 
 	Findings   []Finding
@@ -55,6 +59,37 @@ type FrameEntry struct {
 	DOF       []draw.DOF
 	Findings  int    // findings on the frame's statement
 	FindingID string // the first of them
+	// SetupIDs are the ids of each segment's inspection set-up ("" for a
+	// segment without datums).
+	SetupIDs []string
+}
+
+// SetupEntry is the inspection set-up of one datum reference frame.
+type SetupEntry struct {
+	ID      string // the element's id: setup-N
+	Label   string // "A, B(M), C"
+	Uses    []SetupUse
+	Problem string // why it could not be worked out, or ""
+	Figure  draw.Setup
+	Rows    []SetupRow // one per reference, in precedence order
+}
+
+// SetupUse is a frame segment that uses a set-up.
+type SetupUse struct {
+	FrameLine int
+	Text      string
+}
+
+// SetupRow is one reference's simulator in words.
+type SetupRow struct {
+	Ref, Precedence, Boundary, Kind, Describe string
+	Sizes                                     []string // per fixed-size feature: its size and where it comes from
+	Relations                                 []string
+	Constrains, Points                        int
+	Contact                                   string
+	// Adjustable is set where the simulator adjusts its size to the
+	// feature (a feature of size at RMB).
+	Adjustable bool
 }
 
 // MaterialEntry is one material-condition figure.
@@ -132,6 +167,7 @@ var funcs = template.FuncMap{
 	"datumSVG":    func(d draw.DatumSymbol) template.HTML { return template.HTML(draw.DatumSymbolSVG(d)) },
 	"materialSVG": func(m draw.MaterialFigure) template.HTML { return template.HTML(draw.MaterialSVG(m)) },
 	"viewsSVG":    func(v draw.Views) template.HTML { return template.HTML(draw.ViewsSVG(v)) },
+	"setupSVG":    func(s draw.Setup) template.HTML { return template.HTML(draw.SetupSVG(s)) },
 	"legend":      draw.Legend,
 	"extentNote":  draw.ExtentNote,
 	"describe":    draw.Describe,

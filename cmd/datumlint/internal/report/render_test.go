@@ -6,82 +6,20 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/datumlint/datumlint/cmd/datumlint/internal/report/chromium"
 	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/rules"
 )
 
-// The example parts' pages render in headless Chromium to a screenshot
-// that is not blank, and log nothing on the console.
-func TestExamplePagesRender(t *testing.T) {
-	chromium(t)
-	dir := t.TempDir()
-	var entries []IndexEntry
-	for _, path := range examplePaths(t) {
-		p, _, _ := build(t, path)
-		stem := strings.TrimSuffix(filepath.Base(path), ".callouts")
-		html := filepath.Join(dir, stem+".html")
-		f, err := os.Create(html)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if err := p.WriteHTML(f); err != nil {
-			t.Fatal(err)
-		}
-		f.Close()
-		entries = append(entries, p.Entry(stem+".html"))
-		png := filepath.Join(dir, stem+".png")
-		CheckRendered(t, html, png, 1000, 2400)
-		if *updateScreenshot && stem == "gearbox-cover" {
-			data, err := os.ReadFile(png)
-			if err != nil {
-				t.Fatal(err)
-			}
-			if err := os.WriteFile("../../../../docs/report-example.png", data, 0o644); err != nil {
-				t.Fatal(err)
-			}
-		}
-		if out := os.Getenv("DATUMLINT_REPORT_KEEP"); out != "" {
-			// For a person to look at: DATUMLINT_REPORT_KEEP=/tmp/r go test -run Render
-			_ = os.MkdirAll(out, 0o755)
-			for _, n := range []string{html, png} {
-				data, _ := os.ReadFile(n)
-				_ = os.WriteFile(filepath.Join(out, filepath.Base(n)), data, 0o644)
-			}
-		}
-	}
-	index := filepath.Join(dir, "index.html")
-	f, err := os.Create(index)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := WriteIndex(f, entries); err != nil {
-		t.Fatal(err)
-	}
-	f.Close()
-	CheckRendered(t, index, filepath.Join(dir, "index.png"), 1000, 600)
-}
-
-// The helper catches a page that loads something from the network.
-func TestScreenshotReportsConsoleMessages(t *testing.T) {
-	chromium(t)
-	dir := t.TempDir()
-	html := filepath.Join(dir, "bad.html")
-	page := `<!DOCTYPE html><html><head><meta http-equiv="Content-Security-Policy" content="default-src 'none'"><title>x</title></head>` +
-		`<body><p>text</p><img src="http://example.invalid/logo.png" alt=""></body></html>`
-	if err := os.WriteFile(html, []byte(page), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	msgs := Screenshot(t, html, filepath.Join(dir, "bad.png"), 400, 300)
-	if len(msgs) == 0 {
-		t.Error("a page loading a network image logged nothing")
-	}
-}
+// The example parts' pages as the report command writes them are rendered
+// in Chromium by cmd/datumlint's TestReportRendersInChromium.
 
 // The page prints on A4 and on Letter, each part of the page from a new
 // sheet: at least one sheet for the header and frames, and one each for the
-// datum symbols, the material conditions, the views and the findings.
+// datum symbols, the material conditions, the inspection set-up, the views
+// and the findings.
 func TestPagePrintsOnA4AndLetter(t *testing.T) {
-	chromium(t)
+	chromium.Find(t)
 	dir := t.TempDir()
 	// A small part, whose page would fit on two sheets without the breaks.
 	src := "part \"Spacer\"\nunits mm\nstandard iso\nfeature face plane normal -z at (0, 0, 0)\n" +
@@ -102,12 +40,12 @@ func TestPagePrintsOnA4AndLetter(t *testing.T) {
 		if err := os.WriteFile(path, []byte(html), 0o644); err != nil {
 			t.Fatal(err)
 		}
-		n, w, h := pdfPages(PrintPDF(t, path, filepath.Join(dir, paper.name+".pdf")))
+		n, w, h := chromium.PDFPages(chromium.PrintPDF(t, path, filepath.Join(dir, paper.name+".pdf")))
 		if d := w - paper.w; d > 1 || d < -1 || h-paper.h > 1 || h-paper.h < -1 {
 			t.Errorf("%s: printed on %g x %g points", paper.name, w, h)
 		}
-		if n < 5 {
-			t.Errorf("%s: %d sheets; each of the five parts should start a sheet", paper.name, n)
+		if n < 6 {
+			t.Errorf("%s: %d sheets; each of the six parts should start a sheet", paper.name, n)
 		}
 	}
 }

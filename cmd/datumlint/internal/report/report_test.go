@@ -2,7 +2,6 @@ package report
 
 import (
 	"bytes"
-	"flag"
 	"math"
 	"os"
 	"path/filepath"
@@ -17,8 +16,6 @@ import (
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/dof"
 )
-
-var updateScreenshot = flag.Bool("update-screenshot", false, "write docs/report-example.png from the gearbox cover's page")
 
 const examples = "../../../../testdata/examples"
 
@@ -268,7 +265,7 @@ func TestColoursPassAA(t *testing.T) {
 			t.Errorf("drawing text %s on %s is %.2f:1", p[0], p[1], r)
 		}
 	}
-	for _, g := range []string{draw.ExtentInk, draw.CentreInk, "#595959"} {
+	for _, g := range []string{draw.ExtentInk, draw.CentreInk, draw.LightText, "#595959"} {
 		if r := contrast(g, "#ffffff"); r < 3 {
 			t.Errorf("graphic %s on white is %.2f:1", g, r)
 		}
@@ -411,5 +408,80 @@ func TestMotionColumns(t *testing.T) {
 		if got := column(c.tw); got != c.want {
 			t.Errorf("column(%+v) = %d, want %d", c.tw, got, c.want)
 		}
+	}
+}
+
+// The pump flange's page has an inspection set-up per distinct datum
+// reference frame, in first use: A; A, B(M); A, B(M), C(M). The bore's
+// simulator at MMB is a fixed pin of its MMC less the perpendicularity at
+// MMC to A (25 − 0.05 = 24.95), the keyway's a block of its MMC less its
+// position at MMC to A and B (6 − 0.1 = 5.9); each frame links to its
+// set-up, and each set-up is drawn.
+func TestSetupSection(t *testing.T) {
+	p, part, _ := build(t, filepath.Join(examples, "pump-flange.callouts"))
+	var labels []string
+	for _, s := range p.Setups {
+		labels = append(labels, s.Label)
+	}
+	if got := strings.Join(labels, " | "); got != "A | A, B(M) | A, B(M), C(M)" {
+		t.Fatalf("set-ups %q", got)
+	}
+	last := p.Setups[2]
+	if len(last.Rows) != 3 || len(last.Figure.Simulators) != 3 {
+		t.Fatalf("rows %+v", last.Rows)
+	}
+	b, c := last.Rows[1], last.Rows[2]
+	if b.Kind != "fixed-size cylinder" || len(b.Sizes) != 1 || !strings.HasPrefix(b.Sizes[0], "B on bore: ⌀24.95, the virtual condition from perpendicularity") {
+		t.Errorf("B(M): %+v", b)
+	}
+	if c.Kind != "fixed-size width" || len(c.Sizes) != 1 || !strings.HasPrefix(c.Sizes[0], "C on key: 5.9, the virtual condition from position 0.1 (M) to A, B") {
+		t.Errorf("C(M): %+v", c)
+	}
+	if last.Rows[0].Points != 3 || b.Points != 0 || b.Constrains != 2 || c.Constrains != 1 {
+		t.Errorf("contact and counts: %+v", last.Rows)
+	}
+	html := render(t, p)
+	for _, s := range p.Setups {
+		if !strings.Contains(html, `<figure class="setup" id="`+s.ID+`">`) || !strings.Contains(html, `data-setup="`+s.Label+`"`) {
+			t.Errorf("set-up %s (%s) is not drawn", s.ID, s.Label)
+		}
+	}
+	// Each frame with datums links to its set-up; the flatness has none.
+	for i, fr := range part.Frames {
+		id := p.Frames[i].SetupIDs[0]
+		if (id == "") != (len(fr.Upper().Refs) == 0) {
+			t.Errorf("frame on line %d: set-up %q", fr.Span.Start.Line, id)
+		}
+		if id != "" && !strings.Contains(html, `href="#`+id+`"`) {
+			t.Errorf("frame on line %d does not link to %s", fr.Span.Start.Line, id)
+		}
+	}
+	// The datum's material figure has the same boundary as its simulator.
+	found := false
+	for _, m := range p.Materials {
+		if m.Figure.Datum && strings.HasPrefix(m.Figure.Title, "datum B on bore at MMB after A") {
+			found = near(m.Figure.Boundary, 24.95)
+		}
+	}
+	if !found {
+		t.Errorf("no material figure for B at MMB with 24.95: %+v", p.Materials)
+	}
+}
+
+// A set-up that cannot be worked out says why, and one the page lists
+// for a frame without datums is none.
+func TestSetupProblem(t *testing.T) {
+	p, _, _ := build(t, filepath.Join(examples, "gearbox-cover.callouts"))
+	var bad *SetupEntry
+	for i := range p.Setups {
+		if p.Setups[i].Label == "A, B, E" {
+			bad = &p.Setups[i]
+		}
+	}
+	if bad == nil || bad.Problem != "datum E is not declared" || len(bad.Rows) != 0 {
+		t.Fatalf("set-up A, B, E: %+v", bad)
+	}
+	if html := render(t, p); !strings.Contains(html, "Not worked out: datum E is not declared.") {
+		t.Error("the page does not say why A, B, E was not worked out")
 	}
 }

@@ -25,6 +25,7 @@ import (
 	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/rules/basics"
 	"github.com/datumlint/datumlint/rules/lint/internal/gen"
+	"github.com/datumlint/datumlint/rules/longtest"
 )
 
 // compared counts what one comparison covered.
@@ -143,10 +144,7 @@ func TestMatchesReferenceOnTestdata(t *testing.T) {
 // at random, so that the engines have missing quantities to find and name
 // in patterns, bolt circles and chains.
 func TestMatchesReferenceOnPlates(t *testing.T) {
-	n := 60
-	if testing.Short() {
-		n = 10
-	}
+	n := longtest.N(10, 60)
 	rng := rand.New(rand.NewPCG(7, 11))
 	var c compared
 	for i := range n {

@@ -10,16 +10,14 @@ import (
 	"github.com/datumlint/datumlint/grammar"
 
 	"github.com/datumlint/datumlint/rules"
+	"github.com/datumlint/datumlint/rules/longtest"
 )
 
 // TestPlatesAreClean is the generator's contract: a generated plate is a
 // correct drawing, so every rule stays silent. A finding here means either
 // the generator wrote a mistake or a rule fires on a clean part.
 func TestPlatesAreClean(t *testing.T) {
-	n := 200
-	if testing.Short() {
-		n = 40
-	}
+	n := longtest.N(40, 200)
 	for i := 0; i < n; i++ {
 		src := Plate(i)
 		for _, d := range rules.Check(grammar.Read("plate.callouts", src), nil) {

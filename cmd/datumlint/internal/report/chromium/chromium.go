@@ -1,10 +1,13 @@
-package report
+// Package chromium renders HTML in Debian's headless Chromium for tests: a
+// screenshot with the console messages the page logged, a count of the
+// pixels it inked, and a print to PDF with its sheets counted. Every
+// helper skips the test where chromium is not installed, or under -short.
+package chromium
 
 import (
 	"bytes"
 	"context"
 	"fmt"
-	"image"
 	"image/png"
 	"os"
 	"os/exec"
@@ -15,9 +18,9 @@ import (
 	"time"
 )
 
-// chromium returns the path of Debian's headless-capable browser, or skips
+// Find returns the path of Debian's headless-capable browser, or skips
 // the test where it is missing (and under -short).
-func chromium(t *testing.T) string {
+func Find(t testing.TB) string {
 	t.Helper()
 	if testing.Short() {
 		t.Skip("renders in a browser; skipped under -short")
@@ -40,9 +43,9 @@ var consoleLine = regexp.MustCompile(`:CONSOLE[(:]\d*\)?\] "(.*)", source: (.*)`
 // runChromium runs headless Chromium on an HTML file with the flags every
 // run needs (no sandbox, no GPU, nothing fetched in the background, a new
 // empty profile) and the extra flags given; it returns what it printed.
-func runChromium(t *testing.T, htmlPath string, extra ...string) string {
+func runChromium(t testing.TB, htmlPath string, extra ...string) string {
 	t.Helper()
-	bin := chromium(t)
+	bin := Find(t)
 	abs, err := filepath.Abs(htmlPath)
 	if err != nil {
 		t.Fatal(err)
@@ -64,7 +67,7 @@ func runChromium(t *testing.T, htmlPath string, extra ...string) string {
 
 // Screenshot renders an HTML file in headless Chromium to a PNG of the
 // given window size, and returns the console messages the page logged.
-func Screenshot(t *testing.T, htmlPath, pngPath string, width, height int) []string {
+func Screenshot(t testing.TB, htmlPath, pngPath string, width, height int) []string {
 	t.Helper()
 	out, err := filepath.Abs(pngPath)
 	if err != nil {
@@ -81,9 +84,9 @@ func Screenshot(t *testing.T, htmlPath, pngPath string, width, height int) []str
 	return msgs
 }
 
-// inkedPixels counts the pixels of a PNG that differ from its top-left
+// InkedPixels counts the pixels of a PNG that differ from its top-left
 // pixel (the page's background).
-func inkedPixels(t *testing.T, path string) (inked, total int) {
+func InkedPixels(t testing.TB, path string) (inked, total int) {
 	t.Helper()
 	f, err := os.Open(path)
 	if err != nil {
@@ -116,13 +119,13 @@ func diff(a, b uint32) uint32 {
 
 // CheckRendered renders a page and fails when it is blank or logged a
 // console message.
-func CheckRendered(t *testing.T, htmlPath, pngPath string, width, height int) {
+func CheckRendered(t testing.TB, htmlPath, pngPath string, width, height int) {
 	t.Helper()
 	msgs := Screenshot(t, htmlPath, pngPath, width, height)
 	for _, m := range msgs {
 		t.Errorf("%s logged: %s", htmlPath, m)
 	}
-	inked, total := inkedPixels(t, pngPath)
+	inked, total := InkedPixels(t, pngPath)
 	// A page with a heading, a frame and a table inks well over 1% of a
 	// screen; a blank or failed render inks nothing.
 	if inked*100 < total {
@@ -130,52 +133,9 @@ func CheckRendered(t *testing.T, htmlPath, pngPath string, width, height int) {
 	}
 }
 
-func TestInkedPixelsSeesABlankImage(t *testing.T) {
-	dir := t.TempDir()
-	img := image.NewRGBA(image.Rect(0, 0, 40, 30))
-	for i := range img.Pix {
-		img.Pix[i] = 0xff
-	}
-	write := func(name string) string {
-		p := filepath.Join(dir, name)
-		f, err := os.Create(p)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if err := png.Encode(f, img); err != nil {
-			t.Fatal(err)
-		}
-		f.Close()
-		return p
-	}
-	if n, _ := inkedPixels(t, write("blank.png")); n != 0 {
-		t.Errorf("a white image has %d inked pixels", n)
-	}
-	for x := 0; x < 10; x++ {
-		img.Set(x+5, 10, image.Black.C)
-	}
-	if n, _ := inkedPixels(t, write("line.png")); n != 10 {
-		t.Errorf("a ten-pixel line has %d inked pixels", n)
-	}
-}
-
-func TestConsoleLinePattern(t *testing.T) {
-	line := `[4294:4294:1204/192943.769025:INFO:CONSOLE:0] "Loading the image 'http://example.invalid/x.png' violates the following Content Security Policy directive", source: file:///tmp/t.html (0)`
-	if m := consoleLine.FindStringSubmatch(line); m == nil || !strings.HasPrefix(m[1], "Loading the image") {
-		t.Errorf("console line not read: %q", m)
-	}
-	old := `[1:1:0101/000000.0:INFO:CONSOLE(12)] "Uncaught x", source: file:///a.html (12)`
-	if consoleLine.FindStringSubmatch(old) == nil {
-		t.Error("the older console line form is not read")
-	}
-	if consoleLine.FindStringSubmatch(`[1:1:ERROR:dbus/bus.cc:405] Failed to connect to the bus`) != nil {
-		t.Error("a browser log line read as a console message")
-	}
-}
-
 // PrintPDF prints an HTML file to PDF with headless Chromium, as a reader
 // printing the page would, and returns the PDF.
-func PrintPDF(t *testing.T, htmlPath, pdfPath string) []byte {
+func PrintPDF(t testing.TB, htmlPath, pdfPath string) []byte {
 	t.Helper()
 	out, err := filepath.Abs(pdfPath)
 	if err != nil {
@@ -194,9 +154,9 @@ var (
 	pdfMediaBox = regexp.MustCompile(`/MediaBox\s*\[\s*0 0 ([\d.]+) ([\d.]+)\s*\]`)
 )
 
-// pdfPages returns the number of pages of a PDF and the size of its first
+// PDFPages returns the number of pages of a PDF and the size of its first
 // page in points.
-func pdfPages(data []byte) (n int, w, h float64) {
+func PDFPages(data []byte) (n int, w, h float64) {
 	n = len(pdfPage.FindAll(data, -1))
 	if m := pdfMediaBox.FindSubmatch(data); m != nil {
 		fmt.Sscan(string(m[1]), &w)
