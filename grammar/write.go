@@ -27,8 +27,8 @@ type Notes struct {
 	// Head are comment lines above the header.
 	Head []string
 	// Above gives the lines above an element (a *model.Feature,
-	// *model.Datum, *model.Frame or *model.Dimension); After its trailing
-	// comment. Either may be nil.
+	// *model.Datum, *model.DatumTarget, *model.Frame or *model.Dimension);
+	// After its trailing comment. Either may be nil.
 	Above func(el any) []string
 	After func(el any) string
 	// Tail are comment lines after the last statement.
@@ -65,17 +65,27 @@ func FromModel(p *model.Part, n Notes) *File {
 	if p.Standard != model.StandardUnknown {
 		head = append(head, &StandardStmt{Standard: &Word{Value: p.Standard.String()}})
 	}
+	if p.Basis == model.ModelBasis || hasHeader(p, "basis") {
+		head = append(head, &BasisStmt{Basis: &Word{Value: p.Basis.String()}})
+	}
 	w.block()
 	for _, st := range head {
 		w.stmt(st, nil)
 	}
 	w.block()
 	for _, ft := range p.Features {
+		if ft.DatumTarget != nil {
+			continue // a datum target's point or line: its target statement declares it
+		}
 		w.element(ft, featureStmt(ft))
 	}
 	w.block()
 	for _, d := range p.Datums {
 		w.element(d, datumStmt(d))
+	}
+	w.block()
+	for _, t := range p.Targets {
+		w.element(t, targetStmt(t))
 	}
 	w.block()
 	for _, fr := range p.Frames {
@@ -176,6 +186,8 @@ func describeElement(el any) string {
 		return fmt.Sprintf("feature %q (%s)", x.Name, x.Kind)
 	case *model.Datum:
 		return fmt.Sprintf("datum %q on %q", x.Letter, x.Target.Name)
+	case *model.DatumTarget:
+		return fmt.Sprintf("datum target %q on %q", x.Label, x.On.Name)
 	case *model.Frame:
 		return fmt.Sprintf("a %s frame on %q", x.Characteristic, x.Target.Name)
 	case *model.Dimension:
@@ -239,7 +251,22 @@ func setLine(st Stmt, line int) {
 		s.Pos, s.EndPos = pos, pos
 	case *DimStmt:
 		s.Pos, s.EndPos = pos, pos
+	case *BasisStmt:
+		s.Pos, s.EndPos = pos, pos
+	case *TargetStmt:
+		s.Pos, s.EndPos = pos, pos
+	case *RefStmt:
+		s.Pos, s.EndPos = pos, pos
 	}
+}
+
+func hasHeader(p *model.Part, kw string) bool {
+	for _, h := range p.Headers {
+		if h.Keyword == kw {
+			return true
+		}
+	}
+	return false
 }
 
 // --- values -----------------------------------------------------------------
@@ -296,15 +323,46 @@ var axisWords = []struct {
 	word string
 }{{model.Vec{1, 0, 0}, "+x"}, {model.Vec{-1, 0, 0}, "-x"}, {model.Vec{0, 1, 0}, "+y"}, {model.Vec{0, -1, 0}, "-y"}, {model.Vec{0, 0, 1}, "+z"}, {model.Vec{0, 0, -1}, "-z"}}
 
-// direction writes a unit direction as an axis word where it is one
-// exactly, else as a vector.
+// directionNode writes a unit direction as an axis word where it is one
+// exactly, else as a vector: with the decimals the direction was written
+// with where that gives the same direction back (a drafter's (0, 0.5,
+// 0.866025), read as a unit vector, is written as it was), else with the
+// digits the unit vector needs.
 func directionNode(v model.Vec, decimals [3]int) *Direction {
 	for _, a := range axisWords {
 		if v == a.v {
 			return &Direction{Axis: a.word}
 		}
 	}
-	return &Direction{Vector: vectorNode(v, decimals)}
+	round := func(v model.Vec, d [3]int) (model.Vec, bool) {
+		var r model.Vec
+		for i := range r {
+			r[i], _ = strconv.ParseFloat(strconv.FormatFloat(v[i], 'f', d[i], 64), 64)
+		}
+		return r, r.Norm() > 0 && r.Unit() == v
+	}
+	if decimals[0] >= 0 && decimals[1] >= 0 && decimals[2] >= 0 && decimals[0] < 20 && decimals[1] < 20 && decimals[2] < 20 {
+		if r, ok := round(v, decimals); ok {
+			return &Direction{Vector: vectorNode(r, decimals)}
+		}
+	}
+	// A direction written without decimals known: the simplest vector that
+	// reads as it, (1, 0, 1) before 0.7071067811865476, so that written
+	// and read again it is the same unit vector.
+	small := math.Inf(1)
+	for _, x := range v {
+		if x != 0 {
+			small = math.Min(small, math.Abs(x))
+		}
+	}
+	for _, base := range []model.Vec{v.Scale(1 / small), v} {
+		for d := 0; d <= 17; d++ {
+			if r, ok := round(base, [3]int{d, d, d}); ok {
+				return &Direction{Vector: vectorNode(r, [3]int{d, d, d})}
+			}
+		}
+	}
+	return &Direction{Vector: vectorNode(v, [3]int{-1, -1, -1})}
 }
 
 func vectorNode(v model.Vec, decimals [3]int) *Vector {
@@ -333,6 +391,7 @@ func validTarget(t model.Target) bool {
 var geometryWord = map[model.Kind]string{
 	model.Plane: "normal", model.Slot: "normal", model.Tab: "normal", model.Hole: "axis", model.Pin: "axis",
 	model.Cone: "axis", model.Extrusion: "along", model.Socket: "at", model.Ball: "at", model.Surface: "at",
+	model.Point: "at", model.Line: "along", model.Circle: "axis",
 }
 
 func featureStmt(ft *model.Feature) Stmt {
@@ -343,8 +402,17 @@ func featureStmt(ft *model.Feature) Stmt {
 	if ft.Pattern {
 		s.Count = &Count{N: &Number{Text: strconv.Itoa(len(ft.Members))}}
 	}
-	if sz := ft.Size; sz != nil && ft.Kind.IsFOS() && finite(sz.Nominal, sz.Upper, sz.Lower) {
+	if sz := ft.Size; sz != nil && ft.Kind.TakesSize() && finite(sz.Nominal, sz.Upper, sz.Lower) {
 		s.Size = sizeNode(sz, false)
+	}
+	if ft.Thread != "" {
+		s.Thread = &Thread{Designation: strconv.QuoteToGraphic(ft.Thread)}
+	}
+	if c := ft.Counterbore; c != nil && c.Diameter != nil && c.Depth != nil {
+		s.Cbore = &Counterbore{Diameter: sizeNode(c.Diameter, false), Depth: sizeNode(c.Depth, false)}
+	}
+	if c := ft.Countersink; c != nil && c.Diameter != nil && c.Angle != nil {
+		s.Csink = &Countersink{Diameter: sizeNode(c.Diameter, false), Angle: sizeNode(c.Angle, true)}
 	}
 	if a, b := ft.Faces[0], ft.Faces[1]; a != nil && b != nil && validTarget(*a) && validTarget(*b) {
 		s.Geometry = &Geometry{Word: &GeomWord{Value: "between"}, Faces: []*Name{nameNode(a.Name), nameNode(b.Name)}}
@@ -401,6 +469,35 @@ func datumStmt(d *model.Datum) Stmt {
 	return s
 }
 
+func targetStmt(t *model.DatumTarget) Stmt {
+	if t.Broken || !validName(t.Label) || !validTarget(t.On) || t.Shape == model.TargetShapeUnknown ||
+		!finite(t.Point[0], t.Point[1], t.Point[2], t.End[0], t.End[1], t.End[2]) {
+		return nil
+	}
+	none := [3]int{-1, -1, -1}
+	s := &TargetStmt{Label: nameNode(t.Label), Shape: &Word{Value: t.Shape.String()}, On: nameNode(t.On.Name)}
+	if t.Feature != nil && len(t.Feature.Members) > 0 {
+		none = t.Feature.Members[0].Decimals
+	}
+	if t.Shape == model.TargetArea {
+		switch {
+		case t.Dia > 0:
+			s.Area = &TargetArea{Dia: "dia", Value: numNode(t.Dia)}
+		default:
+			s.Area = &TargetArea{Rect: numNode(t.Width).Text + "x" + numNode(t.Height).Text}
+		}
+	}
+	if t.Shape == model.TargetLine {
+		s.From, s.To = vectorNode(t.Point, none), vectorNode(t.End, [3]int{-1, -1, -1})
+	} else {
+		s.At = vectorNode(t.Point, none)
+	}
+	if t.Normal.Norm() > 0 {
+		s.Normal = directionNode(t.Normal, [3]int{-1, -1, -1})
+	}
+	return s
+}
+
 func frameStmt(fr *model.Frame) Stmt {
 	if !validTarget(fr.Target) || fr.Characteristic.Category() == model.CategoryUnknown || len(fr.Segments) == 0 {
 		return nil
@@ -412,6 +509,19 @@ func frameStmt(fr *model.Frame) Stmt {
 			return nil
 		}
 		if i == 0 {
+			switch fr.Extent {
+			case model.AllAround, model.AllOver:
+				t.Notes = append(t.Notes, &Note{Word: fr.Extent})
+			case model.Between:
+				a, b := fr.Between[0], fr.Between[1]
+				if a == nil || b == nil || !validTarget(*a) || !validTarget(*b) {
+					return nil
+				}
+				t.Notes = append(t.Notes, &Note{From: nameNode(a.Name), To: nameNode(b.Name)})
+			}
+			if fr.ThreadDiameter != "" {
+				t.Notes = append(t.Notes, &Note{Word: fr.ThreadDiameter})
+			}
 			s.Tolerance = t
 		} else {
 			s.Composites = append(s.Composites, &Composite{Tolerance: t})
@@ -431,6 +541,19 @@ func toleranceNode(seg *model.Segment) *Tolerance {
 	case seg.Named != "":
 		t.Zone = &Word{Value: string(seg.Named)} // a characteristic written on a composite line
 	}
+	if u := seg.PerUnit; u != nil {
+		switch {
+		case !finite(u.Length, u.Width):
+			return nil
+		case u.Area:
+			t.PerUnit = &PerUnit{Area: numNode(u.Length).Text + "x" + numNode(u.Width).Text}
+		default:
+			t.PerUnit = &PerUnit{Length: numNode(u.Length)}
+		}
+	}
+	if seg.ZoneDir != nil {
+		t.Along = directionNode(*seg.ZoneDir, [3]int{-1, -1, -1})
+	}
 	for _, m := range seg.Modifiers {
 		mod := &Modifier{Symbol: "(" + m.Letter + ")"}
 		if m.HasValue {
@@ -439,19 +562,64 @@ func toleranceNode(seg *model.Segment) *Tolerance {
 		t.Modifiers = append(t.Modifiers, mod)
 	}
 	for _, r := range seg.Refs {
-		if !identRE.MatchString(r.Name) {
+		ref := datumRefNode(r)
+		if ref == nil {
 			return nil
 		}
-		ref := &DatumRef{Name: r.Name}
-		if r.Material != "" {
-			ref.Modifiers = []*RefModifier{{Symbol: "(" + r.Material + ")"}}
-		}
 		t.Datums = append(t.Datums, ref)
+	}
+	if seg.Separate {
+		t.Notes = append(t.Notes, &Note{Word: "separate"})
 	}
 	return t
 }
 
+// datumRefNode writes a datum reference: A, A-B(M), or H(M)-J(M) where the
+// letters of a common datum have boundaries of their own.
+func datumRefNode(r *model.DatumRef) *DatumRef {
+	mat := func(m string) []*RefModifier {
+		if m == "" {
+			return nil
+		}
+		return []*RefModifier{{Symbol: "(" + m + ")"}}
+	}
+	if len(r.Letters) == 0 {
+		return nil
+	}
+	for _, l := range r.Letters {
+		if !identRE.MatchString(l) || strings.Contains(l, "-") {
+			return nil
+		}
+	}
+	own := r.Material == "" && len(r.Materials) == len(r.Letters)
+	if own {
+		same := true
+		for _, m := range r.Materials {
+			same = same && m == r.Materials[0]
+		}
+		own = !same || r.Materials[0] != ""
+		if same {
+			own = false // one boundary for the whole reference, or none
+		}
+	}
+	if !own {
+		m := r.Material
+		if m == "" && len(r.Materials) > 0 {
+			m = r.Materials[0]
+		}
+		return &DatumRef{Name: strings.Join(r.Letters, "-"), Modifiers: mat(m)}
+	}
+	ref := &DatumRef{Name: r.Letters[0], Modifiers: mat(r.Materials[0])}
+	for i, l := range r.Letters[1:] {
+		ref.More = append(ref.More, &RefMember{Name: "-" + l, Modifiers: mat(r.Materials[i+1])})
+	}
+	return ref
+}
+
 func dimStmt(d *model.Dimension) Stmt {
+	if d.Reference {
+		return refStmt(d)
+	}
 	if c := d.Circle; c != nil {
 		if !validTarget(c.Pattern) || !validTarget(c.About) || !finite(c.Diameter) {
 			return nil
@@ -472,6 +640,34 @@ func dimStmt(d *model.Dimension) Stmt {
 		return &DimStmt{Size: sizeNode(&tol, d.Angle), From: nameNode(d.From.Name), To: nameNode(d.To.Name), Along: along}
 	}
 	s := &BasicStmt{Value: numTextNode(d.Value, d.ValueText), Deg: d.Angle, From: nameNode(d.From.Name), To: nameNode(d.To.Name), Along: along}
+	if d.About != nil {
+		if !validTarget(*d.About) {
+			return nil
+		}
+		s.About = nameNode(d.About.Name)
+	}
+	return s
+}
+
+// refStmt writes a reference dimension: a size of a feature, or a
+// distance or an angle.
+func refStmt(d *model.Dimension) Stmt {
+	if !finite(d.Value) {
+		return nil
+	}
+	if d.SizeOf != nil {
+		if !validTarget(*d.SizeOf) {
+			return nil
+		}
+		return &RefStmt{Size: numTextNode(d.Value, d.ValueText), Of: nameNode(d.SizeOf.Name)}
+	}
+	if !validTarget(d.From) || !validTarget(d.To) {
+		return nil
+	}
+	s := &RefStmt{Value: numTextNode(d.Value, d.ValueText), Deg: d.Angle, From: nameNode(d.From.Name), To: nameNode(d.To.Name)}
+	if d.Along != nil && !d.Angle {
+		s.Along = directionNode(*d.Along, [3]int{-1, -1, -1})
+	}
 	if d.About != nil {
 		if !validTarget(*d.About) {
 			return nil
