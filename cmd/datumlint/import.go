@@ -24,9 +24,9 @@ func newImportCmd() *cobra.Command {
 the callout notation: its features (like features under one characteristic as a pattern),
 datums, feature control frames and dimensions, named from the QIF names where they are valid
 and unique, otherwise from the feature's kind and QIF id, each with a comment giving the QIF
-ids it comes from. In a model every nominal location is basic: the basic dimensions the model
-implies for each frame are written as basic lines. What the document says that the notation
-cannot carry is listed as comments at the end (check on the QIF file reports each).
+ids it comes from, under 'basis model' (in a model every nominal location and angle is basic).
+What the document says that the notation cannot carry is listed as comments at the end
+(check on the QIF file reports each).
 
 The file written, checked, gives the findings that checking the QIF file gives, except the
 findings about the QIF document as such (qif-unsupported, qif-inconsistent).

@@ -110,7 +110,7 @@ var constructs = []construct{
 		if res.Origins.Frames[pos] != 72 || res.Origins.Datums[a] != 10 || res.Origins.Features[bore][0] != 53 {
 			t.Errorf("origins %v", res.Origins)
 		}
-		if len(p.Refs) != 3+4 || p.Headers[0].Keyword != "standard" || p.Headers[1].Keyword != "units" {
+		if len(p.Refs) != 3+4 || p.Headers[0].Keyword != "basis" || p.Headers[1].Keyword != "standard" || p.Headers[2].Keyword != "units" || p.Basis != model.ModelBasis {
 			t.Errorf("refs %d headers %+v", len(p.Refs), p.Headers)
 		}
 	}},
@@ -172,7 +172,7 @@ var constructs = []construct{
 	{name: "no-linear-unit", doc: withDoc(plate, func(q *qdoc) {
 		q.units = `<MassUnit><SIUnitName>kilogram</SIUnitName><UnitName>kg</UnitName></MassUnit>`
 	}), check: func(t *testing.T, res *Result, src string) {
-		if res.Part.Units != model.UnitsUnknown || len(res.Part.Headers) != 1 {
+		if res.Part.Units != model.UnitsUnknown || len(res.Part.Headers) != 2 {
 			t.Errorf("units %v headers %+v", res.Part.Units, res.Part.Headers)
 		}
 		wantNotes(t, res, `inconsistent: the document gives no linear unit`)
@@ -195,7 +195,7 @@ var constructs = []construct{
 	{name: "standard-1994", doc: withDoc(plate, func(q *qdoc) {
 		q.std = `<Standard id="9999"><Organization><StandardsOrganizationEnum>ASME</StandardsOrganizationEnum></Organization><Designator>Y14.5M-1994</Designator></Standard>`
 	}), check: func(t *testing.T, res *Result, src string) {
-		if res.Part.Standard != model.StandardUnknown || len(res.Part.Headers) != 1 {
+		if res.Part.Standard != model.StandardUnknown || len(res.Part.Headers) != 2 {
 			t.Errorf("standard %v", res.Part.Standard)
 		}
 		wantNotes(t, res, `unsupported: the governing standard ASME Y14.5M-1994: the 1994 edition is not one datumlint checks`)

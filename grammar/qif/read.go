@@ -91,6 +91,11 @@ func Map(doc *Document) *Result {
 		m.part.Title = doc.Title
 		m.part.Headers = append(m.part.Headers, model.HeaderLine{Keyword: "part", Value: doc.Title, Span: doc.TitleSpan})
 	}
+	// A QIF document is a model-based definition: every nominal location
+	// and angle of its model is basic (ASME Y14.41-2019, model values are
+	// basic; from memory), as `basis model` says in the notation.
+	m.part.Basis = model.ModelBasis
+	m.part.Headers = append(m.part.Headers, model.HeaderLine{Keyword: "basis", Value: model.ModelBasis.String(), Span: doc.Root})
 	m.u.init(m)
 	m.standard()
 	m.features()

@@ -22,7 +22,6 @@ import (
 	"github.com/datumlint/datumlint/grammar/qif"
 	"github.com/datumlint/datumlint/grammar/source"
 	"github.com/datumlint/datumlint/rules"
-	"github.com/datumlint/datumlint/rules/implied"
 )
 
 // Ext is the extension of callout files.
@@ -48,16 +47,7 @@ var readers = []struct {
 	notation bool
 }{
 	{Ext, "a callouts file", grammar.Read, true},
-	{QIFExt, "a QIF file", ReadQIF, false},
-}
-
-// ReadQIF reads a QIF document (grammar/qif) with the basic dimensions its
-// model implies (rules/implied): a model-based definition's nominal
-// geometry is basic.
-func ReadQIF(name string, src []byte) *model.Part {
-	p := qif.Read(name, src)
-	implied.Basics(p)
-	return p
+	{QIFExt, "a QIF file", qif.Read, false},
 }
 
 func readerOf(name string) int {

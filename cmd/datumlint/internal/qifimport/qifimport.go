@@ -1,10 +1,11 @@
 // Package qifimport writes a QIF 3 document's part in the callout notation,
-// for `datumlint import`: the QIF reader (grammar/qif) builds the part model
-// with the basic dimensions its model implies (rules/implied), the
-// notation's writer (grammar.FromModel) turns the model into the
+// for `datumlint import`: the QIF reader (grammar/qif) builds the part model,
+// the notation's writer (grammar.FromModel) turns the model into the
 // notation's tree and the printer (grammar.Format) lays it out. This
 // package adds only the comments: where each statement comes from in the
 // QIF document, and what the document says that the file does not carry.
+// The part is written under `basis model`: in a model-based definition
+// every nominal location and angle is basic.
 //
 // The file written, checked, gives the findings that checking the QIF
 // document gives, except the findings about the QIF document as such (the
@@ -23,7 +24,6 @@ import (
 	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/grammar/qif"
 	"github.com/datumlint/datumlint/grammar/source"
-	"github.com/datumlint/datumlint/rules/implied"
 )
 
 // Import reads a QIF document and returns the part written in the
@@ -33,12 +33,11 @@ func Import(name string, src []byte) ([]byte, error) {
 	if err != nil {
 		return nil, err
 	}
-	added := implied.Basics(res.Part)
-	f := grammar.FromModel(res.Part, notes(name, res, added))
+	f := grammar.FromModel(res.Part, notes(name, res))
 	return grammar.Format(f)
 }
 
-func notes(name string, res *qif.Result, added []implied.Implied) grammar.Notes {
+func notes(name string, res *qif.Result) grammar.Notes {
 	o := res.Origins
 	nominals := map[qif.ID]*qif.CharNominal{}
 	for _, c := range res.Doc.CharNominals {
@@ -47,14 +46,6 @@ func notes(name string, res *qif.Result, added []implied.Implied) grammar.Notes 
 	names := map[qif.ID]string{}
 	for _, n := range res.Doc.FeatureNominals {
 		names[n.ID] = n.Name
-	}
-	implies := map[*model.Dimension]*model.Frame{}
-	for _, x := range added {
-		implies[x.Dim] = x.Frame
-	}
-	var firstImplied *model.Dimension
-	if len(added) > 0 {
-		firstImplied = added[0].Dim
 	}
 	n := grammar.Notes{
 		Head: []string{
@@ -76,27 +67,11 @@ func notes(name string, res *qif.Result, added []implied.Implied) grammar.Notes 
 					return fmt.Sprintf("QIF %d", id)
 				}
 			case *model.Dimension:
-				if fr, ok := implies[x]; ok {
-					if id, ok := o.Frames[fr]; ok {
-						return fmt.Sprintf("implied by the model, for QIF %d", id)
-					}
-					return "implied by the model"
-				}
 				if id, ok := o.Dims[x]; ok {
 					return fmt.Sprintf("QIF %d", id) + writtenNote(x, nominals[id])
 				}
 			}
 			return ""
-		},
-		Above: func(el any) []string {
-			if d, ok := el.(*model.Dimension); ok && d == firstImplied {
-				return []string{"",
-					"In a model-based definition every nominal location and angle of the model is basic",
-					"(ASME Y14.41). Until the notation has a statement that says so, the basic dimensions",
-					"the model implies for each frame follow as basic lines (what basic-missing would ask).",
-				}
-			}
-			return nil
 		},
 	}
 	n.Tail = tail(res.Part)
