@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/grammar/source"
 )
 
 type charType int
@@ -49,7 +50,6 @@ func charTypeOf(t string) charType {
 
 // flagNotes say what each boolean modifier the model has no place for means.
 var flagNotes = map[string]string{
-	"SeparateZone":              "a separate requirement (SEP REQT)",
 	"CommonZone":                "a common zone (CZ)",
 	"CommonTolerance":           "a common tolerance",
 	"StatisticalCharacteristic": "a statistical tolerance (ST)",
@@ -131,6 +131,7 @@ func (m *mapper) frames(c *CharNominal, def *CharDef) {
 			return
 		}
 		fr := &model.Frame{Target: t.target(), Characteristic: char, CharSpan: c.Span, Segments: segs, Span: c.Span}
+		fr.Extent, fr.ExtentSpan = m.extent(def)
 		m.part.Frames = append(m.part.Frames, fr)
 		m.part.Refs = append(m.part.Refs, &fr.Target)
 		m.res.Origins.Frames[fr] = c.ID
@@ -146,12 +147,7 @@ func (m *mapper) segments(c *CharNominal, def *CharDef, t tgt) ([]*model.Segment
 	tv := def.ToleranceValue
 	if tv == nil && def.PerUnit != nil {
 		tv = def.PerUnit.Value
-		var unit []string
-		for _, v := range def.PerUnit.Unit {
-			unit = append(unit, v.Text)
-		}
-		m.note(Unsupported, def.PerUnit.Span, "a tolerance of %s per unit %s (%s): the model has no tolerance per unit; read as %s over the whole feature",
-			valueText(tv), strings.ToLower(def.PerUnit.Kind), strings.Join(unit, " x "), valueText(tv))
+		upper.PerUnit = m.perUnit(def.PerUnit, tv)
 	}
 	if tv == nil {
 		m.note(Inconsistent, def.Span, "%s definition %d has no readable tolerance value: %s nominal %d is left out", def.Type, def.ID, c.Type, c.ID)
@@ -193,8 +189,8 @@ func (m *mapper) segments(c *CharNominal, def *CharDef, t tgt) ([]*model.Segment
 			m.note(Unsupported, sp, "%s: %s is left out; the model has no such modifier", what, w)
 		}
 	}
-	if e := def.Extent; e != nil && e.Text != "UNDEFINED" && e.Text != "" {
-		m.note(Unsupported, e.Span, "%s: the extent %s is left out; the model has no all-around or all-over yet", what, strings.ReplaceAll(strings.ToLower(e.Text), "_", " "))
+	if sp, ok := def.Flags["SeparateZone"]; ok {
+		upper.Separate, upper.SeparateSpan = true, sp
 	}
 	for _, e := range def.Unread {
 		m.note(Unsupported, e.Span, "%s: <%s> is not read", what, e.Name)
@@ -237,6 +233,59 @@ func (m *mapper) segments(c *CharNominal, def *CharDef, t tgt) ([]*model.Segment
 	return segs, true
 }
 
+// extent reads where a profile applies: all around or all over (ASME
+// Y14.5-2018, all around and all over; ISO 1101:2017, all around). "This
+// side" is read as the whole extent, with a note.
+func (m *mapper) extent(def *CharDef) (string, source.Span) {
+	e := def.Extent
+	if e == nil {
+		return "", source.Span{}
+	}
+	switch e.Text {
+	case "ALL_AROUND":
+		return model.AllAround, e.Span
+	case "ALL_OVER":
+		return model.AllOver, e.Span
+	case "ALL_AROUND_THIS_SIDE", "ALL_OVER_THIS_SIDE":
+		m.note(Unsupported, e.Span, "%s definition %d: the extent %s is read as %s; the model has no 'this side'", def.Type, def.ID,
+			strings.ReplaceAll(strings.ToLower(e.Text), "_", " "), strings.TrimSuffix(strings.ReplaceAll(strings.ToLower(e.Text), "_", "-"), "-this-side"))
+		return strings.TrimSuffix(strings.ReplaceAll(strings.ToLower(e.Text), "_", "-"), "-this-side"), e.Span
+	case "UNDEFINED", "":
+		return "", source.Span{}
+	}
+	m.note(Unsupported, e.Span, "%s definition %d: the extent %q is left out; the model has all around and all over", def.Type, def.ID, e.Text)
+	return "", source.Span{}
+}
+
+// perUnit reads a tolerance per unit length or rectangular area (a
+// flatness of 0.005 per any 25 x 25); a circular unit area or another
+// unit is left out, with a note, and the tolerance read over the whole
+// feature.
+func (m *mapper) perUnit(p *PerUnit, tv *Value) *model.PerUnit {
+	var unit []string
+	var sizes []float64
+	for _, v := range p.Unit {
+		unit = append(unit, v.Text)
+		if x, ok := m.u.length(v, true); ok {
+			sizes = append(sizes, x)
+		}
+	}
+	out := &model.PerUnit{Span: p.Span}
+	num := func(x float64) string { return strconv.FormatFloat(x, 'f', -1, 64) }
+	switch {
+	case p.Kind == "Length" && len(sizes) == 1 && len(p.Unit) == 1:
+		out.Length, out.Text = sizes[0], num(sizes[0])
+		return out
+	case p.Kind == "Area" && len(sizes) == 2 && len(p.Unit) == 2:
+		out.Length, out.Width, out.Area = sizes[0], sizes[1], true
+		out.Text = num(sizes[0]) + "x" + num(sizes[1])
+		return out
+	}
+	m.note(Unsupported, p.Span, "a tolerance of %s per unit %s (%s): the model has tolerances per unit length and per rectangular area; read as %s over the whole feature",
+		valueText(tv), strings.ToLower(p.Kind), strings.Join(unit, " x "), valueText(tv))
+	return nil
+}
+
 // zone sets a segment's zone shape: dia (cylindrical), sdia (spherical) or
 // none (parallel planes or lines, or the characteristic's own shape).
 func (m *mapper) zone(s *model.Segment, z *Word, dir *Vec3) {
@@ -250,7 +299,12 @@ func (m *mapper) zone(s *model.Segment, z *Word, dir *Vec3) {
 		s.Zone, s.ZoneSpan = "sdia", z.Span
 	}
 	if dir != nil {
-		m.note(Unsupported, dir.Span, "the zone's direction (%g, %g, %g) is left out: the model has no zone direction yet", dir.V[0], dir.V[1], dir.V[2])
+		if dir.V.Norm() == 0 {
+			m.note(Inconsistent, dir.Span, "the zone's direction is the zero vector: left out")
+			return
+		}
+		u := dir.V.Unit()
+		s.ZoneDir, s.ZoneDirSpan = &u, dir.Span
 	}
 }
 
@@ -353,7 +407,7 @@ func (m *mapper) sizes(c *CharNominal, def *CharDef) {
 	}
 	for _, t := range ts {
 		f := t.f
-		fits := (c.Type == "Diameter" || c.Type == "SphericalDiameter") && (f.Kind.IsCylinder() || f.Kind.IsSphere()) ||
+		fits := (c.Type == "Diameter" || c.Type == "SphericalDiameter") && (f.Kind.IsCylinder() || f.Kind.IsSphere() || f.Kind == model.Circle) ||
 			(c.Type == "Width" || c.Type == "Thickness") && f.Kind.IsWidth()
 		if !fits {
 			m.note(Unsupported, c.Span, "%s is on %s, a %s: a %s is not its size; left out", what, t.target().Name, f.Kind, strings.ToLower(c.Type))
@@ -385,7 +439,21 @@ func (m *mapper) setSize(c *CharNominal, def *CharDef, t tgt) {
 	s := &model.Size{Nominal: nominal, Span: c.Span}
 	switch {
 	case def.DimensionType != nil && def.DimensionType.Text == "REFERENCE_OR_AUXILIARY":
-		m.note(Unsupported, def.DimensionType.Span, "%s is a reference size (%s): read as the feature's nominal size, untoleranced", what, valueText(c.TargetValue))
+		// A reference size is for information: checked against the model,
+		// it gives the feature no size.
+		sz := t.target()
+		d := &model.Dimension{Reference: true, Value: s.Nominal, SizeOf: &sz, Span: c.Span, ValueSpan: c.Span}
+		if c.TargetValue != nil {
+			d.ValueSpan, d.ValueText = c.TargetValue.Span, c.TargetValue.Text
+		}
+		if math.IsNaN(d.Value) {
+			m.note(Inconsistent, c.Span, "%s gives no TargetValue: left out", what)
+			return
+		}
+		m.part.Dims = append(m.part.Dims, d)
+		m.part.Refs = append(m.part.Refs, d.SizeOf)
+		m.res.Origins.Dims[d] = c.ID
+		return
 	case def.DimensionType != nil && def.DimensionType.Text == "BASIC_OR_TED":
 		m.note(Unsupported, def.DimensionType.Span, "%s is a basic size: read as the feature's nominal size, untoleranced", what)
 	case def.Tolerance != nil:
@@ -436,10 +504,9 @@ func (m *mapper) dimensions(c *CharNominal, def *CharDef) {
 	angular := strings.HasPrefix(c.Type, "Angle")
 	what := fmt.Sprintf("%s nominal %d", c.Type, c.ID)
 	basic := def.DimensionType != nil && def.DimensionType.Text == "BASIC_OR_TED"
+	reference := def.DimensionType != nil && def.DimensionType.Text == "REFERENCE_OR_AUXILIARY"
 	switch {
-	case def.DimensionType != nil && def.DimensionType.Text == "REFERENCE_OR_AUXILIARY":
-		m.note(Unsupported, c.Span, "%s is a reference dimension (%s): the model has no reference dimensions yet; left out", what, valueText(c.TargetValue))
-		return
+	case reference:
 	case def.DimensionType != nil && !basic:
 		m.note(Unsupported, def.DimensionType.Span, "%s is a %s dimension: left out", what, strings.ToLower(def.DimensionType.Text))
 		return
@@ -466,8 +533,13 @@ func (m *mapper) dimensions(c *CharNominal, def *CharDef) {
 		if tol, ok = m.tolerance(def, value, angular); !ok {
 			return
 		}
-		if basic {
+		switch {
+		case basic:
 			m.note(Inconsistent, def.Tolerance.Span, "%s is basic but carries a tolerance (%s/%s), as a display tolerance of a model dimension: read as basic, the tolerance left out",
+				what, valueText(def.Tolerance.Max), valueText(def.Tolerance.Min))
+			tol = nil
+		case reference:
+			m.note(Inconsistent, def.Tolerance.Span, "%s is a reference dimension but carries a tolerance (%s/%s): read as a reference, the tolerance left out",
 				what, valueText(def.Tolerance.Max), valueText(def.Tolerance.Min))
 			tol = nil
 		}
@@ -486,7 +558,7 @@ func (m *mapper) dimensions(c *CharNominal, def *CharDef) {
 	}
 	for _, p := range pairs {
 		v := m.unrounded(c.TargetValue, value, p, along, angular)
-		d := &model.Dimension{Basic: basic, Angle: angular, Value: v, ValueSpan: c.TargetValue.Span, ValueText: c.TargetValue.Text,
+		d := &model.Dimension{Basic: basic, Reference: reference, Angle: angular, Value: v, ValueSpan: c.TargetValue.Span, ValueText: c.TargetValue.Text,
 			From: p[0].target(), To: p[1].target(), Along: along, Span: c.Span}
 		if tol != nil {
 			t := *tol

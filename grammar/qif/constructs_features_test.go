@@ -82,6 +82,11 @@ func init() {
 				{"surface_112", model.Surface, model.Vec{}, model.Vec{}, 0, false},
 				{"surface_113", model.Surface, model.Vec{0, 0, -5}, model.Vec{}, 0, true},
 				{"surface_117", model.Surface, model.Vec{50, 0, 0}, model.Vec{}, 0, true},
+				// Elements of the geometry: a line, a circle with its
+				// definition's diameter, a point.
+				{"line_114", model.Line, model.Vec{0, 0, 0}, model.Vec{1, 0, 0}, 0, true},
+				{"circle_115", model.Circle, model.Vec{0, 0, 0}, model.Vec{0, 0, 1}, 4, true},
+				{"point_116", model.Point, model.Vec{1, 1, 1}, model.Vec{}, 0, true},
 			} {
 				f := feature(t, p, c.name)
 				if f.Kind != c.kind || !nearVec(f.Point(), c.point) || !nearVec(f.Dir, c.dir) || f.HasGeometry != c.geom {
@@ -91,16 +96,13 @@ func init() {
 					t.Errorf("%s: size %+v, want %g untoleranced", c.name, f.Size, c.size)
 				}
 			}
-			if len(p.Features) != 15 {
-				t.Errorf("%d features, want 15 (line, circle, point and the cylinder of no side left out)", len(p.Features))
+			if len(p.Features) != 18 {
+				t.Errorf("%d features, want 18 (the cylinder of no side left out)", len(p.Features))
 			}
 			wantNotes(t, res,
 				`unsupported: feature nominal 105 is a spherical segment of 0.038 of a sphere, which has no opposed points: read as a surface`,
 				`unsupported: feature nominal 108 is a cylindrical segment of 90 degrees, which has no opposed points`,
 				`unsupported: feature nominal 111: an extruded shape's location is its cross section`,
-				`unsupported: feature nominal 114 \(Line\) is left out: a line is not a feature kind of the model yet`,
-				`unsupported: feature nominal 115 \(Circle\) is left out: a circle`,
-				`unsupported: feature nominal 116 \(Point\) is left out: a point`,
 				`unsupported: feature nominal 117 is two opposed angled planes \(a tapered width\): read as a surface`,
 				`inconsistent: feature nominal 118 \(Cylinder\) is left out: its definition does not say whether it is internal or external \("NOT_APPLICABLE"\)`)
 		}},

@@ -131,18 +131,21 @@ func init() {
 		construct{name: "datums", doc: datumsDoc, check: func(t *testing.T, res *Result, src string) {
 			p := res.Part
 			a, b, c, d := p.Datum("A"), p.Datum("B"), p.Datum("C"), p.Datum("D")
-			if a.Broken || a.Target.Name != "base" || !b.Broken || b.Target.Resolved() || c.Broken || c.Target.Name != "left_a" || !d.Broken {
+			if a.Broken || a.Target.Name != "base" || b.Broken || b.Target.Name != "line_53" || c.Broken || c.Target.Name != "left_a" || !d.Broken {
 				t.Errorf("A %+v\nB %+v\nC %+v\nD %+v", a, b, c, d)
 			}
+			// A by three point targets on base, each a point feature of
+			// its label at its zone's place.
+			if len(a.Targets) != 3 || a.Targets[2].Label != "A3" || a.Targets[2].Shape != model.TargetPoint || a.Targets[2].Point != (model.Vec{40, 60, 2}) ||
+				a.Targets[0].On.Name != "base" || feature(t, p, "A1").DatumTarget != a.Targets[0] {
+				t.Errorf("A's targets %+v", a.Targets)
+			}
 			fr := p.Frames[0].Upper()
-			if refNames(fr) != "A B" || fr.Refs[1].Resolved() {
+			if refNames(fr) != "A B" || !fr.Refs[1].Resolved() {
 				t.Errorf("refs %s", refNames(fr))
 			}
 			wantNotes(t, res,
-				`unsupported: datum A is established by datum targets A1 \(point\), A2 \(point\), A3 \(point\); the model has no datum targets yet: read as a datum on base`,
-				`inconsistent: the zone of datum target A3 \(feature zone 37\) is 2 mm off the plane it names, feature nominal 50: the datum is read on the named plane`,
-				`unsupported: feature nominal 53 \(Line\) is left out`,
-				`unsupported: datum B is left without its feature: feature nominal 53 is left out \(a line is not a feature kind of the model yet\)`,
+				`inconsistent: the zone of datum target A3 \(feature zone 37\) is 2 mm off the plane it names, feature nominal 50: the target is read as given`,
 				`unsupported: datum C is on 2 features that share one plane: the model holds one, left_a`,
 				`unsupported: datum D is left without its feature: it is on 2 features \(left_a, right\) that are neither a pattern nor one plane`)
 		}},
@@ -160,9 +163,12 @@ func init() {
 			if len(bd.Letters) != 2 || bd.Letters[1] != "D" || bd.Datums[1] == nil || bd.Span.Start != at(t, src, `<CompoundDatum n="2">`) {
 				t.Errorf("common datum %+v", bd)
 			}
+			// A boundary on one member of a common datum: B(M)-D.
+			if bd := frameOf(t, res, 72).Upper().Refs[1]; bd.Label() != "B(M)-D" {
+				t.Errorf("common datum B(M)-D reads as %s", bd.Label())
+			}
 			wantNotes(t, res,
 				`unsupported: datum B: the reciprocity requirement \(R\) is left out; read as MAXIMUM`,
-				`unsupported: the common datum B-D has a different material boundary on each member`,
 				`unsupported: datum reference frame 23 has 4 datums: the model reads primary, secondary and tertiary`,
 				`unsupported: the datum modifier <DatumTranslation> of datum A is not read`)
 		}},
@@ -207,12 +213,22 @@ func init() {
 			if len(res.Part.Frames) != 9 {
 				t.Errorf("%d frames", len(res.Part.Frames))
 			}
+			// A separate requirement, all around, a tolerance per unit
+			// area and a zone's direction.
+			if up := frameOf(t, res, 70).Upper(); !up.Separate || up.SeparateSpan.Start != at(t, src, "<SeparateZone>") {
+				t.Errorf("separate requirement %+v", up)
+			}
+			if fr := frameOf(t, res, 72); fr.Extent != model.AllAround || fr.ExtentSpan.Start != at(t, src, "<ExtentEnum>ALL_AROUND") {
+				t.Errorf("extent %q", fr.Extent)
+			}
+			if u := frameOf(t, res, 73).Upper().PerUnit; u == nil || !u.Area || u.Length != 25 || u.Width != 25 || u.Text != "25x25" {
+				t.Errorf("per unit %+v", u)
+			}
+			if d := frameOf(t, res, 75).Upper().ZoneDir; d == nil || *d != (model.Vec{1, 0, 0}) {
+				t.Errorf("zone direction %v", d)
+			}
 			wantNotes(t, res,
-				`unsupported: Position definition 60: a separate requirement \(SEP REQT\) is left out`,
 				`unsupported: a maximum tolerance of 0.5 \(MAX\)`,
-				`unsupported: SurfaceProfile definition 62: the extent all around is left out`,
-				`unsupported: a tolerance of 0.01 per unit area \(25 x 25\): the model has no tolerance per unit; read as 0.01 over the whole feature`,
-				`unsupported: the zone's direction \(1, 0, 0\) is left out`,
 				`unsupported: a Coaxiality characteristic nominal 76 is not read`)
 		}},
 	)
@@ -279,8 +295,13 @@ func dimsOf(res *Result, id ID) []*model.Dimension {
 
 func dimText(d *model.Dimension) string {
 	s := "dim"
-	if d.Basic {
+	switch {
+	case d.Basic:
 		s = "basic"
+	case d.Reference && d.SizeOf != nil:
+		return fmt.Sprintf("ref size %g of %s", d.Value, d.SizeOf.Name)
+	case d.Reference:
+		s = "ref"
 	}
 	s += fmt.Sprintf(" %g", d.Value)
 	if d.Angle {
@@ -320,8 +341,12 @@ func init() {
 			if s := feature(t, p, "limits").Size; s.Span.Start != at(t, src, `<DiameterCharacteristicNominal id="70"`) {
 				t.Errorf("size span %v", s.Span)
 			}
+			// A reference size is a reference dimension of the feature,
+			// which keeps its definition's size.
+			if ds := dimsOf(res, 73); len(ds) != 1 || dimText(ds[0]) != "ref size 30 of ref" {
+				t.Errorf("the reference size: %v", ds)
+			}
 			wantNotes(t, res,
-				`unsupported: Width nominal 73 is a reference size \(30\): read as the feature's nominal size, untoleranced`,
 				`unsupported: Diameter nominal 74 is on face, a plane: a diameter is not its size; left out`,
 				`unsupported: Radius nominal 75 \(5\) is not read`,
 				`inconsistent: Diameter nominal 76 gives off the size 10.5, but its feature definition says 10 mm`,
@@ -335,6 +360,7 @@ func init() {
 			}{
 				{70, "basic 5 from base to step1"},
 				{71, "dim 5 +0.1/-0.1 from base to step2"},
+				{72, "ref 3 from lip1 to lip2"},
 				{73, "basic 3 from lip1 to lip2"},
 				{74, "basic 5 from base to step1|basic 5 from base to step2|basic 5 from base to step3"},
 				{75, "basic 3 from step1 to lip1|basic 3 from lip1 to lip2"},
@@ -355,11 +381,10 @@ func init() {
 				d.From.Span.Start != at(t, src, "<FirstFeature>") {
 				t.Errorf("spans %v %v %v", d.Span, d.ValueSpan, d.From.Span)
 			}
-			if len(dimsOf(res, 72)) != 0 || len(dimsOf(res, 76)) != 0 {
-				t.Errorf("reference and unreadable dimensions are left out")
+			if len(dimsOf(res, 76)) != 0 {
+				t.Errorf("unreadable dimensions are left out")
 			}
 			wantNotes(t, res,
-				`unsupported: DistanceBetween nominal 72 is a reference dimension \(3\): the model has no reference dimensions yet; left out`,
 				`inconsistent: DistanceBetween nominal 73 is basic but carries a tolerance \(0.02/-0.02\), as a display tolerance of a model dimension: read as basic`,
 				`unsupported: DistanceBetween nominal 76 is on 3 features without FeatureNominalPairs, and the nominal geometry does not tell`,
 				`unsupported: an angular size \(Angle\) nominal 79 is not read`)

@@ -3,6 +3,7 @@ package qif
 import (
 	"fmt"
 	"math"
+	"regexp"
 	"sort"
 	"strings"
 
@@ -27,8 +28,10 @@ func (m *mapper) datums() {
 			d.LetterSpan = dd.Span
 		}
 		refs := m.expand(dd.Features)
-		if len(refs) == 0 && len(dd.Targets) > 0 {
-			refs = m.expand(m.targetFeatures(dd))
+		if len(dd.Targets) > 0 {
+			if t := m.targetFeatures(dd); len(refs) == 0 {
+				refs = m.expand(t)
+			}
 		}
 		ts, left := m.targets(refs)
 		broken := func(why string) {
@@ -97,48 +100,129 @@ func sameGeometry(ts []tgt) bool {
 	return true
 }
 
-// targetFeatures returns the features a datum's targets lie on, and checks
-// each target's zone against its feature's nominal geometry.
+// targetFeatures returns the features a datum's targets are named on, and
+// reads each target with a zone as a model datum target (a point, a line or
+// an area, at its zone's place) on the feature it lies on; a target without
+// a zone is the whole feature. Each target's zone is checked against the
+// plane it names.
 func (m *mapper) targetFeatures(dd *DatumDef) []Ref {
 	var refs []Ref
-	var what []string
 	for _, tr := range dd.Targets {
 		t := m.doc.Targets[tr.ID]
 		if t == nil {
 			m.note(Inconsistent, tr.Span, "datum %s names datum target %d, which is not in DatumTargetDefinitions", dd.Label, tr.ID)
 			continue
 		}
-		kind := "no zone given"
 		var z *Zone
 		if t.Zone != nil {
 			if z = m.doc.Zones[t.Zone.ID]; z == nil {
 				m.note(Inconsistent, t.Zone.Span, "datum target %s names feature zone %d, which is not in FeatureZones", t.Label, t.Zone.ID)
-			} else {
-				kind = zoneWord(z.Type)
 			}
 		}
 		if t.Feature == nil {
 			m.note(Inconsistent, t.Span, "datum target %s is on no feature (FeatureNominalId): datum %s cannot use it", t.Label, dd.Label)
 			continue
 		}
-		what = append(what, fmt.Sprintf("%s (%s)", t.Label, kind))
 		refs = append(refs, *t.Feature)
-		if z != nil {
-			m.checkZone(t, z)
-		}
 		if t.Movable {
-			m.note(Unsupported, t.Span, "datum target %s is movable: the model has no movable datum targets", t.Label)
+			m.note(Unsupported, t.Span, "datum target %s is movable: the model has no movable datum targets; read as fixed", t.Label)
 		}
-	}
-	if len(refs) > 0 {
-		ts, _ := m.targets(refs)
-		on := "its feature"
-		if len(ts) > 0 {
-			on = ts[0].target().Name
+		if z == nil {
+			if t.Zone == nil {
+				m.note(Unsupported, t.Span, "datum target %s has no target zone: read as the whole of its feature, datum %s on it", t.Label, dd.Label)
+			}
+			continue
 		}
-		m.note(Unsupported, dd.Span, "datum %s is established by datum targets %s; the model has no datum targets yet: read as a datum on %s", dd.Label, strings.Join(what, ", "), on)
+		on := t.Feature.ID
+		if y := m.checkZone(t, z); y != nil {
+			on = y.nom.ID
+		}
+		m.datumTarget(dd, t, z, on)
 	}
 	return refs
+}
+
+// targetLabelRE is a datum target's label as the model names one: its
+// datum's letter and a number.
+var targetLabelRE = regexp.MustCompile(`^([A-Z]{1,2})([0-9]+)$`)
+
+// datumTarget adds a model datum target for a QIF target with a zone, on
+// the feature nominal on, with the point or line feature that stands for
+// it (named by its label, so that dimensions may reach it).
+func (m *mapper) datumTarget(dd *DatumDef, t *DatumTarget, z *Zone, on ID) {
+	x := m.feats[on]
+	if !x.mapped() {
+		m.note(Unsupported, t.Span, "datum target %s is on feature nominal %d, which the model leaves out: read as the whole feature", t.Label, on)
+		return
+	}
+	if mm := targetLabelRE.FindStringSubmatch(t.Label); mm == nil || mm[1] != dd.Label {
+		m.note(Unsupported, t.LabelSpan, "datum target %q of datum %s is not named by its datum's letter and a number: read as the whole of its feature", t.Label, dd.Label)
+		return
+	}
+	if m.part.Feature(t.Label) != nil {
+		m.note(Inconsistent, t.LabelSpan, "datum target %s has the name of a feature: read as the whole of its feature", t.Label)
+		return
+	}
+	dt := &model.DatumTarget{Label: t.Label, LabelSpan: t.LabelSpan, Span: t.Span, Letter: dd.Label}
+	if dt.LabelSpan.IsZero() {
+		dt.LabelSpan = t.Span
+	}
+	dt.On = tgt{f: x.f, mem: x.mem, span: t.Feature.Span}.target()
+	point := func(v *Vec3) (model.Vec, bool) { return m.u.zonePoint(v) }
+	length := func(v *Value) (float64, bool) {
+		l, ok := m.u.length(v, false)
+		return tidy(l * m.u.scale), ok // zones are not scaled
+	}
+	ok := false
+	switch {
+	case z.Type == "Point" && len(z.Points) == 1:
+		dt.Shape = model.TargetPoint
+		dt.Point, ok = point(z.Points[0])
+		dt.End = dt.Point
+	case z.Type == "CurveLine" && len(z.Points) == 2:
+		dt.Shape = model.TargetLine
+		var ok2 bool
+		dt.Point, ok = point(z.Points[0])
+		dt.End, ok2 = point(z.Points[1])
+		ok = ok && ok2 && dt.Point != dt.End
+	case z.Type == "AreaCircular" && z.Center != nil && z.Dia != nil:
+		dt.Shape = model.TargetArea
+		var ok2 bool
+		dt.Point, ok = point(z.Center)
+		dt.Dia, ok2 = length(z.Dia)
+		ok = ok && ok2 && dt.Dia > 0
+		dt.End = dt.Point
+	case z.Type == "AreaRectangular" && z.Corner != nil && z.Length != nil && z.Width != nil && z.LengthDir != nil && z.WidthDir != nil:
+		dt.Shape = model.TargetArea
+		corner, ok1 := point(z.Corner)
+		l, ok2 := length(z.Length)
+		w, ok3 := length(z.Width)
+		ok = ok1 && ok2 && ok3 && l > 0 && w > 0 && z.LengthDir.V.Norm() > 0 && z.WidthDir.V.Norm() > 0
+		if ok {
+			dt.Width, dt.Height = l, w
+			dt.Point = corner.Add(z.LengthDir.V.Unit().Scale(l / 2)).Add(z.WidthDir.V.Unit().Scale(w / 2))
+			dt.End = dt.Point
+		}
+	default:
+		m.note(Unsupported, z.Span, "the zone of datum target %s is a %s zone, which the model has no datum target for: read as the whole of its feature", t.Label, zoneWord(z.Type))
+		return
+	}
+	if !ok {
+		m.note(Inconsistent, z.Span, "the zone of datum target %s has no readable place or size: read as the whole of its feature", t.Label)
+		return
+	}
+	if z.Normal != nil && z.Normal.V.Norm() > 0 {
+		dt.Normal = z.Normal.V.Unit()
+	}
+	ft := &model.Feature{Name: t.Label, NameSpan: dt.LabelSpan, Span: t.Span, Kind: model.Point, HasGeometry: true, DirDecimals: [3]int{-1, -1, -1}, DatumTarget: dt}
+	if dt.Shape == model.TargetLine {
+		ft.Kind, ft.Dir = model.Line, dt.End.Sub(dt.Point).Unit()
+	}
+	ft.Members = []*model.Member{{Feature: ft, Index: 1, Point: dt.Point, Decimals: [3]int{-1, -1, -1}, Span: t.Span}}
+	dt.Feature = ft
+	m.part.Declare(ft)
+	m.part.AddTarget(dt)
+	m.part.Refs = append(m.part.Refs, &dt.On)
 }
 
 func zoneWord(t string) string {
@@ -154,11 +238,12 @@ func zoneWord(t string) string {
 }
 
 // checkZone reports a target zone whose points do not lie on the plane the
-// target names, and which plane of the part they lie on instead.
-func (m *mapper) checkZone(t *DatumTarget, z *Zone) {
+// target names, and returns the one plane of the part they lie on instead,
+// where there is one (the target is read there).
+func (m *mapper) checkZone(t *DatumTarget, z *Zone) *feat {
 	x := m.feats[t.Feature.ID]
-	if !x.mapped() || x.kind != model.Plane || !x.hasPoint || !x.hasDir || len(z.Points) == 0 {
-		return
+	if !x.mapped() || x.kind != model.Plane || !x.hasPoint || !x.hasDir {
+		return nil
 	}
 	off := func(y *feat, pts []model.Vec) float64 {
 		worst := 0.0
@@ -168,15 +253,18 @@ func (m *mapper) checkZone(t *DatumTarget, z *Zone) {
 		return worst
 	}
 	var pts []model.Vec
-	for _, p := range z.Points {
+	for _, p := range append(append([]*Vec3(nil), z.Points...), z.Center) {
 		if v, ok := m.u.zonePoint(p); ok {
 			pts = append(pts, v)
 		}
 	}
+	if len(pts) == 0 {
+		return nil
+	}
 	tol := 1e-6 * math.Max(1, x.point.Norm())
 	d := off(x, pts)
 	if d <= tol {
-		return
+		return nil
 	}
 	msg := fmt.Sprintf("the zone of datum target %s (feature zone %d) is %.4g %s off the plane it names, feature nominal %d", t.Label, z.ID, d, m.u.model, t.Feature.ID)
 	if m.planes == nil {
@@ -187,19 +275,29 @@ func (m *mapper) checkZone(t *DatumTarget, z *Zone) {
 			}
 		}
 	}
-	var on []string
+	var on []*feat
 	for i, y := range m.planes {
 		if i == maxPlaneSearch {
 			break
 		}
 		if y.nom.ID != t.Feature.ID && off(y, pts) <= tol {
-			on = append(on, fmt.Sprint(y.nom.ID))
+			on = append(on, y)
 		}
 	}
-	if len(on) > 0 {
-		msg += "; it lies on feature nominal " + strings.Join(on, ", ")
+	switch len(on) {
+	case 0:
+		m.note(Inconsistent, z.Span, "%s: the target is read as given", msg)
+	case 1:
+		m.note(Inconsistent, z.Span, "%s; it lies on feature nominal %d: the target is read there", msg, on[0].nom.ID)
+		return on[0]
+	default:
+		var ids []string
+		for _, y := range on {
+			ids = append(ids, fmt.Sprint(y.nom.ID))
+		}
+		m.note(Inconsistent, z.Span, "%s; it lies on feature nominals %s: the target is read as given", msg, strings.Join(ids, ", "))
 	}
-	m.note(Inconsistent, z.Span, "%s: the datum is read on the named plane", msg)
+	return nil
 }
 
 // maxPlaneSearch bounds the planes searched for the one a misplaced target
@@ -282,6 +380,8 @@ func (m *mapper) drfRefs(ref *Ref) ([]*model.DatumRef, bool) {
 		}
 		r := &model.DatumRef{Span: d.KindSpan}
 		mats := map[string]bool{}
+		var each []string
+		var eachSpan []source.Span
 		for _, s := range d.Members {
 			if s.Def == nil {
 				m.note(Inconsistent, s.Span, "a datum of datum reference frame %d names no datum definition", drf.ID)
@@ -296,6 +396,12 @@ func (m *mapper) drfRefs(ref *Ref) ([]*model.DatumRef, bool) {
 			r.Datums = append(r.Datums, dt)
 			mat := m.material(s.Material, "datum "+dt.Letter)
 			mats[mat] = true
+			each = append(each, mat)
+			if mat != "" {
+				eachSpan = append(eachSpan, s.Material.Span)
+			} else {
+				eachSpan = append(eachSpan, source.Span{})
+			}
 			if mat != "" && r.MatSpan.IsZero() {
 				r.MatSpan = s.Material.Span
 			}
@@ -317,8 +423,9 @@ func (m *mapper) drfRefs(ref *Ref) ([]*model.DatumRef, bool) {
 				r.Material = k
 			}
 		default:
+			// A boundary per member of a common datum, H(M)-J(M).
 			r.MatSpan = source.Span{}
-			m.note(Unsupported, d.KindSpan, "the common datum %s has a different material boundary on each member; the model holds one per reference: read with none", r.Name)
+			r.Materials, r.MatSpans = each, eachSpan
 		}
 		if r.Material == "" {
 			r.MatSpan = source.Span{}

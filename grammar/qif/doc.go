@@ -94,9 +94,9 @@
 // A cylindrical or spherical segment covering less than half of its full
 // surface has no opposed points and is read as a surface, not a feature of
 // size (ASME Y14.5-2009, definitions: regular feature of size, from memory;
-// the half is our reading). Lines, circles, arcs, ellipses, points and
-// other curves are left out with a note until the model has kinds for them
-// (issue 13). A feature of size takes its definition's nominal size,
+// the half is our reading). Lines, circles (with their definition's
+// diameter) and points become the model's line, circle and point; arcs,
+// ellipses and other curves are left out with a note. A feature of size takes its definition's nominal size,
 // untoleranced, until a size characteristic gives its tolerance.
 //
 // Like features (features of size of one kind and size with parallel axes
@@ -109,35 +109,43 @@
 // # Datums, frames and dimensions
 //
 // A datum definition gives a datum on its feature, on a whole pattern, or
-// on one of several coplanar, coaxial or concentric features (noted).
-// A datum established by datum targets is read on the feature its targets
-// are on, with a note (the model has no datum targets yet), and each
-// target's zone is checked against that feature's plane. A datum the model
-// cannot place is kept Broken, so that the frames naming it do not report
-// it undefined.
+// on one of several coplanar, coaxial or concentric features (noted). A
+// datum established by datum targets is read on the feature its targets
+// name, and each target with a point, line, circular or rectangular area
+// zone becomes a model datum target (with the point or line feature of
+// its label), on the plane its zone lies on where that is not the plane it
+// names (noted); a target without a zone is its whole feature (noted). A
+// datum the model cannot place is kept Broken, so that the frames naming
+// it do not report it undefined.
 //
 // The fourteen geometric characteristics of ASME Y14.5 and ISO 1101 become
-// frames: the tolerance, the zone (DiametricalZone dia, SphericalZone sdia),
-// the material condition ((M), (L)), free state (F), tangent plane (T),
-// projected zone (P), the outer disposition of a profile (U), composite
-// segments with their own datum reference frames, and the datum references
-// in precedence order with their material boundaries (a common datum's when
-// its members agree). What the model lacks is noted: all around and all
-// over, a separate requirement, a tolerance per unit area or length (read
-// as the tolerance over the whole feature), a zone's direction, the
-// reciprocity requirement, maximum tolerances, datum modifiers other than
-// the material boundary, and more than three datums.
+// frames: the tolerance (per unit length or rectangular area), the zone
+// (DiametricalZone dia, SphericalZone sdia, a zone's direction), the
+// material condition ((M), (L)), free state (F), tangent plane (T),
+// projected zone (P), the outer disposition of a profile (U), all around
+// and all over, a separate requirement, composite segments with their own
+// datum reference frames, and the datum references in precedence order
+// with their material boundaries (one per member of a common datum where
+// they differ). What the model lacks is noted: a tolerance per circular
+// area, the reciprocity requirement, maximum tolerances, datum modifiers
+// other than the material boundary, more than three datums, and the
+// statistical and other modifiers.
 //
 // Diameter, SphericalDiameter, Width and Thickness give the size of the
-// features of size they are on (deviations, or limits around TargetValue;
-// a reference or basic size is read as the untoleranced nominal, noted).
-// DistanceBetween, DistanceFrom, AngleBetween and AngleFrom become basic
-// dimensions (DimensionType BASIC_OR_TED) or toleranced ones (a Tolerance);
-// a basic one that also carries a tolerance is reported as such, not
-// hidden. A dimension on more than two features without FeatureNominalPairs
-// is read as the pairs the nominal geometry bears out: one feature every
-// other is at the value from, or consecutive pairs. Reference dimensions
-// are left out with a note until the model has them.
+// features of size (and circles) they are on (deviations, or limits around
+// TargetValue); a reference size is a reference dimension of the feature,
+// a basic one the untoleranced nominal (noted). DistanceBetween,
+// DistanceFrom, AngleBetween and AngleFrom become basic dimensions
+// (DimensionType BASIC_OR_TED), reference ones (REFERENCE_OR_AUXILIARY) or
+// toleranced ones (a Tolerance); a basic one that also carries a tolerance
+// is reported as such, not hidden. A value shown rounded to its
+// decimalPlaces reads as the model's nominal. A dimension on more than two
+// features without FeatureNominalPairs is read as the pairs the nominal
+// geometry bears out: one feature every other is at the value from, or
+// consecutive pairs.
+//
+// The part is read under basis model: in a model-based definition every
+// nominal location and angle is basic.
 //
 // # Problems
 //

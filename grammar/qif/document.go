@@ -147,10 +147,15 @@ type DatumTarget struct {
 
 // Zone is a feature zone (FeatureZones): a point, a line, an area.
 type Zone struct {
-	ID     ID
-	Type   string // Point, CurveLine, AreaCircular, ...
+	ID   ID
+	Type string // Point, CurveLine, AreaCircular, ...
+	// Points are a point zone's point or a line zone's two ends.
 	Points []*Vec3
-	Span   source.Span
+	// A circular area: Center, Dia and Normal; a rectangular one: Corner,
+	// Length along LengthDir, Width along WidthDir, and Normal.
+	Center, Corner, Normal, LengthDir, WidthDir *Vec3
+	Dia, Length, Width                          *Value
+	Span                                        source.Span
 }
 
 // DRF is a datum reference frame.
@@ -726,6 +731,13 @@ func (r *docReader) zone(n *node) {
 		if v := r.vec(n.path(p...)); v != nil {
 			z.Points = append(z.Points, v)
 		}
+	}
+	if c := n.child("Circle"); c != nil {
+		z.Center, z.Dia, z.Normal = r.vec(c.child("CenterPoint")), r.value(c.child("Diameter")), r.vec(c.child("Normal"))
+	}
+	if c := n.child("Rectangle"); c != nil {
+		z.Corner, z.Length, z.Width = r.vec(c.child("CornerPoint")), r.value(c.child("Length")), r.value(c.child("Width"))
+		z.LengthDir, z.WidthDir, z.Normal = r.vec(c.child("LengthDirection")), r.vec(c.child("WidthDirection")), r.vec(c.child("Normal"))
 	}
 	r.doc.Zones[id] = z
 }

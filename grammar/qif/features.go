@@ -47,19 +47,18 @@ type pattern struct {
 	f    *model.Feature
 }
 
-// curveTypes are feature nominals that are curves or points: issue 13 adds
-// such kinds to the model; until then they are left out.
-var curveTypes = map[string]string{"Line": "a line", "Circle": "a circle", "CircularArc": "an arc", "Ellipse": "an ellipse",
+// curveTypes are feature nominals that are curves the model has no kind
+// for (it has lines, circles and points): they are left out.
+var curveTypes = map[string]string{"CircularArc": "an arc", "Ellipse": "an ellipse",
 	"EllipticalArc": "an elliptical arc", "ElongatedCircle": "an elongated circle", "OppositeParallelLines": "a pair of parallel lines",
-	"OppositeAngledLines": "a pair of angled lines", "OtherCurve": "a curve", "PointDefinedCurve": "a curve", "Point": "a point",
-	"EdgePoint": "an edge point", "Marking": "a marking"}
+	"OppositeAngledLines": "a pair of angled lines", "OtherCurve": "a curve", "PointDefinedCurve": "a curve", "Marking": "a marking"}
 
 var groupTypes = map[string]bool{"Group": true, "PatternFeatureLinear": true, "PatternFeatureCircle": true,
 	"PatternFeatureCircularArc": true, "PatternFeatureParallelogram": true}
 
 func needsDir(k model.Kind) bool {
 	switch k {
-	case model.Plane, model.Slot, model.Tab, model.Hole, model.Pin, model.Cone, model.Extrusion:
+	case model.Plane, model.Slot, model.Tab, model.Hole, model.Pin, model.Cone, model.Extrusion, model.Line, model.Circle:
 		return true
 	}
 	return false
@@ -72,6 +71,28 @@ func (m *mapper) classify(n *FeatureNominal) *feat {
 		x.isGroup = true
 		for _, r := range n.Members {
 			x.group = append(x.group, r.ID)
+		}
+		return x
+	}
+	switch n.Type {
+	case "Line", "Point", "EdgePoint", "Circle":
+		// Elements that dimensions and datum targets reach: a straight or
+		// circular edge, a line on a surface, a point. Their definitions
+		// say nothing the model needs but a circle's diameter.
+		x.def = m.doc.FeatureDefs[refID(n.Def)]
+		switch n.Type {
+		case "Line":
+			x.kind = model.Line
+			m.geometry(x, "Location", "Direction")
+		case "Circle":
+			x.kind = model.Circle
+			m.geometry(x, "Location", "Normal")
+			if x.def != nil {
+				m.defSize(x, "Diameter")
+			}
+		default:
+			x.kind = model.Point
+			m.geometry(x, "Location", "")
 		}
 		return x
 	}
@@ -300,7 +321,7 @@ func (m *mapper) features() {
 		if x.kind == model.Surface {
 			f.Dir = model.Vec{}
 		}
-		if x.hasSize && x.kind.IsFOS() {
+		if x.hasSize && x.kind.TakesSize() {
 			f.Size = &model.Size{Nominal: x.size, Span: x.sizeSpan}
 		}
 		x.f = f
@@ -595,7 +616,7 @@ func placeOf(t tgt) place {
 	switch {
 	case f.Kind == model.Plane || f.Kind.IsWidth():
 		return place{1, p, f.Dir}
-	case f.Kind.IsCylinder() || f.Kind == model.Cone:
+	case f.Kind.IsCylinder() || f.Kind == model.Cone || f.Kind == model.Line:
 		return place{2, p, f.Dir}
 	}
 	return place{3, p, model.Vec{}}
@@ -628,4 +649,11 @@ func distance(a, b place) (float64, bool) {
 		return d.Sub(b.dir.Scale(d.Dot(b.dir))).Norm(), true
 	}
 	return d.Norm(), true
+}
+
+func refID(r *Ref) ID {
+	if r == nil {
+		return 0
+	}
+	return r.ID
 }

@@ -74,6 +74,11 @@ func FuzzRead(f *testing.F) {
 				t.Fatalf("datum %q", d.Letter)
 			}
 		}
+		for _, dt := range p.Targets {
+			if !inFile(file, dt.Span) || !dt.On.Resolved() || dt.Feature == nil || dt.Feature.DatumTarget != dt || p.Feature(dt.Label) != dt.Feature {
+				t.Fatalf("datum target %+v", dt)
+			}
+		}
 		for _, fr := range p.Frames {
 			if !inFile(file, fr.Span) || !inFile(file, fr.CharSpan) || !fr.Target.Resolved() || len(fr.Segments) == 0 {
 				t.Fatalf("frame on %q", fr.Target.Name)
@@ -90,7 +95,10 @@ func FuzzRead(f *testing.F) {
 			}
 		}
 		for _, d := range p.Dims {
-			if !inFile(file, d.Span) || !d.From.Resolved() || !d.To.Resolved() {
+			if d.SizeOf != nil && (!d.Reference || !d.SizeOf.Resolved() || !inFile(file, d.Span)) {
+				t.Fatalf("reference size %+v", d)
+			}
+			if d.SizeOf == nil && (!inFile(file, d.Span) || !d.From.Resolved() || !d.To.Resolved()) {
 				t.Fatalf("dimension %+v", d)
 			}
 		}

@@ -41,8 +41,20 @@ func frameText(fr *model.Frame) string {
 	var segs []string
 	for _, s := range fr.Segments {
 		seg := strings.TrimSpace(strings.Join([]string{s.Zone, trimFloat(s.Value), modifiers(s)}, " "))
+		if u := s.PerUnit; u != nil {
+			seg += "/" + u.Text
+		}
+		if d := s.ZoneDir; d != nil {
+			seg += fmt.Sprintf(" along %v", *d)
+		}
 		if len(s.Refs) > 0 {
 			seg += " datums " + strings.ReplaceAll(refNames(s), " ", ", ")
+		}
+		if s.Separate {
+			seg += " separate"
+		}
+		if fr.Extent != "" && s == fr.Upper() {
+			seg += " " + fr.Extent
 		}
 		segs = append(segs, strings.Join(strings.Fields(seg), " "))
 	}
@@ -149,18 +161,18 @@ func wantFrames(t *testing.T, p *model.Part, want ...string) {
 // position of two slot widths without a diameter symbol, surface profiles
 // (one all around the hexagonal boss, nominal 2173), perpendicularity and
 // flatness; sizes of six holes; an angular size on a tapered slot; two
-// line features that nothing the model holds uses.
+// line features (edges that carry notes).
 func TestNISTCTC01(t *testing.T) {
 	res, _ := readNIST(t, "nist_ctc_01_asme1_ap242")
 	p := res.Part
-	facts{units: model.MM, standard: model.ASME2009, notes: 5,
+	facts{units: model.MM, standard: model.ASME2009, notes: 2,
 		datums: "A plane_2154, B hole_2156, C hole_2157",
-		kinds:  "2 plane, 2 slot, 3 surface, 7 hole",
+		kinds:  "2 line, 2 plane, 2 slot, 3 surface, 7 hole",
 		frames: []string{
 			"slot_2159: position 0.75 datums A, B, C",
 			"slot_2161: position 0.75 datums A, B, C",
 			"surface_2166: surface-profile 1.25 datums A, B, C",
-			"surface_2173: surface-profile 0.5 datums A",
+			"surface_2173: surface-profile 0.5 datums A all-around",
 			"plane_2162: perpendicularity 1.5 datums A",
 			"plane_2154: flatness 0.2"},
 	}.check(t, res)
@@ -170,12 +182,13 @@ func TestNISTCTC01(t *testing.T) {
 	if s := feature(t, p, "hole_2156").Size; s.Max() != 35 || !near(s.Min(), 34.8) {
 		t.Errorf("datum B's size %+v", s)
 	}
-	if len(p.Dims) != 0 {
-		t.Errorf("%d dimensions: the model carries no dimensions (its nominal geometry is basic)", len(p.Dims))
+	if len(p.Dims) != 0 || p.Basis != model.ModelBasis {
+		t.Errorf("%d dimensions, basis %v: the model carries no dimensions, and its nominal geometry is basic", len(p.Dims), p.Basis)
+	}
+	if e := feature(t, p, "line_2184"); e.Kind != model.Line || e.Dir.Norm() != 1 {
+		t.Errorf("edge 2184: %v along %v", e.Kind, e.Dir)
 	}
 	wantNoteCounts(t, res, []noteWant{
-		{Unsupported, `^feature nominal 218[45] \(Line\) is left out`, 2},
-		{Unsupported, `extent all around`, 1},
 		{Unsupported, `angular size \(Angle\) nominal 1491`, 1},
 		{Unsupported, `two opposed angled planes`, 1},
 	})
@@ -184,11 +197,12 @@ func TestNISTCTC01(t *testing.T) {
 // CTC 03: geometry in mm, sizes labelled inch, geometric tolerances
 // labelled mm (the unit-label note); six datums; patterns of 2 and 4 holes
 // at MMC with datums at MMB; flatness per unit area; a basic angle of -1 on
-// the angularity; one toleranced distance over four faces from datum D.
+// the angularity; one toleranced distance over four faces from datum D; a
+// reference width.
 func TestNISTCTC03(t *testing.T) {
 	res, _ := readNIST(t, "nist_ctc_03_asme1_ap242")
 	p := res.Part
-	facts{units: model.MM, standard: model.ASME2009, notes: 4,
+	facts{units: model.MM, standard: model.ASME2009, notes: 2,
 		datums: "B hole_3051, A plane_3050, C hole_3048, D plane_3052, E plane_3053, F hole_3066",
 		kinds:  "1 slot, 2 hole pattern, 5 hole, 7 plane",
 		frames: []string{
@@ -200,7 +214,7 @@ func TestNISTCTC03(t *testing.T) {
 			"hole_3064: position dia 0.08 datums D, B, C",
 			"hole_3064: position 0.03 datums D, B, C",
 			"plane_3053: surface-profile 0.06 datums A, B, C",
-			"plane_3053: flatness 0.005",
+			"plane_3053: flatness 0.005/0.25x0.25",
 			"plane_3053: angularity 0.04 datums A",
 			"plane_3050: surface-profile 0.01",
 			"plane_3052: surface-profile 0.03 datums A, B, C",
@@ -209,18 +223,21 @@ func TestNISTCTC03(t *testing.T) {
 	if s := feature(t, p, "holes_3057").Size; !near(s.Nominal, 0.625*25.4) || !near(s.Upper, 0.005*25.4) {
 		t.Errorf("the 4-hole pattern's size %+v (0.625 +-0.005 inch)", s)
 	}
-	if len(p.Dims) != 4 {
-		t.Errorf("%d dimensions, want 4 (0.82 inch from D to each of four faces)", len(p.Dims))
+	if len(p.Dims) != 5 {
+		t.Errorf("%d dimensions, want 5 (0.82 inch from D to each of four faces, a reference width)", len(p.Dims))
 	}
 	for _, d := range p.Dims {
-		if d.Basic || d.From.Name != "plane_3052" || !near(d.Value, 0.82*25.4) {
+		switch {
+		case d.Reference:
+			if d.SizeOf == nil || d.SizeOf.Name != "slot_3072" || !near(d.Value, 0.75*25.4) {
+				t.Errorf("reference size %+v", d)
+			}
+		case d.Basic || d.From.Name != "plane_3052" || !near(d.Value, 0.82*25.4):
 			t.Errorf("dimension %s", dimText(d))
 		}
 	}
 	wantNoteCounts(t, res, []noteWant{
 		{Inconsistent, `geometric tolerances are labelled mm \(13 values\) and the sizes and dimensions inch \(25 values\)`, 1},
-		{Unsupported, `per unit area`, 1},
-		{Unsupported, `reference size \(0.75\)`, 1},
 		{Inconsistent, `angularity's angle -1`, 1},
 	})
 }
@@ -230,13 +247,14 @@ func TestNISTCTC03(t *testing.T) {
 // each, whose zones lie one on each plane of a V while the file names one
 // plane for both); composite profiles; position of balls in a spherical
 // zone; positions of the two slots without a diameter symbol; many
-// dimensions over several faces; fillet radii, reference sizes and lines.
+// dimensions over several faces; fillet radii, reference sizes and
+// dimensions, lines and circular edges.
 func TestNISTFTC06(t *testing.T) {
 	res, src := readNIST(t, "nist_ftc_06_asme1_ap242")
 	p := res.Part
-	facts{units: model.Inch, standard: model.ASME2009, notes: 43,
+	facts{units: model.Inch, standard: model.ASME2009, notes: 27,
 		datums: "A plane_3566, B tab_3568, C plane_3569, D plane_3575, E plane_3576, F holes_3571, H cone_3636, G cone_3637, J plane_3618, K plane_3621",
-		kinds:  "1 ball pattern, 1 socket, 1 tab, 2 cone, 2 hole, 2 slot, 27 plane, 30 surface, 6 hole pattern",
+		kinds:  "1 ball pattern, 1 socket, 1 tab, 2 cone, 2 hole, 2 slot, 27 plane, 30 surface, 4 circle, 6 hole pattern, 8 line",
 		frames: []string{
 			"plane_3566: flatness 0.01",
 			"plane_3575: surface-profile 0.02 datums A, B, C",
@@ -266,18 +284,37 @@ func TestNISTFTC06(t *testing.T) {
 	if a := feature(t, p, "cone_3636").Point(); a.Sub(model.Vec{-3, 5.6, -6.25}).Norm() > 1e-6 {
 		t.Errorf("the apex of cone 3636 at %v (19.05 mm at the locating point, 9.46 degrees half angle: 57.15 mm above it)", a)
 	}
-	if len(p.Dims) != 10 {
-		t.Errorf("%d dimensions, want 10 (4 from D, 2 pairs of 0.56, 4 counterbore depths of 0.31)", len(p.Dims))
+	refs, sizes := 0, 0
+	for _, d := range p.Dims {
+		switch {
+		case d.Reference && d.SizeOf != nil:
+			sizes++
+		case d.Reference:
+			refs++
+		}
+	}
+	if len(p.Dims) != 16 || refs != 2 || sizes != 2 {
+		t.Errorf("%d dimensions (%d reference distances, %d reference sizes), want 16: 4 from D, 2 pairs of 0.56, 4 counterbore depths of 0.31, 2 from a boss top to a circular edge, the reference 1.106 between J's and K's target lines, the reference diameters of the two rings", len(p.Dims), refs, sizes)
+	}
+	// J and K by two line targets each; G and H by a target with no zone,
+	// that is the whole cone.
+	for _, l := range []string{"J", "K"} {
+		d := p.Datum(l)
+		if len(d.Targets) != 2 || d.Targets[0].Shape != model.TargetLine {
+			t.Errorf("datum %s: targets %+v", l, d.Targets)
+		}
+	}
+	if j1 := feature(t, p, "J1").DatumTarget; j1 == nil || j1.On.Name != "plane_3619" {
+		t.Errorf("J1 lies on 3619, whatever the file names: %+v", j1)
+	}
+	if len(p.Datum("G").Targets) != 0 {
+		t.Errorf("G's target has no zone: the whole cone")
 	}
 	wantNoteCounts(t, res, []noteWant{
-		{Unsupported, `datum [GHJK] is established by datum targets`, 4},
-		{Inconsistent, `zone of datum target (K2|J1) .* lies on feature nominal (3622|3619)`, 2},
-		{Unsupported, `is left out: a (line|circle) is not a feature kind`, 8},
+		{Unsupported, `datum target [GH]1 has no target zone: read as the whole of its feature`, 2},
+		{Inconsistent, `zone of datum target (K2|J1) .* lies on feature nominal (3622|3619): the target is read there`, 2},
 		{Unsupported, `has no opposed points: read as a surface`, 20},
 		{Unsupported, `Radius nominal \d+ .* is not read`, 3},
-		{Unsupported, `reference dimension \(1.106\)`, 2},
-		{Unsupported, `Diameter nominal 25(47|50) is left out`, 2},
-		{Unsupported, `DistanceBetween nominal 374[02] is left out`, 2},
 	})
 	// Findings point into the file: every span is a start tag.
 	f := source.NewFile("", []byte(src))

@@ -86,7 +86,7 @@ func titleOr(t, other string) string {
 }
 
 // featureNote gives a feature's QIF ids, with its QIF name where it is not
-// the name written.
+// the name written (and says more than "Nominal ID").
 func featureNote(ids []qif.ID, f *model.Feature, names map[qif.ID]string) string {
 	if len(ids) == 0 {
 		return ""
@@ -94,7 +94,7 @@ func featureNote(ids []qif.ID, f *model.Feature, names map[qif.ID]string) string
 	s := make([]string, len(ids))
 	for i, id := range ids {
 		s[i] = strconv.FormatUint(uint64(id), 10)
-		if nm := strings.TrimSpace(names[id]); nm != "" && nm != f.Name && !f.Pattern {
+		if nm := strings.TrimSpace(names[id]); nm != "" && nm != f.Name && !f.Pattern && nm != fmt.Sprintf("Nominal %d", id) {
 			s[i] += fmt.Sprintf(" %q", nm)
 		}
 	}

@@ -141,7 +141,9 @@ func TestImportImpliedAndRefused(t *testing.T) {
 	}
 	for _, want := range []string{
 		"standard asme-2009\nbasis model\n",
-		"# line 23656: not carried: feature nominal 2184 (Line) is left out",
+		"# line 23935: not carried: an angular size (Angle) nominal 1491 is not read",
+		"feature line_2184    line along -z at (400, -175, 0) # QIF 2184\n",
+		"frame surface_2173: surface-profile 0.5 datums A all-around # QIF 1462\n",
 	} {
 		if !strings.Contains(string(out), want) {
 			t.Errorf("the import lacks %q", want)
