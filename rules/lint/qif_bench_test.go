@@ -36,7 +36,7 @@ type qifShape struct {
 
 var qifShapes = []qifShape{
 	{"brep", "nist_ctc_01_asme1_ap242", gen.QIFBrep, []int{1 << 20, 4 << 20, 16 << 20}},
-	{"features", "nist_ftc_06_asme1_ap242", gen.QIFFeatures, []int{256 << 10, 512 << 10, 1 << 20}},
+	{"features", "nist_ftc_06_asme1_ap242", gen.QIFFeatures, []int{1 << 20, 4 << 20, 15 << 20}},
 }
 
 func qifDoc(b *testing.B, s qifShape, size int) []byte {
