@@ -23,8 +23,9 @@ type row []term
 // not changed by queries, so one Engine may be shared by goroutines.
 type Engine struct {
 	part  *model.Part
-	L     float64 // the part's size: translation variables are in units of it
-	tol   float64 // lengths below this are zero
+	L     float64    // the part's size: translation variables are in units of it
+	tol   float64    // lengths below this are zero
+	ax    *axesFrame // the part's axes, which the variables are taken along
 	ents  []*entity
 	byMem map[*model.Member]*entity
 	nvars int
@@ -57,14 +58,14 @@ type Engine struct {
 // as belonging in basic form counts them so as not to report one problem
 // twice), and the implied basic zeros and angles.
 func Build(p *model.Part, counted []*model.Dimension) *Engine {
-	e := &Engine{part: p, L: p.Scale, byMem: map[*model.Member]*entity{}, circles: map[*model.Feature][]*model.Dimension{}}
+	e := &Engine{part: p, L: p.Scale, byMem: map[*model.Member]*entity{}, circles: map[*model.Feature][]*model.Dimension{}, ax: partAxes(p)}
 	if !(e.L > 0) || math.IsInf(e.L, 0) {
 		e.L = 1
 	}
 	e.tol = alignTol * e.L
 	for _, f := range p.Features {
 		for _, m := range f.Members {
-			en := newEntity(m)
+			en := e.ax.newEntity(m)
 			if en == nil {
 				continue
 			}
@@ -446,7 +447,7 @@ func (e *Engine) impliedZeros() {
 		}
 		dirs = append(dirs, cd)
 	}
-	for _, a := range axes {
+	for _, a := range e.ax.ax {
 		add(a)
 	}
 	for _, x := range e.ents {
@@ -463,7 +464,7 @@ func (e *Engine) impliedZeros() {
 	for i, n := 0, len(dirs); i < n; i++ {
 		for j := i + 1; j < n; j++ {
 			if c := dirs[i].Cross(dirs[j]); c.Norm() > alignTol {
-				add(snap(c))
+				add(e.ax.snap(c))
 			}
 		}
 	}
