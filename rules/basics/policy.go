@@ -67,12 +67,12 @@ type Missing struct {
 // target's or a datum's geometry is unknown.
 func (e *Engine) Missing(q Query) []Missing {
 	sc := e.getScratch()
-	defer scratchPool.Put(sc)
+	defer putScratch(sc)
 	s := e.newSolve(q, sc)
 	if s == nil {
 		return nil
 	}
-	return s.run()
+	return s.answer()
 }
 
 func (s *solve) run() []Missing {
@@ -118,10 +118,9 @@ func (s *solve) rest() []Missing {
 	if len(s.moves) == 0 {
 		return nil // everything is needed: the single variables said it all
 	}
-	// The moves' images are worked out when a variable first needs them
-	// (on a clean part, none does); nothing between here and there gives a
-	// class a column, so they get the columns they always got.
-	var images [][]float64
+	// The moves as rows over the target's variables, when a variable
+	// first needs them (on a clean part, none does).
+	var images []row
 	var out []Missing
 	for i, p := range s.params {
 		moved := 0.0
@@ -132,24 +131,20 @@ func (s *solve) rest() []Missing {
 			continue // needed whole (tried above), or not needed at all
 		}
 		if images == nil {
-			images = make([][]float64, len(s.moves))
+			images = make([]row, len(s.moves))
 			for k, m := range s.moves {
-				c := make(sv, 0, len(m))
-				for i, v := range m {
+				for j, v := range m {
 					if v != 0 {
-						c = append(c, term{i, v})
+						images[k] = append(images[k], term{s.params[j].v, v})
 					}
 				}
-				images[k] = s.reduce(s.toRow(c))
 			}
 		}
-		w := s.reduce(row{{p.v, 1}})
+		// The variable less its projection on the moves.
+		w := row{{p.v, 1}}
 		for k, m := range s.moves {
-			for len(w) < len(images[k]) {
-				w = append(w, 0)
-			}
-			for j, v := range images[k] {
-				w[j] -= m[i] * v
+			for _, t := range images[k] {
+				w = append(w, term{t.v, -m[i] * t.c})
 			}
 		}
 		res := s.undetermined(w, math.Sqrt(1-moved))
@@ -303,7 +298,7 @@ func (s *solve) circles() []Missing {
 		missing := false
 		for _, rw := range radius {
 			c, fine := s.fromRow(rw)
-			if fine && s.needed(c) && s.undetermined(s.reduce(rw), rowNorm(rw)) != nil {
+			if fine && s.needed(c) && s.undetermined(rw, rowNorm(rw)) != nil {
 				missing = true
 			}
 		}
@@ -311,7 +306,7 @@ func (s *solve) circles() []Missing {
 			continue
 		}
 		for _, rw := range append(radius, spacing...) {
-			if res := s.undetermined(s.reduce(rw), rowNorm(rw)); res != nil {
+			if res := s.undetermined(rw, rowNorm(rw)); res != nil {
 				s.basis = append(s.basis, res)
 			}
 		}
@@ -434,6 +429,8 @@ func (e *Engine) suggestBetween(a, b *entity, k Kind, dir Vec) string {
 	return fmt.Sprintf("basic %s from %s to %s along %s", Num(v), a.name(), b.name(), AlongName(dir))
 }
 
+// Asks says what a frame's characteristic asks of basic dimensions for
+// one of its segments: the location and orientation of its zone (position;
 // profile with datums, ASME Y14.5-2018 and ISO 1101:2017, profile located
 // by basic dimensions), or only its orientation (angularity: the basic
 // angle, ASME Y14.5-2018, angularity). Perpendicularity and parallelism

@@ -6,11 +6,11 @@ package basics
 
 import (
 	"math"
+	"slices"
 	"sync"
 
 	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/rules/dof"
-	"gonum.org/v1/gonum/mat"
 )
 
 // scratch is what one query indexes by variable, class or general row,
@@ -18,28 +18,116 @@ import (
 // once). The pool is the package's, not the engine's: a pool registers
 // itself with the runtime until the next collections, and a pool in each
 // engine kept every file's engine and syntax tree alive that long (the
-// 2,000-plate check's peak went from 32 to 190 MB).
+// 2,000-plate check's peak went from 32 to 190 MB). Between queries every
+// entry is clean (−1 or false); a query cleans what it wrote, so that it
+// costs time in proportion to what it touched, not to the part.
 type scratch struct {
-	index  []int  // variable → position in params, −1 for none
-	col    []int  // class → column of the dense rows, −1 for none
-	ground []bool // class → held by the datums
-	seen   []bool // general row → reached by fixed
+	index   []int   // variable → position in params, −1 for none
+	ground  []bool  // class → held by the datums
+	col     []int32 // class → column of the local factor, −1 for none
+	near    []bool  // class → reached by the local search
+	rowIn   []bool  // general row → taken by the local search
+	held    []int   // classes set in ground
+	indexed []int   // variables set in index
+	nears   []int   // classes set in near
+	rows    []int32 // rows set in rowIn
+	// support counts the rows the local search took by their classes
+	// (redundant)
+	support map[uint64]int
+	// two sparse accumulators over classes: a row summed over its
+	// classes, and its reduced form
+	sum, red acc
+}
+
+// acc is a sparse vector over classes being summed: dense values, with the
+// classes touched listed so that clearing it costs what was touched.
+type acc struct {
+	x       []float64
+	in      []bool
+	touched []int
+}
+
+func (a *acc) grow(n int) {
+	a.x, a.in = grow(a.x, n, 0), grow(a.in, n, false)
+}
+
+func (a *acc) add(c int, v float64) {
+	if !a.in[c] {
+		a.in[c] = true
+		a.touched = append(a.touched, c)
+	}
+	a.x[c] += v
+}
+
+func (a *acc) reset() {
+	for _, c := range a.touched {
+		a.x[c], a.in[c] = 0, false
+	}
+	a.touched = a.touched[:0]
+}
+
+func (a *acc) norm() float64 {
+	t := 0.0
+	for _, c := range a.touched {
+		t += a.x[c] * a.x[c]
+	}
+	return math.Sqrt(t)
 }
 
 var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
 
 func (e *Engine) getScratch() *scratch {
 	sc := scratchPool.Get().(*scratch)
-	sc.index = resize(sc.index, e.nvars)
-	sc.col = resize(sc.col, e.nvars)
-	sc.ground = resize(sc.ground, e.nvars)
-	sc.seen = resize(sc.seen, len(e.general))
-	for i := range sc.index {
-		sc.index[i], sc.col[i] = -1, -1
-	}
-	clear(sc.ground)
-	clear(sc.seen)
+	sc.index = grow(sc.index, e.nvars, -1)
+	sc.ground = grow(sc.ground, e.nvars, false)
+	sc.col = grow(sc.col, e.nvars, -1)
+	sc.near = grow(sc.near, e.nvars, false)
+	sc.rowIn = grow(sc.rowIn, len(e.general), false)
+	sc.sum.grow(e.nvars)
+	sc.red.grow(e.nvars)
 	return sc
+}
+
+// putScratch cleans what a query wrote and gives the scratch back.
+func putScratch(sc *scratch) {
+	for _, v := range sc.indexed {
+		sc.index[v] = -1
+	}
+	sc.indexed = sc.indexed[:0]
+	for _, c := range sc.held {
+		sc.ground[c] = false
+	}
+	sc.held = sc.held[:0]
+	sc.clearLocal()
+	sc.sum.reset()
+	sc.red.reset()
+	scratchPool.Put(sc)
+}
+
+// clearLocal cleans what the local search wrote.
+func (sc *scratch) clearLocal() {
+	for _, c := range sc.nears {
+		sc.near[c] = false
+	}
+	for _, r := range sc.rows {
+		sc.rowIn[r] = false
+	}
+	sc.nears, sc.rows = sc.nears[:0], sc.rows[:0]
+	clear(sc.support)
+}
+
+// grow returns s with length n, every entry clean: entries past the length
+// it had within its capacity are clean already (the scratch invariant),
+// and a new array is filled with the clean value.
+func grow[T any](s []T, n int, clean T) []T {
+	if cap(s) >= n {
+		return s[:n]
+	}
+	out := make([]T, n, n+n/4)
+	for i := range out[:cap(out)] {
+		out[:cap(out)][i] = clean
+	}
+	return out
 }
 
 // resize returns s with length n, reallocated only when it is too short.
@@ -69,16 +157,20 @@ type solve struct {
 	free    [][][]float64
 	moves   [][]float64 // orthonormal basis of how free motions change the params
 	ground  []bool      // class → held at zero by the datums
-	col     []int       // class → column of the dense rows below, −1 for none
-	ncol    int         // columns given so far
-	seen    []bool      // general row → reached by fixed
-	cand    sv          // candidate buffer (unit)
-	basis   [][]float64 // orthonormal rows (over columns) fixed so far; shorter ones end in zeros
-	hubs    []*entity   // axis datum features, for circles and clocking
+	sc      *scratch
+	hold    *holding  // what the datums hold
+	f       *factor   // the relations with the datums held: local or the part's
+	budget  int       // rows the local search may take
+	whole   bool      // the local search took every row connected to the target
+	sum     *acc      // a row over classes (undetermined)
+	red     *acc      // its reduced form
+	cand    sv        // candidate buffer (unit)
+	basis   [][]term  // orthonormal reduced forms (over free classes) of what the query found missing
+	hubs    []*entity // axis datum features, for circles and clocking
 }
 
 func (e *Engine) newSolve(q Query, sc *scratch) *solve {
-	s := &solve{e: e, q: q, index: sc.index, ground: sc.ground, col: sc.col, seen: sc.seen}
+	s := &solve{e: e, q: q, index: sc.index, ground: sc.ground, sc: sc, sum: &sc.sum, red: &sc.red}
 	if !q.Target.Resolved() || len(q.Free) != len(q.Refs) {
 		return nil
 	}
@@ -93,15 +185,21 @@ func (e *Engine) newSolve(q Query, sc *scratch) *solve {
 	s.members, s.params, s.first = tv.members, tv.params, tv.first
 	for i, p := range s.params {
 		s.index[p.v] = i
+		sc.indexed = append(sc.indexed, p.v)
 	}
+	var held []int
 	for _, ref := range q.Refs {
 		for _, m := range ref {
 			x := e.byMem[m]
 			if x == nil {
 				return nil
 			}
+			held = append(held, x.t0)
 			for v := x.t0; v < x.r0+len(x.rb); v++ {
-				s.ground[e.class[v]] = true
+				if c := e.class[v]; !s.ground[c] {
+					s.ground[c] = true
+					sc.held = append(sc.held, c)
+				}
 			}
 			if x.shape == axisShape && !containsEnt(s.hubs, x) {
 				s.hubs = append(s.hubs, x)
@@ -132,7 +230,7 @@ func (e *Engine) newSolve(q Query, sc *scratch) *solve {
 	if len(s.moves) >= len(s.params) {
 		return nil
 	}
-	s.fixed()
+	s.hold = e.holdingFor(groundKey(held), s.ground)
 	return s
 }
 
@@ -225,97 +323,67 @@ func (s *solve) motion(t dof.Twist) []float64 {
 	return out
 }
 
-// reduce maps a row over variables to a dense row over the classes'
-// columns, leaving out the datum features' classes, which the frame holds
-// at zero. Classes seen for the first time get new columns.
-func (s *solve) reduce(r row) []float64 {
-	var out []float64
-	for _, t := range r {
-		c := s.e.class[t.v]
-		if s.ground[c] {
-			continue
-		}
-		k := s.col[c]
-		if k < 0 {
-			k = s.ncol
-			s.col[c] = k
-			s.ncol++
-		}
-		for len(out) <= k {
-			out = append(out, 0)
-		}
-		out[k] += t.c
-	}
-	return out
-}
-
-// fixed builds an orthonormal basis of the relations that bear on the
-// target: the general rows reachable from its classes.
-func (s *solve) fixed() {
-	var queue []int
-	for _, p := range s.params {
-		c := s.e.class[p.v]
-		if !s.ground[c] && s.col[c] < 0 {
-			s.col[c] = s.ncol
-			s.ncol++
-			queue = append(queue, c)
-		}
-	}
-	var rows [][]float64
-	for len(queue) > 0 {
-		c := queue[0]
-		queue = queue[1:]
-		for _, ri := range s.e.rowsOf(c) {
-			if s.seen[ri] {
-				continue
-			}
-			s.seen[ri] = true
-			before := s.ncol
-			rows = append(rows, s.reduce(s.e.general[ri]))
-			for _, cl := range s.e.general[ri] {
-				if c2 := s.e.class[cl.v]; !s.ground[c2] && s.col[c2] >= before {
-					queue = append(queue, c2)
-				}
-			}
-		}
-	}
-	s.basis = orthDense(rows, s.ncol)
-}
-
-// undetermined returns the part of a row that the relations found so far
-// do not fix, normalised; nil when it is fixed. n is the length of the row
-// before its datum features' terms were left out and its equal variables
-// merged, so that what cancels there counts as fixed however small the
-// rounding left it.
-func (s *solve) undetermined(r []float64, n float64) []float64 {
-	if n == 0 || math.Sqrt(dot(r, r)) <= rankTol*n {
+// undetermined returns the part of a row over variables that the
+// relations, with the datums held, and what the query found missing so far
+// do not fix: the reduced form of the row scaled by 1/n, less its
+// projections on the query's basis, normalised; nil when it is fixed. n is
+// the length of the row before its datum features' terms were left out and
+// its equal variables merged, so that what cancels there counts as fixed
+// however small the rounding left it.
+func (s *solve) undetermined(r row, n float64) []term {
+	if n == 0 {
 		return nil
 	}
-	res := make([]float64, len(r))
-	for k, v := range r {
-		res[k] = v / n
+	sum, red := s.sum, s.red
+	defer sum.reset()
+	defer red.reset()
+	for _, t := range r {
+		if c := s.e.class[t.v]; !s.hold.held[c] {
+			sum.add(c, t.c)
+		}
+	}
+	if sum.norm() <= rankTol*n {
+		return nil
+	}
+	// Each pivot class by its reduced form over the free classes.
+	for _, c := range sum.touched {
+		a := sum.x[c] / n
+		if a == 0 {
+			continue
+		}
+		if rf, ok := s.factor().reduced(c); ok {
+			for _, t := range rf {
+				red.add(t.v, a*t.c)
+			}
+		} else {
+			red.add(c, a)
+		}
 	}
 	for _, b := range s.basis {
-		m := min(len(b), len(res))
-		d := dot(res[:m], b[:m])
+		d := 0.0
+		for _, t := range b {
+			if red.in[t.v] {
+				d += red.x[t.v] * t.c
+			}
+		}
 		if d == 0 {
 			continue
 		}
-		for len(res) < len(b) {
-			res = append(res, 0)
-		}
-		for k, v := range b {
-			res[k] -= d * v
+		for _, t := range b {
+			red.add(t.v, -d*t.c)
 		}
 	}
-	rn := math.Sqrt(dot(res, res))
+	rn := red.norm()
 	if rn <= rankTol {
 		return nil
 	}
-	for k := range res {
-		res[k] /= rn
+	out := make([]term, 0, len(red.touched))
+	for _, c := range red.touched {
+		if x := red.x[c]; x != 0 {
+			out = append(out, term{c, x / rn})
+		}
 	}
-	return res
+	return out
 }
 
 // sv is a sparse vector over the target's variables (term.v indexes
@@ -418,7 +486,7 @@ func (s *solve) try(c sv) bool {
 	if !s.needed(c) {
 		return false
 	}
-	res := s.undetermined(s.reduce(s.toRow(c)), c.norm())
+	res := s.undetermined(s.toRow(c), c.norm())
 	if res == nil {
 		return false
 	}
@@ -476,41 +544,6 @@ func orthonormal(rows [][]float64) [][]float64 {
 	return out
 }
 
-// orthDense returns an orthonormal basis of the span of rows over n
-// columns (shorter rows end in zeros), by gonum's SVD: the rank decision.
-func orthDense(rows [][]float64, n int) [][]float64 {
-	var keep [][]float64
-	for _, r := range rows {
-		if l := math.Sqrt(dot(r, r)); l > 0 && !math.IsNaN(l) && !math.IsInf(l, 0) {
-			keep = append(keep, r)
-		}
-	}
-	if len(keep) == 0 || n == 0 {
-		return nil
-	}
-	a := mat.NewDense(len(keep), n, nil)
-	for i, r := range keep {
-		l := math.Sqrt(dot(r, r))
-		for k, v := range r {
-			a.Set(i, k, v/l)
-		}
-	}
-	var svd mat.SVD
-	if !svd.Factorize(a, mat.SVDThinV) {
-		return nil
-	}
-	vals := svd.Values(nil)
-	var v mat.Dense
-	svd.VTo(&v)
-	var out [][]float64
-	for j, sv := range vals {
-		if sv > rankTol {
-			out = append(out, mat.Col(nil, j, &v))
-		}
-	}
-	return out
-}
-
 func rowNorm(r row) float64 {
 	t := 0.0
 	for _, x := range r {
@@ -519,5 +552,139 @@ func rowNorm(r row) float64 {
 	return math.Sqrt(t)
 }
 
-// Asks says what a frame's characteristic asks of basic dimensions for
-// one of its segments: the location and orientation of its zone (position;
+// answer runs the query on the rows near its target first, and on the
+// whole part's factor only where those cannot decide. Rows near the target
+// span part of what all the rows span, so a query that finds nothing
+// missing there finds nothing with all of them (the span only grows); and
+// where the search took the target's whole connected block of rows (no
+// hub left out, no budget reached) its answer is the whole part's. On a
+// clean part the rows near each target settle it, so no query factorises
+// the part.
+func (s *solve) answer() []Missing {
+	for _, budget := range []int{localRows + 4*len(s.params), 8 * (localRows + 4*len(s.params))} {
+		s.budget, s.whole = budget, false
+		out := s.run()
+		if s.f != nil {
+			s.f.release()
+			s.f = nil
+			s.sc.clearLocal()
+		}
+		if len(out) == 0 || s.whole {
+			return out
+		}
+		s.basis, s.cand = nil, s.cand[:0]
+	}
+	s.f = s.hold.factor(s.e, s.ground)
+	return s.run()
+}
+
+// factor returns the factor the query's rank decisions use: the whole
+// part's once answer has fallen back to it, else that of the rows near the
+// target, searched on first use (a query whose every candidate cancels
+// over the classes, or is held, needs none).
+func (s *solve) factor() *factor {
+	if s.f == nil {
+		s.whole = s.local(s.budget)
+	}
+	return s.f
+}
+
+// localRows, hubRows and ownRows bound the local search: it takes every
+// row of the target's own classes (up to ownRows), then about localRows
+// rows and four per target variable more, breadth first, passing through a
+// class in more than hubRows rows (a datum plane that every hole is
+// located from) only when it is the target's own. The bounds only decide
+// how often the whole part's factor is needed, never an answer.
+const (
+	localRows = 32
+	hubRows   = 24
+	ownRows   = 4096
+)
+
+// local builds the factor of the general rows near the target: those that
+// hold its classes, then those that hold the classes these reach, breadth
+// first, until the budget is spent. whole reports whether the search ended
+// by itself, having taken every row connected to the target.
+func (s *solve) local(budget int) (whole bool) {
+	sc, e := s.sc, s.e
+	queue := sc.nears
+	for _, p := range s.params {
+		if c := e.class[p.v]; !s.hold.held[c] && !sc.near[c] {
+			sc.near[c] = true
+			queue = append(queue, c)
+		}
+	}
+	own := len(queue)
+	whole = true
+search:
+	for i := 0; i < len(queue); i++ {
+		rs := e.rowsOf(queue[i])
+		// A class in many rows is passed through only when it is the
+		// target's own, and then only on the second search: a class that
+		// many features share (the x of every hole chained to one bore)
+		// holds the rows of all of them, and the target's rows that matter
+		// are reached through its other classes.
+		if len(rs) > hubRows && (i >= own || budget < 8*(localRows+4*len(s.params))) {
+			whole = false
+			continue
+		}
+		for _, ri := range rs {
+			if sc.rowIn[ri] {
+				continue
+			}
+
+			if i >= own && len(sc.rows) >= budget || len(sc.rows) >= ownRows {
+				whole = false
+				break search
+			}
+			if s.redundant(ri) {
+				whole = false
+				continue
+			}
+			sc.rowIn[ri] = true
+			sc.rows = append(sc.rows, ri)
+			for _, t := range e.general[ri] {
+				if !s.hold.held[t.v] && !sc.near[t.v] {
+					sc.near[t.v] = true
+					queue = append(queue, t.v)
+				}
+			}
+		}
+	}
+	sc.nears = queue
+	s.f = e.factorise(s.ground, s.hold.held, sc.rows, sc.col)
+	return whole
+}
+
+// redundant reports whether the local search has already taken as many
+// rows over the same classes as there are classes: the rows of a class
+// that many features share (a line of holes at an implied zero, located
+// from one datum plane) span no more than their classes, and taking them
+// all would make the search as long as the line. The rows are told apart
+// by a hash of their classes; a collision only leaves out a row, which
+// makes the local answer weaker, never wrong.
+func (s *solve) redundant(ri int32) bool {
+	var buf [16]int
+	cs := buf[:0]
+	for _, t := range s.e.general[ri] {
+		if !s.hold.held[t.v] {
+			cs = append(cs, t.v)
+		}
+	}
+	if len(cs) == 0 {
+		return true
+	}
+	slices.Sort(cs)
+	h := uint64(14695981039346656037)
+	for _, c := range cs {
+		h = (h ^ uint64(c)) * 1099511628211
+	}
+	if s.sc.support == nil {
+		s.sc.support = map[uint64]int{}
+	}
+	if s.sc.support[h] >= len(cs) {
+		return true
+	}
+	s.sc.support[h]++
+	return false
+}

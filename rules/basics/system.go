@@ -46,11 +46,13 @@ type Engine struct {
 	built []row
 	arena []term
 
-	// near memoises nearest (a pattern's members' nearest earlier ones)
-	// and targets targetVars, both under memoMu.
-	memoMu  sync.Mutex
-	near    map[*model.Feature][]int
-	targets map[targetKey]*targetVars
+	// near memoises nearest (a pattern's members' nearest earlier ones),
+	// targets targetVars and holdings what each set of datum features
+	// holds (holdingFor), all under memoMu.
+	memoMu   sync.Mutex
+	near     map[*model.Feature][]int
+	targets  map[targetKey]*targetVars
+	holdings map[string]*holding
 }
 
 // Build collects the part's variables and relations: every basic
@@ -665,6 +667,7 @@ func (e *Engine) eliminate(rows []row) {
 	}
 	// The last pass merged nothing, so every row left is over classes
 	// already and rewriting it once more would change nothing.
+	pending = distinctRows(pending)
 	e.general = pending
 	e.rowStart = make([]int32, e.nvars+1)
 	for _, r := range pending {
@@ -683,4 +686,61 @@ func (e *Engine) eliminate(rows []row) {
 			fill[t.v]++
 		}
 	}
+}
+
+// distinctRows keeps the first of rows that are one relation: the same
+// classes with proportional coefficients, to 1e-12 of the largest. Features
+// drawn alike in line with each other (a row of identical bolt circles
+// whose members line up, at implied zeros, with the members of the next)
+// give one relation many times over; the span is the same with one copy,
+// and a rank decision that read n copies as a singular value √n times
+// larger would only be nearer to its bound. Rows are over classes, each
+// class once, in the order eliminate wrote them.
+func distinctRows(rows []row) []row {
+	type key struct {
+		h uint64
+		n int
+	}
+	seen := make(map[key][]int, len(rows))
+	scaled := func(r row, k int) (int, int64) {
+		big := 0.0
+		for _, t := range r {
+			if math.Abs(t.c) > math.Abs(big) {
+				big = t.c
+			}
+		}
+		return r[k].v, int64(math.Round(r[k].c / big * 1e12))
+	}
+	same := func(a, b row) bool {
+		if len(a) != len(b) {
+			return false
+		}
+		for k := range a {
+			va, ca := scaled(a, k)
+			vb, cb := scaled(b, k)
+			if va != vb || ca != cb {
+				return false
+			}
+		}
+		return true
+	}
+	out := rows[:0]
+next:
+	for _, r := range rows {
+		h := uint64(14695981039346656037)
+		for k := range r {
+			v, c := scaled(r, k)
+			h = (h ^ uint64(v)) * 1099511628211
+			h = (h ^ uint64(c)) * 1099511628211
+		}
+		kk := key{h, len(r)}
+		for _, i := range seen[kk] {
+			if same(out[i], r) {
+				continue next
+			}
+		}
+		seen[kk] = append(seen[kk], len(out))
+		out = append(out, r)
+	}
+	return out
 }

@@ -91,6 +91,21 @@ func TestShapesAreClean(t *testing.T) {
 	}
 }
 
+// TestLargePartsAreClean holds every shape to the same contract at the
+// sizes the benchmarks measure (10,000 features is left to the benchmarks:
+// a test that long would be run less).
+func TestLargePartsAreClean(t *testing.T) {
+	sizes := []int{250, 1000, 4000}
+	if testing.Short() {
+		sizes = []int{250}
+	}
+	for _, s := range Shapes {
+		for _, n := range sizes {
+			checkClean(t, fmt.Sprintf("%s part of %d", s, n), Part(s, 1, n))
+		}
+	}
+}
+
 func checkClean(t *testing.T, name string, src []byte) {
 	t.Helper()
 	for _, d := range rules.Check("part.callouts", src, nil) {
