@@ -79,7 +79,16 @@
 // datum features. On a clean part no query does, so a part of n located
 // features costs about n times a part of one (docs/performance.md).
 //
-// The engine as it was before it was made to scale is kept in
-// rules/lint/internal/basicsref, which holds this one to it field for field
-// on the repository's test data and on generated plates.
+// # What holds the answers
+//
+// Properties that need no second copy of the engine
+// (rules/lint/internal/basicsprop), on every test file, every generated
+// shape and random cuts of their basic dimensions: adding a dimension the
+// model implies never makes a located feature unlocated; removing one from
+// a clean part either leaves it clean by the whole part's factor too or
+// makes findings whose suggestions make it clean again; each suggested
+// dimension, once added, clears its quantity (a suggestion is a promise,
+// and the engine checks it against the rows the dimension would add before
+// making it); and the rows near each target give the answer all the part's
+// rows give (Missing against MissingWhole).
 package basics

@@ -344,3 +344,35 @@ basic 31deg from face to ramp
 		t.Errorf("mismatches on lines %v, want [16 17]", got)
 	}
 }
+
+// A missing angle is suggested from the datum whose angle to the feature
+// turns it about the axis that is missing: left, at an implied 90 degrees
+// to the base, is turned about z only by its angle to the ramp B. (The
+// angle to A was suggested before; it is implied and fixed nothing.)
+func TestAngleSuggestionTurnsAboutItsAxis(t *testing.T) {
+	src := header + `
+feature base plane normal -z at (0, 0, 0)
+feature ramp plane normal (0.173648, -0.984808, 0) at (0, 0, 0)
+feature left plane normal -x at (0, 0, 0)
+datum A on base
+datum B on ramp
+frame left: angularity 0.05 datums A, B
+`
+	expect(t, missing(t, src), map[string][]string{"left/0": {"left angle z B [basic 80deg from ramp to left]"}})
+	expect(t, missing(t, src+"basic 80deg from ramp to left\n"), nil)
+}
+
+// A datum feature's place that the part may turn about a datum axis is
+// named by its variable, and suggested from the axis it is fixed by.
+func TestRestIsSuggested(t *testing.T) {
+	src := header + `
+feature face  plane normal -z at (0, 0, 0)
+feature hub   hole size 20 +0.021 -0 axis +z at (0, 0, 0)
+feature flat  plane normal +y at (15, 25, 8)
+datum A on face
+datum B on hub
+frame flat: surface-profile 0.05 datums A, B
+`
+	expect(t, missing(t, src), map[string][]string{"flat/0": {"flat location y B [basic 25 from hub to flat]"}})
+	expect(t, missing(t, src+"basic 25 from hub to flat\n"), nil)
+}

@@ -7,7 +7,6 @@ package basics
 // is decided here; solve.go decides whether a quantity is fixed.
 
 import (
-	"fmt"
 	"math"
 
 	"github.com/datumlint/datumlint/grammar/model"
@@ -58,21 +57,33 @@ type Missing struct {
 	Hub *model.Member
 	// Suggest is the dimension to add, with its nominal value from the
 	// model ("basic 60 from left to bore"); "" when none can be written.
+	// Adding it clears the quantity: a dimension that would not is not
+	// suggested.
 	Suggest string
+	// Add is Suggest as data, for a fix to build its edit from; nil when
+	// Suggest is "".
+	Add *Suggestion
 }
 
 // Missing returns the quantities the frame needs that the basic relations
 // do not fix, as few as possible and named as simply as possible: one
 // finding per independent missing quantity. It returns nil when the
 // target's or a datum's geometry is unknown.
-func (e *Engine) Missing(q Query) []Missing {
+func (e *Engine) Missing(q Query) []Missing { return e.missing(q, true) }
+
+// MissingWhole is Missing decided by the factor of all the part's rows for
+// every query, without first trying the rows near the target: the same
+// answers by a slower path, for tests that hold the two together.
+func (e *Engine) MissingWhole(q Query) []Missing { return e.missing(q, false) }
+
+func (e *Engine) missing(q Query, local bool) []Missing {
 	sc := e.getScratch()
 	defer putScratch(sc)
 	s := e.newSolve(q, sc)
 	if s == nil {
 		return nil
 	}
-	return s.answer()
+	return s.answer(local)
 }
 
 func (s *solve) run() []Missing {
@@ -102,7 +113,8 @@ func (s *solve) run() []Missing {
 			if p.rot {
 				m.Kind = Angle
 			}
-			m.Ref, m.Suggest = s.suggestFromRef(m, x)
+			m.Ref, m.Add = s.suggestFromRef(m, x)
+			m.Suggest = m.Add.String()
 			out = append(out, m)
 		}
 	}
@@ -113,7 +125,8 @@ func (s *solve) run() []Missing {
 // member's place relative to a datum axis the part may turn about, say):
 // the needed parts of the single variables span what the frame needs, and
 // each is tried in the classes' space, where it is as short as the part has
-// distinct places. Each is named by its variable.
+// distinct places. Each is named by its variable, and given the dimension
+// from a datum feature that fixes it where one does.
 func (s *solve) rest() []Missing {
 	if len(s.moves) == 0 {
 		return nil // everything is needed: the single variables said it all
@@ -164,6 +177,8 @@ func (s *solve) rest() []Missing {
 		if p.rot {
 			mm.Kind = Angle
 		}
+		mm.Ref, mm.Add = s.suggestFromRef(mm, p.x)
+		mm.Suggest = mm.Add.String()
 		out = append(out, mm)
 	}
 	return out
@@ -203,7 +218,9 @@ func (s *solve) spacings() []Missing {
 			if p.rot {
 				m.Kind = Angle
 			}
-			m.Suggest = s.e.suggestBetween(near, x, m.Kind, p.dir)
+			if sg := s.e.suggestBetween(near, x, m.Kind, p.dir); sg != nil && s.clears(sg) {
+				m.Add, m.Suggest = sg, sg.String()
+			}
 			out = append(out, m)
 		}
 	}
@@ -260,8 +277,8 @@ func (s *solve) relativeClocking(x, near *entity) []Missing {
 			continue
 		}
 		m := Missing{Kind: Clocking, Member: x.m, Other: near.m, Ref: -1, Dir: hub.d, Hub: hub.m}
-		if v, ok := s.e.aboutAngle(near, x, hub); ok {
-			m.Suggest = fmt.Sprintf("basic %sdeg from %s to %s about %s", NumAngle(v), near.name(), x.name(), hub.name())
+		if sg := s.e.aboutSuggestion(near, x, hub); sg != nil && s.clears(sg) {
+			m.Add, m.Suggest = sg, sg.String()
 		}
 		out = append(out, m)
 	}
@@ -310,9 +327,8 @@ func (s *solve) circles() []Missing {
 				s.basis = append(s.basis, res)
 			}
 		}
-		pat := s.members[0].m.Feature
-		return []Missing{{Kind: Circle, Member: s.members[0].m, Ref: -1, Dir: hub.d, Hub: hub.m,
-			Suggest: fmt.Sprintf("basic dia %s through %s about %s", Num(2*r), pat.Name, hub.name())}}
+		sg := circleSuggestion(s.members[0], hub, 2*r)
+		return []Missing{{Kind: Circle, Member: s.members[0].m, Ref: -1, Dir: hub.d, Hub: hub.m, Add: sg, Suggest: sg.String()}}
 	}
 	return nil
 }
@@ -339,8 +355,8 @@ func (s *solve) clocking(x *entity) []Missing {
 				if d == nil || d == hub {
 					continue
 				}
-				if v, ok := s.e.aboutAngle(x, d, hub); ok {
-					m.Suggest = fmt.Sprintf("basic %sdeg from %s to %s about %s", NumAngle(v), x.name(), d.name(), hub.name())
+				if sg := s.e.aboutSuggestion(x, d, hub); sg != nil && s.clears(sg) {
+					m.Add, m.Suggest = sg, sg.String()
 					break
 				}
 			}
@@ -377,56 +393,6 @@ func (e *Engine) aboutAngle(a, b, hub *entity) (float64, bool) {
 	// 180 degrees, as a drawing dimensions it.
 	c := la.Unit().Dot(lb.Unit())
 	return math.Acos(math.Max(-1, math.Min(1, c))) * 180 / math.Pi, true
-}
-
-// suggestFromRef writes the dimension to the member from the datum
-// feature it is naturally measured from: the earliest reference, up to the
-// one that fixes the quantity, whose feature can measure it. With A|B|C
-// planes that is the one that fixes it (x from C, y from B); with a datum
-// axis B clocked by C, a location across the axis is measured from B, as
-// drawings measure it from the origin the axis gives. It returns the
-// reference used (m.Ref when none can measure it) and the dimension.
-func (s *solve) suggestFromRef(m Missing, x *entity) (int, string) {
-	for k := 0; k <= m.Ref && k < len(s.q.Refs); k++ {
-		for _, dm := range s.q.Refs[k] {
-			if d := s.e.byMem[dm]; d != nil && d != x {
-				if sg := s.e.suggestBetween(d, x, m.Kind, m.Dir); sg != "" {
-					return k, sg
-				}
-			}
-		}
-	}
-	return m.Ref, ""
-}
-
-// suggestBetween writes a basic dimension from a to b that fixes b's
-// location along dir (or its angle), with the model's nominal value. It
-// adds `along` only where the contract's own measure is in another
-// direction.
-func (e *Engine) suggestBetween(a, b *entity, k Kind, dir Vec) string {
-	if k == Angle {
-		if len(a.rb) == 0 || len(b.rb) == 0 {
-			return ""
-		}
-		return fmt.Sprintf("basic %sdeg from %s to %s", NumAngle(lineAngle(a.d, b.d)), a.name(), b.name())
-	}
-	if _, ok := e.shift(a, dir); !ok {
-		return ""
-	}
-	if _, ok := e.shift(b, dir); !ok {
-		return ""
-	}
-	u, zero, ok := measureDir(a, b, e.tol)
-	if ok && !zero && parallel(u, dir) {
-		if v, ok := distance(a, b, nil, e.tol); ok {
-			return fmt.Sprintf("basic %s from %s to %s", Num(v), a.name(), b.name())
-		}
-	}
-	v, ok := distance(a, b, &dir, e.tol)
-	if !ok {
-		return ""
-	}
-	return fmt.Sprintf("basic %s from %s to %s along %s", Num(v), a.name(), b.name(), AlongName(dir))
 }
 
 // Asks says what a frame's characteristic asks of basic dimensions for

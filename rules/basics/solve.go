@@ -560,8 +560,11 @@ func rowNorm(r row) float64 {
 // hub left out, no budget reached) its answer is the whole part's. On a
 // clean part the rows near each target settle it, so no query factorises
 // the part.
-func (s *solve) answer() []Missing {
+func (s *solve) answer(local bool) []Missing {
 	for _, budget := range []int{localRows + 4*len(s.params), 8 * (localRows + 4*len(s.params))} {
+		if !local {
+			break
+		}
 		s.budget, s.whole = budget, false
 		out := s.run()
 		if s.f != nil {

@@ -42,10 +42,6 @@ type Engine struct {
 	// circles are the bolt circles written for each pattern.
 	circles map[*model.Feature][]*model.Dimension
 
-	// built and arena hold the relations while the engine is built.
-	built []row
-	arena []term
-
 	// near memoises nearest (a pattern's members' nearest earlier ones),
 	// targets targetVars and holdings what each set of datum features
 	// holds (holdingFor), all under memoMu.
@@ -83,29 +79,35 @@ func Build(p *model.Part, counted []*model.Dimension) *Engine {
 			e.circles[d.Circle.Pattern.Feature] = append(e.circles[d.Circle.Pattern.Feature], d)
 		}
 	}
-	e.built = make([]row, 0, 2*len(p.Dims)+4*len(e.ents))
+	b := &builder{Engine: e, built: make([]row, 0, 2*len(p.Dims)+4*len(e.ents))}
 	for _, d := range p.Dims {
 		if d.Basic {
-			e.dimRows(d)
+			b.dimRows(d)
 		}
 	}
 	for _, d := range counted {
 		if !d.Basic {
-			e.dimRows(d)
+			b.dimRows(d)
 		}
 	}
-	e.impliedZeros()
-	e.impliedAngles()
-	e.eliminate(e.built)
-	e.built, e.arena = nil, nil
+	b.impliedZeros()
+	b.impliedAngles()
+	e.eliminate(b.built)
 	return e
 }
 
-// While the engine is built, its relations go to built, in the order they
-// are found, and most of their terms to arena, a few rows to an allocation.
+// A builder collects relations: while the engine is built, the part's, in
+// the order they are found, most of their terms in arena, a few rows to an
+// allocation; afterwards, those a suggested dimension would add (the
+// engine is only read, so queries may do it at once).
+type builder struct {
+	*Engine
+	built []row
+	arena []term
+}
 
 // open returns an empty row with room for n terms at the arena's end.
-func (e *Engine) open(n int) row {
+func (e *builder) open(n int) row {
 	if cap(e.arena)-len(e.arena) < n {
 		e.arena = make([]term, 0, max(512, n))
 	}
@@ -114,7 +116,7 @@ func (e *Engine) open(n int) row {
 }
 
 // keep adds r, filled within the room open gave it, to the relations.
-func (e *Engine) keep(r row) {
+func (e *builder) keep(r row) {
 	e.arena = e.arena[:len(e.arena)+len(r)]
 	e.built = append(e.built, r[:len(r):len(r)])
 }
@@ -122,7 +124,7 @@ func (e *Engine) keep(r row) {
 // keepShiftDiff adds diff(shift(b, u), shift(a, u)) when both are defined,
 // each measured at its foot of the pair's meeting point (meetPoint), so
 // that a turn of a plane or an axis about its written point is counted.
-func (e *Engine) keepShiftDiff(a, b *entity, u Vec) {
+func (e *builder) keepShiftDiff(a, b *entity, u Vec) {
 	var tmp [6]term
 	u = u.Unit()
 	c := meetPoint(a, b)
@@ -147,7 +149,7 @@ func (e *Engine) keepShiftDiff(a, b *entity, u Vec) {
 }
 
 // keepTurnDiff adds diff(turn(b, r), turn(a, r)).
-func (e *Engine) keepTurnDiff(a, b *entity, rot Vec) {
+func (e *builder) keepTurnDiff(a, b *entity, rot Vec) {
 	r := turnTo(e.open(len(a.rb)+len(b.rb)), b, rot)
 	for k, v := range a.rb {
 		r = append(r, term{a.r0 + k, -rot.Dot(v)})
@@ -266,7 +268,7 @@ func diff(a, b row) row {
 }
 
 // dimRows turns a written dimension into relations (added to built).
-func (e *Engine) dimRows(d *model.Dimension) {
+func (e *builder) dimRows(d *model.Dimension) {
 	if d.Circle != nil {
 		e.built = append(e.built, e.circleRows(d.Circle)...)
 		return
@@ -308,7 +310,7 @@ func (e *Engine) aboutTerm(x, hub *entity) (row, bool) {
 // angleRows relates two directions: parallel ones in both rotations across
 // them, others in the rotation about their common normal (the only one
 // that changes the angle between them to first order).
-func (e *Engine) angleRows(a, b *entity) {
+func (e *builder) angleRows(a, b *entity) {
 	if len(a.rb) == 0 || len(b.rb) == 0 {
 		return
 	}
@@ -324,7 +326,7 @@ func (e *Engine) angleRows(a, b *entity) {
 
 // linearRows relates two places along the dimension's direction; a zero
 // distance fixes every direction the two share.
-func (e *Engine) linearRows(a, b *entity, along *Vec) {
+func (e *builder) linearRows(a, b *entity, along *Vec) {
 	var one [1]Vec
 	var dirs []Vec
 	if along != nil {
@@ -427,7 +429,7 @@ func equallySpaced(angles []float64) bool {
 // every direction that occurs in the part, the entities that can move along
 // it are sorted by their coordinate, and neighbours within tolerance are
 // related.
-func (e *Engine) impliedZeros() {
+func (e *builder) impliedZeros() {
 	var dirs []Vec
 	add := func(d Vec) {
 		if d.Norm() == 0 {
@@ -535,7 +537,7 @@ func isFace(x *entity) bool { return x.m.Feature.Kind == model.Plane }
 // Y14.5-2018, implied 90 degree and 0 degree basic angles). Directions are
 // grouped by line; members of a group are related to their neighbour, and
 // groups at right angles through one representative each.
-func (e *Engine) impliedAngles() {
+func (e *builder) impliedAngles() {
 	type group struct {
 		d   Vec
 		rep *entity

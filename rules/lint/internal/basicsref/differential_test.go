@@ -82,12 +82,16 @@ func compareFile(t *testing.T, name string, src []byte, c *compared) {
 	}
 }
 
-// fmtMissing writes every field, pointers as pointers and floats to the
-// bit (%v of a float64 prints the shortest text that reads back exactly).
+// fmtMissing writes every field but the suggestion, pointers as pointers
+// and floats to the bit (%v of a float64 prints the shortest text that
+// reads back exactly). The engine now writes only a suggestion that would
+// clear its quantity, and the reference's are held to no such promise:
+// rules/lint/internal/basicsprop holds the suggestions to it, and with
+// them the reference index a suggestion chooses.
 func fmtMissing(ms []basics.Missing) string {
 	var b strings.Builder
 	for _, m := range ms {
-		fmt.Fprintf(&b, "{%d %p %p %d %v %p %q} ", m.Kind, m.Member, m.Other, m.Ref, m.Dir, m.Hub, m.Suggest)
+		fmt.Fprintf(&b, "{%d %p %p %v %p} ", m.Kind, m.Member, m.Other, m.Dir, m.Hub)
 	}
 	return b.String()
 }
@@ -95,7 +99,7 @@ func fmtMissing(ms []basics.Missing) string {
 func fmtOldMissing(ms []Missing) string {
 	var b strings.Builder
 	for _, m := range ms {
-		fmt.Fprintf(&b, "{%d %p %p %d %v %p %q} ", m.Kind, m.Member, m.Other, m.Ref, m.Dir, m.Hub, m.Suggest)
+		fmt.Fprintf(&b, "{%d %p %p %v %p} ", m.Kind, m.Member, m.Other, m.Dir, m.Hub)
 	}
 	return b.String()
 }
