@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"strings"
 	"sync"
+	"sync/atomic"
 )
 
 // A factor is a set of the part's general rows (what union-find could not
@@ -202,6 +203,12 @@ const dropTerm = 1e-13
 // is nil) with the held classes left out. col must map every class to −1;
 // the factor fills it and keeps it.
 func (e *Engine) factorise(ground, held []bool, ids []int32, col []int32) *factor {
+	if ids == nil {
+		e.stats.wholes.Add(1)
+		e.stats.factorised.Add(int64(len(e.general)))
+	} else {
+		e.stats.factorised.Add(int64(len(ids)))
+	}
 	f := &factor{col: col}
 	var rows [][]term // over columns
 	// The rows as the SVD took them: scaled to unit length over the
@@ -478,3 +485,24 @@ func householder(m []float64, k, w, r, j int, s float64) {
 		m[i*w+j] = 0
 	}
 }
+
+// Stats says how much work an engine has done, for tests that bound how it
+// grows with the part.
+type Stats struct {
+	// Relations is the number of general rows: what union-find left.
+	Relations int
+	// Factorised counts the rows every factorisation so far has taken:
+	// each query's local one and the whole part's.
+	Factorised int64
+	// Wholes counts the whole part's factorisations (at most one per set
+	// of datum features).
+	Wholes int64
+}
+
+// Stats returns the work done so far.
+func (e *Engine) Stats() Stats {
+	return Stats{Relations: len(e.general), Factorised: e.stats.factorised.Load(), Wholes: e.stats.wholes.Load()}
+}
+
+// workStats are an engine's counters of Stats.
+type workStats struct{ factorised, wholes atomic.Int64 }

@@ -561,7 +561,7 @@ func rowNorm(r row) float64 {
 // clean part the rows near each target settle it, so no query factorises
 // the part.
 func (s *solve) answer(local bool) []Missing {
-	for _, budget := range []int{localRows + 4*len(s.params), 8 * (localRows + 4*len(s.params))} {
+	for _, budget := range []int{localRows + len(s.params), 8 * (localRows + len(s.params))} {
 		if !local {
 			break
 		}
@@ -627,7 +627,7 @@ search:
 		// many features share (the x of every hole chained to one bore)
 		// holds the rows of all of them, and the target's rows that matter
 		// are reached through its other classes.
-		if len(rs) > hubRows && (i >= own || budget < 8*(localRows+4*len(s.params))) {
+		if len(rs) > hubRows && (i >= own || budget < 8*(localRows+len(s.params))) {
 			whole = false
 			continue
 		}

@@ -49,6 +49,8 @@ type Engine struct {
 	near     map[*model.Feature][]int
 	targets  map[targetKey]*targetVars
 	holdings map[string]*holding
+
+	stats workStats
 }
 
 // Build collects the part's variables and relations: every basic
