@@ -249,7 +249,7 @@ func runModifierIllegal(p *Pass) {
 				for _, d := range r.Datums {
 					f := d.Target.Feature
 					// A face of a width at MMB/LMB is midplane-ambiguous's finding.
-					if f.Broken || f.Kind == model.KindUnknown || f.Kind.IsFOS() || widthOfFace(p.Part, f) != nil {
+					if f.Broken || f.Kind == model.KindUnknown || f.Kind.IsFOS() || widthOfFace(p, f) != nil {
 						continue
 					}
 					if ok, why := boundaryAllowed(p, d, fr); !ok {

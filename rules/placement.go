@@ -39,22 +39,32 @@ datum C on slot placed on-dimension-line`,
 })
 
 // widthOfFace returns the width (slot or tab) that names the plane as one
-// of its faces with 'between', or nil.
-func widthOfFace(part *model.Part, f *model.Feature) *model.Feature {
+// of its faces with 'between' (the first in file order), or nil.
+func widthOfFace(p *Pass, f *model.Feature) *model.Feature {
 	if f == nil || f.Kind != model.Plane {
 		return nil
 	}
-	for _, w := range part.Features {
-		if w.Broken || !w.Kind.IsWidth() {
-			continue
-		}
-		for _, fc := range w.Faces {
-			if fc != nil && fc.Feature == f && fc.Member == nil {
-				return w
+	return widthsOfFaces(p)[f]
+}
+
+// widthsOfFaces maps each plane to the first width that names it with
+// 'between', built once per file: looking through every feature for each
+// datum reference made a part of n features cost n².
+func widthsOfFaces(p *Pass) map[*model.Feature]*model.Feature {
+	return Memo(p.Facts, "placement.widthsOfFaces", func() map[*model.Feature]*model.Feature {
+		out := map[*model.Feature]*model.Feature{}
+		for _, w := range p.Part.Features {
+			if w.Broken || !w.Kind.IsWidth() {
+				continue
+			}
+			for _, fc := range w.Faces {
+				if fc != nil && fc.Feature != nil && fc.Member == nil && out[fc.Feature] == nil {
+					out[fc.Feature] = w
+				}
 			}
 		}
-	}
-	return nil
+		return out
+	})
 }
 
 // gives names what a datum on a feature of size is, for messages.
@@ -93,7 +103,7 @@ func runMidplaneAmbiguous(p *Pass) {
 						continue
 					}
 					f := d.Target.Feature
-					w := widthOfFace(p.Part, f)
+					w := widthOfFace(p, f)
 					if w == nil {
 						continue
 					}
@@ -131,7 +141,7 @@ func placementContradiction(p *Pass, d *model.Datum) {
 	case "on-dimension-line":
 		// In line with a size dimension: the feature of size's mid-plane,
 		// axis or centre (ASME Y14.5-2018, datum feature symbol placement).
-		if w := widthOfFace(p.Part, f); w != nil {
+		if w := widthOfFace(p, f); w != nil {
 			p.Report(d.LetterSpan, "datum %s is on the face '%s' of the %s '%s' but is drawn in line with the size dimension, which means the mid-plane: write `datum %s on %s` for the mid-plane, or place it `on-surface` for the face",
 				d.Letter, f.Name, w.Kind, w.Name, d.Letter, w.Name)
 			return

@@ -5,6 +5,8 @@
 package model
 
 import (
+	"sync"
+
 	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/grammar/source"
 )
@@ -278,6 +280,10 @@ type Part struct {
 
 	byName   map[string]*Feature
 	byLetter map[string]*Datum
+
+	indexOnce sync.Once
+	framesOn  map[*Feature][]*Frame
+	datumsOn  map[*Feature][]*Datum
 }
 
 // Feature returns the first feature declared with the name, or nil.
@@ -286,26 +292,33 @@ func (p *Part) Feature(name string) *Feature { return p.byName[name] }
 // Datum returns the first datum declared with the letter, or nil.
 func (p *Part) Datum(letter string) *Datum { return p.byLetter[letter] }
 
-// DatumsOn returns the datums whose target is the feature (any member).
+// DatumsOn returns the datums whose target is the feature (any member), in
+// file order.
 func (p *Part) DatumsOn(f *Feature) []*Datum {
-	var out []*Datum
-	for _, d := range p.Datums {
-		if d.Target.Feature == f {
-			out = append(out, d)
-		}
-	}
-	return out
+	p.indexOnce.Do(p.index)
+	return p.datumsOn[f]
 }
 
-// FramesOn returns the frames whose target is the feature or one of its members.
+// FramesOn returns the frames whose target is the feature or one of its
+// members, in file order.
 func (p *Part) FramesOn(f *Feature) []*Frame {
-	var out []*Frame
+	p.indexOnce.Do(p.index)
+	return p.framesOn[f]
+}
+
+// index files the frames and datums by target feature, once: rules ask
+// for them feature by feature, and scanning every frame for each feature
+// made a part of n features cost n² (rules read the part only after
+// Resolve, so the index sees every frame and datum).
+func (p *Part) index() {
+	p.framesOn = map[*Feature][]*Frame{}
+	p.datumsOn = map[*Feature][]*Datum{}
 	for _, fr := range p.Frames {
-		if fr.Target.Feature == f {
-			out = append(out, fr)
-		}
+		p.framesOn[fr.Target.Feature] = append(p.framesOn[fr.Target.Feature], fr)
 	}
-	return out
+	for _, d := range p.Datums {
+		p.datumsOn[d.Target.Feature] = append(p.datumsOn[d.Target.Feature], d)
+	}
 }
 
 // Tolerance returns a length tolerance relative to the part's size, for
