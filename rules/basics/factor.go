@@ -35,6 +35,8 @@ import (
 // (its rows do not fix it), and a row that the reflections leave no longer
 // than rankTol is a combination of the others within rounding and dropped.
 type factor struct {
+	// ids are the general rows it was built from, nil for all of them.
+	ids []int32
 	// col maps a class to its column, −1 for a class in none of the rows.
 	col []int32
 	// cls maps a column back to its class.
@@ -209,7 +211,7 @@ func (e *Engine) factorise(ground, held []bool, ids []int32, col []int32) *facto
 	} else {
 		e.stats.factorised.Add(int64(len(ids)))
 	}
-	f := &factor{col: col}
+	f := &factor{col: col, ids: ids}
 	var rows [][]term // over columns
 	// The rows as the SVD took them: scaled to unit length over the
 	// classes the datums do not hold, then over the classes not held (a

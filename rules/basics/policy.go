@@ -164,7 +164,7 @@ func (s *solve) rest() []Missing {
 		if res == nil {
 			continue
 		}
-		s.basis = append(s.basis, res)
+		s.accept(w, res)
 		c := unit(i)
 		for _, m := range s.moves {
 			for j, v := range m {
@@ -324,7 +324,7 @@ func (s *solve) circles() []Missing {
 		}
 		for _, rw := range append(radius, spacing...) {
 			if res := s.undetermined(rw, rowNorm(rw)); res != nil {
-				s.basis = append(s.basis, res)
+				s.accept(rw, res)
 			}
 		}
 		sg := circleSuggestion(s.members[0], hub, 2*r)

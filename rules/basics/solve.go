@@ -9,6 +9,8 @@ import (
 	"slices"
 	"sync"
 
+	"gonum.org/v1/gonum/mat"
+
 	"github.com/datumlint/datumlint/grammar/model"
 	"github.com/datumlint/datumlint/rules/dof"
 )
@@ -166,6 +168,7 @@ type solve struct {
 	red     *acc      // its reduced form
 	cand    sv        // candidate buffer (unit)
 	basis   [][]term  // orthonormal reduced forms (over free classes) of what the query found missing
+	found   []row     // the rows it found missing, over variables
 	hubs    []*entity // axis datum features, for circles and clocking
 }
 
@@ -377,6 +380,16 @@ func (s *solve) undetermined(r row, n float64) []term {
 	if rn <= rankTol {
 		return nil
 	}
+	// The reduced form's length bounds the row's distance from the span
+	// from above (the null space's basis that it is the coordinates in
+	// holds the unit vectors of the free classes, so its Gram matrix is at
+	// least the identity), and is the distance when the pivots are well
+	// conditioned. Where a pivot was small the bound is loose, and the
+	// distance itself decides: taken as the SVD took it, over the rows
+	// near the row.
+	if d, ok := s.exact(r, n); ok && d <= rankTol {
+		return nil
+	}
 	out := make([]term, 0, len(red.touched))
 	for _, c := range red.touched {
 		if x := red.x[c]; x != 0 {
@@ -486,12 +499,20 @@ func (s *solve) try(c sv) bool {
 	if !s.needed(c) {
 		return false
 	}
-	res := s.undetermined(s.toRow(c), c.norm())
+	r := s.toRow(c)
+	res := s.undetermined(r, c.norm())
 	if res == nil {
 		return false
 	}
-	s.basis = append(s.basis, res)
+	s.accept(r, res)
 	return true
+}
+
+// accept counts a row the query found missing as fixed from now on: its
+// residual goes to the basis, and the row itself to found, for exact.
+func (s *solve) accept(r row, res []term) {
+	s.basis = append(s.basis, res)
+	s.found = append(s.found, r)
 }
 
 func unit(p int) sv { return sv{{p, 1}} }
@@ -575,7 +596,7 @@ func (s *solve) answer(local bool) []Missing {
 		if len(out) == 0 || s.whole {
 			return out
 		}
-		s.basis, s.cand = nil, s.cand[:0]
+		s.basis, s.found, s.cand = nil, nil, s.cand[:0]
 	}
 	s.f = s.hold.factor(s.e, s.ground)
 	return s.run()
@@ -690,4 +711,135 @@ func (s *solve) redundant(ri int32) bool {
 	}
 	s.sc.support[h]++
 	return false
+}
+
+// exactRows bounds the rows exact takes into its dense SVD; beyond them
+// the reduced form's bound decides (and may report as missing what a
+// badly conditioned chain of more rows fixes).
+const exactRows = 400
+
+// exact returns the distance of r/n from the span of the rows near it and
+// of what the query found missing, by gonum's SVD as the engine decided
+// it before the sparse elimination: rows scaled to unit length over the
+// classes the datums do not hold, singular values above rankTol counted.
+// The rows are those the local factor took, or, for the whole part's
+// factor, those connected to r's classes; ok is false where they are more
+// than exactRows.
+func (s *solve) exact(r row, n float64) (float64, bool) {
+	e := s.e
+	held := s.hold.held
+	var ids []int32
+	if s.f != nil && s.f.ids != nil {
+		ids = s.f.ids
+	} else {
+		seen := map[int32]bool{}
+		near := map[int]bool{}
+		var queue []int
+		for _, t := range r {
+			if c := e.class[t.v]; !held[c] && !near[c] {
+				near[c] = true
+				queue = append(queue, c)
+			}
+		}
+		for i := 0; i < len(queue); i++ {
+			for _, ri := range e.rowsOf(queue[i]) {
+				if seen[ri] {
+					continue
+				}
+				if len(ids) >= exactRows {
+					return 0, false
+				}
+				seen[ri] = true
+				ids = append(ids, ri)
+				for _, t := range e.general[ri] {
+					if !held[t.v] && !near[t.v] {
+						near[t.v] = true
+						queue = append(queue, t.v)
+					}
+				}
+			}
+		}
+	}
+	if len(ids)+len(s.found) > exactRows {
+		return 0, false
+	}
+	col := map[int]int{}
+	column := func(c int) int {
+		k, ok := col[c]
+		if !ok {
+			k = len(col)
+			col[c] = k
+		}
+		return k
+	}
+	type dense map[int]float64
+	var rows []dense
+	addRow := func(terms []term, overClasses bool) {
+		d := dense{}
+		l := 0.0
+		for _, t := range terms {
+			c := t.v
+			if !overClasses {
+				c = e.class[t.v]
+			}
+			if held[c] {
+				if !s.ground[c] {
+					l += t.c * t.c
+				}
+				continue
+			}
+			d[column(c)] += t.c
+			l += t.c * t.c
+		}
+		if len(d) == 0 || l == 0 {
+			return
+		}
+		for k := range d {
+			d[k] /= math.Sqrt(l)
+		}
+		rows = append(rows, d)
+	}
+	for _, id := range ids {
+		addRow(e.general[id], true)
+	}
+	for _, f := range s.found {
+		addRow(f, false)
+	}
+	v := make(dense)
+	for _, t := range r {
+		if c := e.class[t.v]; !held[c] {
+			v[column(c)] += t.c / n
+		}
+	}
+	w := len(col)
+	res := make([]float64, w)
+	for k, x := range v {
+		res[k] = x
+	}
+	if len(rows) > 0 {
+		a := mat.NewDense(len(rows), w, nil)
+		for i, d := range rows {
+			for k, x := range d {
+				a.Set(i, k, x)
+			}
+		}
+		var svd mat.SVD
+		if !svd.Factorize(a, mat.SVDThinV) {
+			return 0, false
+		}
+		vals := svd.Values(nil)
+		var vt mat.Dense
+		svd.VTo(&vt)
+		for j, sv := range vals {
+			if sv <= rankTol {
+				continue
+			}
+			b := mat.Col(nil, j, &vt)
+			d := dot(res, b)
+			for k := range res {
+				res[k] -= d * b[k]
+			}
+		}
+	}
+	return math.Sqrt(dot(res, res)), true
 }

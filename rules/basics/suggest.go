@@ -86,7 +86,13 @@ func (s *solve) clears(sg *Suggestion) bool {
 	n := len(s.basis)
 	res := s.basis[n-1]
 	s.basis = s.basis[:n-1]
-	defer func() { s.basis = append(s.basis[:n-1], res) }()
+	nf := len(s.found)
+	last := s.found[nf-1]
+	s.found = s.found[:nf-1]
+	defer func() {
+		s.basis = append(s.basis[:n-1], res)
+		s.found = append(s.found[:nf-1], last)
+	}()
 	for _, r := range rows {
 		if rr := s.undetermined(r, rowNorm(r)); rr != nil {
 			s.basis = append(s.basis, rr)
