@@ -131,9 +131,11 @@ func (s *solve) rest() []Missing {
 	if len(s.moves) == 0 {
 		return nil // everything is needed: the single variables said it all
 	}
-	// The moves as rows over the target's variables, when a variable
-	// first needs them (on a clean part, none does).
-	var images []row
+	// The moves summed over the classes, when a variable first needs
+	// them (on a clean part, none does): a variable less its projection on
+	// the moves is then summed in time in proportion to the classes the
+	// target has, not to its variables.
+	var images [][]term
 	var out []Missing
 	for i, p := range s.params {
 		moved := 0.0
@@ -144,27 +146,35 @@ func (s *solve) rest() []Missing {
 			continue // needed whole (tried above), or not needed at all
 		}
 		if images == nil {
-			images = make([]row, len(s.moves))
+			images = make([][]term, len(s.moves))
 			for k, m := range s.moves {
 				for j, v := range m {
-					if v != 0 {
-						images[k] = append(images[k], term{s.params[j].v, v})
+					if c := s.e.class[s.params[j].v]; v != 0 && !s.hold.held[c] {
+						s.sum.add(c, v)
 					}
 				}
+				for _, c := range s.sum.touched {
+					if x := s.sum.x[c]; x != 0 {
+						images[k] = append(images[k], term{c, x})
+					}
+				}
+				s.sum.reset()
 			}
 		}
 		// The variable less its projection on the moves.
-		w := row{{p.v, 1}}
+		if c := s.e.class[p.v]; !s.hold.held[c] {
+			s.sum.add(c, 1)
+		}
 		for k, m := range s.moves {
 			for _, t := range images[k] {
-				w = append(w, term{t.v, -m[i] * t.c})
+				s.sum.add(t.v, -m[i]*t.c)
 			}
 		}
-		res := s.undetermined(w, math.Sqrt(1-moved))
+		res := s.decide(math.Sqrt(1 - moved))
 		if res == nil {
 			continue
 		}
-		s.accept(w, res)
+		s.accept(res)
 		c := unit(i)
 		for _, m := range s.moves {
 			for j, v := range m {
@@ -324,7 +334,7 @@ func (s *solve) circles() []Missing {
 		}
 		for _, rw := range append(radius, spacing...) {
 			if res := s.undetermined(rw, rowNorm(rw)); res != nil {
-				s.accept(rw, res)
+				s.accept(res)
 			}
 		}
 		sg := circleSuggestion(s.members[0], hub, 2*r)

@@ -168,7 +168,8 @@ type solve struct {
 	red     *acc      // its reduced form
 	cand    sv        // candidate buffer (unit)
 	basis   [][]term  // orthonormal reduced forms (over free classes) of what the query found missing
-	found   []row     // the rows it found missing, over variables
+	found   []row     // the rows it found missing, over classes
+	last    row       // the row decide last found missing, over classes
 	hubs    []*entity // axis datum features, for circles and clocking
 }
 
@@ -334,18 +335,22 @@ func (s *solve) motion(t dof.Twist) []float64 {
 // its equal variables merged, so that what cancels there counts as fixed
 // however small the rounding left it.
 func (s *solve) undetermined(r row, n float64) []term {
-	if n == 0 {
-		return nil
+	for _, t := range r {
+		if c := s.e.class[t.v]; !s.hold.held[c] {
+			s.sum.add(c, t.c)
+		}
 	}
+	return s.decide(n)
+}
+
+// decide is undetermined for the row summed over its classes in s.sum
+// (the held ones left out); it empties s.sum. Where the row is not fixed it
+// keeps it, over classes, in s.last, for accept.
+func (s *solve) decide(n float64) []term {
 	sum, red := s.sum, s.red
 	defer sum.reset()
 	defer red.reset()
-	for _, t := range r {
-		if c := s.e.class[t.v]; !s.hold.held[c] {
-			sum.add(c, t.c)
-		}
-	}
-	if sum.norm() <= rankTol*n {
+	if n == 0 || sum.norm() <= rankTol*n {
 		return nil
 	}
 	// Each pivot class by its reduced form over the free classes.
@@ -387,8 +392,14 @@ func (s *solve) undetermined(r row, n float64) []term {
 	// conditioned. Where a pivot was small the bound is loose, and the
 	// distance itself decides: taken as the SVD took it, over the rows
 	// near the row.
-	if d, ok := s.exact(r, n); ok && d <= rankTol {
+	if d, ok := s.exact(n); ok && d <= rankTol {
 		return nil
+	}
+	s.last = s.last[:0]
+	for _, c := range sum.touched {
+		if x := sum.x[c]; x != 0 {
+			s.last = append(s.last, term{c, x})
+		}
 	}
 	out := make([]term, 0, len(red.touched))
 	for _, c := range red.touched {
@@ -499,20 +510,20 @@ func (s *solve) try(c sv) bool {
 	if !s.needed(c) {
 		return false
 	}
-	r := s.toRow(c)
-	res := s.undetermined(r, c.norm())
+	res := s.undetermined(s.toRow(c), c.norm())
 	if res == nil {
 		return false
 	}
-	s.accept(r, res)
+	s.accept(res)
 	return true
 }
 
-// accept counts a row the query found missing as fixed from now on: its
-// residual goes to the basis, and the row itself to found, for exact.
-func (s *solve) accept(r row, res []term) {
+// accept counts the row decide last found missing as fixed from now on:
+// its residual goes to the basis, and the row itself (over classes) to
+// found, for exact.
+func (s *solve) accept(res []term) {
 	s.basis = append(s.basis, res)
-	s.found = append(s.found, r)
+	s.found = append(s.found, slices.Clone(s.last))
 }
 
 func unit(p int) sv { return sv{{p, 1}} }
@@ -725,7 +736,7 @@ const exactRows = 400
 // The rows are those the local factor took, or, for the whole part's
 // factor, those connected to r's classes; ok is false where they are more
 // than exactRows.
-func (s *solve) exact(r row, n float64) (float64, bool) {
+func (s *solve) exact(n float64) (float64, bool) {
 	e := s.e
 	held := s.hold.held
 	var ids []int32
@@ -735,8 +746,8 @@ func (s *solve) exact(r row, n float64) (float64, bool) {
 		seen := map[int32]bool{}
 		near := map[int]bool{}
 		var queue []int
-		for _, t := range r {
-			if c := e.class[t.v]; !held[c] && !near[c] {
+		for _, c := range s.sum.touched {
+			if !near[c] {
 				near[c] = true
 				queue = append(queue, c)
 			}
@@ -774,14 +785,11 @@ func (s *solve) exact(r row, n float64) (float64, bool) {
 	}
 	type dense map[int]float64
 	var rows []dense
-	addRow := func(terms []term, overClasses bool) {
+	addRow := func(terms []term) {
 		d := dense{}
 		l := 0.0
 		for _, t := range terms {
 			c := t.v
-			if !overClasses {
-				c = e.class[t.v]
-			}
 			if held[c] {
 				if !s.ground[c] {
 					l += t.c * t.c
@@ -800,16 +808,14 @@ func (s *solve) exact(r row, n float64) (float64, bool) {
 		rows = append(rows, d)
 	}
 	for _, id := range ids {
-		addRow(e.general[id], true)
+		addRow(e.general[id])
 	}
 	for _, f := range s.found {
-		addRow(f, false)
+		addRow(f)
 	}
 	v := make(dense)
-	for _, t := range r {
-		if c := e.class[t.v]; !held[c] {
-			v[column(c)] += t.c / n
-		}
+	for _, c := range s.sum.touched {
+		v[column(c)] += s.sum.x[c] / n
 	}
 	w := len(col)
 	res := make([]float64, w)
