@@ -43,16 +43,6 @@ func applyEdits(src []byte, edits []rules.Edit) []byte {
 	return out
 }
 
-// knownUnkept are test files where the basic-dimension engine still asks
-// for a dimension that, once written, it does not count (issue 11: a part
-// clocked by a hole off the datum axis; an implied 90 degrees to a datum
-// the engine does not see). The test fails once a file keeps its promises,
-// so that the list only shrinks.
-var knownUnkept = map[string]bool{
-	"basic_clocked_by_hole.callouts":   true,
-	"characteristic_mismatch.callouts": true,
-}
-
 var addRE = regexp.MustCompile("add `([^`]*)`")
 
 // TestBasicMissingFix applies basic-missing's fix to every file that has
@@ -72,14 +62,6 @@ func TestBasicMissingFix(t *testing.T) {
 		srcs[f+" (crlf, no final eol)"] = []byte(strings.TrimRight(strings.ReplaceAll(string(b), "\n", "\r\n"), "\r\n"))
 	}
 	fixed := 0
-	broken := map[string]bool{}
-	defer func() {
-		for f := range knownUnkept {
-			if !broken[f] {
-				t.Errorf("%s keeps every basic-missing promise now: take it off knownUnkept", f)
-			}
-		}
-	}()
 	for name, src := range srcs {
 		before := rules.Check(grammar.Read(name, src), nil)
 		had := map[string]bool{}
@@ -108,17 +90,10 @@ func TestBasicMissingFix(t *testing.T) {
 				if !regexp.MustCompile(`(^|\n)` + regexp.QuoteMeta(a[1]) + `(\r?\n|$)`).Match(out) {
 					t.Errorf("%s: the fix did not insert %q on a line of its own:\n%s", name, a[1], out)
 				}
-				still := false
 				for _, n := range after {
 					if n.Rule == rules.BasicMissing.ID && strings.Contains(n.Message, "`"+a[1]+"`") {
-						still = true
-						if !knownUnkept[filepath.Base(strings.TrimSuffix(name, " (crlf, no final eol)"))] {
-							t.Errorf("%s: after inserting %q it is still suggested: %s", name, a[1], n.Message)
-						}
+						t.Errorf("%s: after inserting %q it is still suggested: %s", name, a[1], n.Message)
 					}
-				}
-				if still {
-					broken[filepath.Base(strings.TrimSuffix(name, " (crlf, no final eol)"))] = true
 				}
 			}
 			for _, n := range after {

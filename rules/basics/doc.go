@@ -31,16 +31,16 @@
 //	centre             3 translations,                   0 rotations
 //	cone apex          3 translations,                   2 rotations
 //
-// Bases are the part's axes wherever the geometry is aligned with them, so
-// that on the usual part an implied zero or a basic dimension is a row
-// "this variable equals that one". Those rows are eliminated exactly first
-// (variables merged into classes, which is Gaussian elimination of rows with
-// two equal and opposite coefficients); what remains — bolt circles, angles
-// about an axis, tilted features — goes to gonum's SVD on the small
-// connected block a question touches. Nothing is quadratic in the number of
-// features: implied zeros come from sorting coordinates along each
-// direction that occurs in the part, and implied angles from grouping
-// parallel directions.
+// Bases are the part's own axes (its datum features' directions, the
+// model's wherever the part is drawn along them) wherever the geometry is
+// aligned with them, so that on the usual part an implied zero or a basic
+// dimension is a row "this variable equals that one", even on a part drawn
+// turned in its coordinates. Those rows are eliminated exactly first
+// (variables merged into classes by union-find, which is Gaussian
+// elimination of rows with two equal and opposite coefficients), and so are
+// the rows that one relation states twice. What remains (bolt circles,
+// angles about an axis, tilted features, the turn of a datum plane about
+// its written point) are the general rows, over classes.
 //
 // # What a frame needs
 //
@@ -53,15 +53,42 @@
 // each other and their orientation to those datums (ASME Y14.5-2018,
 // composite position tolerancing). Angularity needs only orientation.
 //
+// # Rank decisions
+//
+// A query holds its datum features' classes at zero and asks, for each
+// candidate quantity, whether it lies in the span of the general rows (then
+// basic dimensions fix it) or of what the query already found missing.
+// Classes that a row fixes once the others are held (a hole located from a
+// datum plane) are held too, once per set of datum features (holding). The
+// span is decided by an orthogonal sparse elimination (factor.go): a
+// Householder QR of the rows in approximate minimum degree order, each
+// class substituted by its reduced form over the classes left free, the
+// rank decided at rankTol as the SVD it replaced decided it.
+//
 // # Cost
 //
-// A check builds one engine per file and asks it once per frame segment,
-// so both are kept lean without changing a single floating-point
-// operation that reaches an answer: relations are built in one arena and
-// rewritten over the classes without maps, rows already over classes are
-// not rewritten again, queries index by pooled slices, and what only a
-// missing quantity needs (earlier references' motions, the moves' images)
-// is worked out when one is found. The engine as it was before these
-// changes is kept in rules/lint/internal/basicsref, which holds this one
-// to it bit for bit on the repository's test data and on generated plates.
+// A check builds one engine per file and asks it once per frame segment.
+// Nothing is factorised per query over the whole part: a query first takes
+// only the rows near its target (those of its own classes, then breadth
+// first up to a budget, not through a class that many features share).
+// Rows near the target span part of what all rows span, so a query that
+// finds nothing missing there finds nothing missing at all, and one whose
+// search took every row connected to its target has the whole part's
+// answer; only a query that finds something missing with rows left out
+// falls back to the factor of all the part's rows, built once per set of
+// datum features. On a clean part no query does, so a part of n located
+// features costs about n times a part of one (docs/performance.md).
+//
+// # What holds the answers
+//
+// Properties that need no second copy of the engine
+// (rules/lint/internal/basicsprop), on every test file, every generated
+// shape and random cuts of their basic dimensions: adding a dimension the
+// model implies never makes a located feature unlocated; removing one from
+// a clean part either leaves it clean by the whole part's factor too or
+// makes findings whose suggestions make it clean again; each suggested
+// dimension, once added, clears its quantity (a suggestion is a promise,
+// and the engine checks it against the rows the dimension would add before
+// making it); and the rows near each target give the answer all the part's
+// rows give (Missing against MissingWhole).
 package basics

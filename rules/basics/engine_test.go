@@ -345,3 +345,61 @@ basic 31deg from face to ramp
 		t.Errorf("mismatches on lines %v, want [16 17]", got)
 	}
 }
+
+// A missing angle is suggested from the datum whose angle to the feature
+// turns it about the axis that is missing: left, at an implied 90 degrees
+// to the base, is turned about z only by its angle to the ramp B. (The
+// angle to A was suggested before; it is implied and fixed nothing.)
+func TestAngleSuggestionTurnsAboutItsAxis(t *testing.T) {
+	src := header + `
+feature base plane normal -z at (0, 0, 0)
+feature ramp plane normal (0.173648, -0.984808, 0) at (0, 0, 0)
+feature left plane normal -x at (0, 0, 0)
+datum A on base
+datum B on ramp
+frame left: angularity 0.05 datums A, B
+`
+	expect(t, missing(t, src), map[string][]string{"left/0": {"left angle z B [basic 80deg from ramp to left]"}})
+	expect(t, missing(t, src+"basic 80deg from ramp to left\n"), nil)
+}
+
+// A datum feature's place that the part may turn about a datum axis is
+// named by its variable, and suggested from the axis it is fixed by.
+func TestRestIsSuggested(t *testing.T) {
+	src := header + `
+feature face  plane normal -z at (0, 0, 0)
+feature hub   hole size 20 +0.021 -0 axis +z at (0, 0, 0)
+feature flat  plane normal +y at (15, 25, 8)
+datum A on face
+datum B on hub
+frame flat: surface-profile 0.05 datums A, B
+`
+	expect(t, missing(t, src), map[string][]string{"flat/0": {"flat location y B [basic 25 from hub to flat]"}})
+	expect(t, missing(t, src+"basic 25 from hub to flat\n"), nil)
+}
+
+// A part drawn turned in its coordinates: an inclined hole at a basic 20
+// degrees to A and at an implied 90 degrees to a face, among bolt circles
+// located from that face. Eliminating the relations left a small pivot,
+// and the reduced form's length (a bound on the distance from the span)
+// read the angle as missing; the distance itself decides it fixed.
+func TestTurnedInclinedHoleIsOriented(t *testing.T) {
+	src := header + `
+feature base  plane normal (0, 0.529919, -0.848048) at (0, 0, 0)
+feature left  plane normal (-0.173648, -0.835164, -0.521869) at (0, 0, 0)
+feature hub1 hole size 12 +0.05 -0 axis (0, -0.529919, 0.848048) at (-12.812118, 60.472725, 37.787553)
+feature ring1 hole 6x size 3.4 +-0.1 axis (0, -0.529919, 0.848048) at (-10.554691, 71.329862, 44.571844) (-22.770696, 67.559218, 42.215685) (-25.028122, 56.702081, 35.431393) (-15.069544, 49.615589, 31.003261) (-2.85354, 53.386233, 33.359421) (-0.596114, 64.243369, 40.143712)
+feature hub2 hole size 12 +0.05 -0 axis (0, -0.529919, 0.848048) at (-8.009454, 93.338659, 58.324467)
+feature ring2 hole 6x size 3.4 +-0.1 axis (0, -0.529919, 0.848048) at (-5.752028, 104.195795, 65.108759) (-17.968032, 100.425151, 62.752599) (-20.225458, 89.568015, 55.968307) (-10.266881, 82.481522, 51.540175) (1.949123, 86.252166, 53.896335) (4.20655, 97.109302, 60.680627)
+feature drill1 hole size 5.5 +-0.1 axis (-0.336824, -0.447595, 0.828377) at (-65.00212, 38.998452, 24.368937)
+feature right plane normal (0.173648, 0.835164, 0.521869) at (38.202599, 183.736155, 114.811092)
+datum A on base
+frame drill1: angularity dia 0.05 datums A
+basic 68 from left to hub1
+basic dia 26 through ring1 about hub1
+basic 107 from left to hub2
+basic dia 26 through ring2 about hub2
+basic 20deg from base to drill1
+`
+	expect(t, missing(t, src), nil)
+}

@@ -60,20 +60,41 @@ func (e *entity) name() string { return Name(e.m) }
 
 var axes = [3]Vec{{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}
 
-// axisPerp[i] is perp(axes[i]), shared: nothing writes to the directions
-// of an entity's variables.
-var axisPerp = [3][2]Vec{{axes[1], axes[2]}, {axes[2], axes[0]}, {axes[0], axes[1]}}
+// axesFrame is three orthonormal directions that the engine's variables
+// are taken along: the part's own axes. Where a relation runs along one of
+// them (a hole located from a datum plane, two holes on one centre line) it
+// is then a row "this variable equals that one", which union-find merges
+// exactly; taken along other directions the same relation would be a
+// general row that the rank decisions must factorise.
+type axesFrame struct {
+	ax [3]Vec
+	// across[i] is perp(ax[i]), shared: nothing writes to the directions
+	// of an entity's variables.
+	across [3][2]Vec
+}
+
+func newAxesFrame(ax [3]Vec) *axesFrame {
+	return &axesFrame{ax: ax, across: [3][2]Vec{{ax[1], ax[2]}, {ax[2], ax[0]}, {ax[0], ax[1]}}}
+}
+
+// modelAxes are the model's coordinate axes, which a part drawn along them
+// takes as its own.
+var modelAxes = newAxesFrame(axes)
 
 // snap returns the coordinate axis d is within alignTol of (keeping its
+// sign), or d normalised.
+func snap(d Vec) Vec { return modelAxes.snap(d) }
+
+// snap returns the frame's axis d is within alignTol of (keeping its
 // sign), or d normalised. Aligned geometry then gives exact rows.
-func snap(d Vec) Vec {
+func (f *axesFrame) snap(d Vec) Vec {
 	d = d.Unit()
-	for i, a := range axes {
+	for i, a := range f.ax {
 		if c := d.Dot(a); math.Abs(c) >= 1-alignTol*alignTol/2 {
 			if c < 0 {
 				return a.Scale(-1)
 			}
-			return axes[i]
+			return f.ax[i]
 		}
 	}
 	return d
@@ -94,22 +115,123 @@ func canonical(d Vec) Vec {
 }
 
 // perp returns two orthonormal directions across d: the other two axes
-// when d is an axis, else a frame built on the axis least aligned with d.
-func perp(d Vec) []Vec {
-	for i, a := range axes {
+// when d is a coordinate axis, else a frame built on the axis least aligned
+// with d.
+func perp(d Vec) []Vec { return modelAxes.perp(d) }
+
+// perp is the package's perp with the frame's axes.
+func (f *axesFrame) perp(d Vec) []Vec {
+	for i, a := range f.ax {
 		if math.Abs(d.Dot(a)) == 1 {
-			return axisPerp[i][:]
+			return f.across[i][:]
 		}
 	}
 	k := 0
 	for i := 1; i < 3; i++ {
-		if math.Abs(d[i]) < math.Abs(d[k]) {
+		if math.Abs(d.Dot(f.ax[i])) < math.Abs(d.Dot(f.ax[k])) {
 			k = i
 		}
 	}
-	t1 := d.Cross(axes[k]).Unit()
+	t1 := d.Cross(f.ax[k]).Unit()
 	return []Vec{t1, d.Cross(t1).Unit()}
 }
+
+// partAxes returns the part's own axes: those of its datum features'
+// directions (the datum reference frame's, where a drawing's x, y and z
+// run), or, without datum features, of the directions most of its features
+// share; the model's axes when these lie along them, so that a part drawn
+// along the model's axes is built exactly as the model gives it. The first
+// axis is the direction with the most weight (a datum feature counts as a
+// thousand features), the second the weightiest at right angles to it.
+func partAxes(p *model.Part) *axesFrame {
+	type line struct {
+		d Vec
+		w int
+	}
+	var lines []line
+	add := func(d Vec, w int) {
+		if !(d.Norm() > 0) {
+			return
+		}
+		d = canonical(d.Unit())
+		for i := range lines {
+			if parallel(lines[i].d, d) {
+				lines[i].w += w
+				return
+			}
+		}
+		if len(lines) < maxFrameLines {
+			lines = append(lines, line{d, w})
+		}
+	}
+	datum := map[*model.Feature]bool{}
+	for _, d := range p.Datums {
+		if d.Target.Resolved() {
+			datum[d.Target.Feature] = true
+		}
+	}
+	for _, f := range p.Features {
+		if f.Broken || !f.HasGeometry {
+			continue
+		}
+		w := len(f.Members)
+		if datum[f] {
+			w = 1000
+		}
+		add(f.Dir, w)
+	}
+	best := func(ok func(Vec) bool) (Vec, bool) {
+		k := -1
+		for i, l := range lines {
+			if ok(l.d) && (k < 0 || l.w > lines[k].w) {
+				k = i
+			}
+		}
+		if k < 0 {
+			return Vec{}, false
+		}
+		return lines[k].d, true
+	}
+	u1, ok := best(func(Vec) bool { return true })
+	if !ok {
+		return modelAxes
+	}
+	u2, ok2 := best(func(d Vec) bool { return perpendicular(d, u1) })
+	aligned := func(d Vec) bool {
+		return snap(d) != d.Unit() || math.Abs(math.Abs(d[0])+math.Abs(d[1])+math.Abs(d[2])-1) == 0
+	}
+	if aligned(u1) && (!ok2 || aligned(u2)) {
+		return modelAxes
+	}
+	if !ok2 {
+		u2 = modelAxes.perp(u1)[0]
+	}
+	u2 = u2.Sub(u1.Scale(u1.Dot(u2))).Unit()
+	u3 := u1.Cross(u2).Unit()
+	// Each axis in the slot of the model's axis it is nearest, pointing
+	// its way, so that a part turned a little keeps its x, y and z.
+	var ax [3]Vec
+	var used [3]bool
+	for _, u := range []Vec{u1, u2, u3} {
+		k, best := -1, -1.0
+		for i := range 3 {
+			if !used[i] && math.Abs(u[i]) > best {
+				k, best = i, math.Abs(u[i])
+			}
+		}
+		if u[k] < 0 {
+			u = u.Scale(-1)
+		}
+		ax[k], used[k] = u, true
+	}
+	return newAxesFrame(ax)
+}
+
+// maxFrameLines bounds the distinct directions partAxes weighs, so that a
+// part of many differently inclined features costs time in proportion to
+// them: the datum features' and the commonest directions come first in any
+// drawing that has a frame.
+const maxFrameLines = 64
 
 // parallel is |a × b| ≤ alignTol. The square root is taken only near the
 // bound, where comparing squares could round the other way.
@@ -127,16 +249,16 @@ func parallel(a, b Vec) bool {
 
 func perpendicular(a, b Vec) bool { return math.Abs(a.Dot(b)) <= alignTol }
 
-// newEntity gives a member its variables' directions, or nil when its
-// geometry is unknown.
-func newEntity(m *model.Member) *entity {
+// newEntity gives a member its variables' directions along the part's
+// axes, or nil when its geometry is unknown.
+func (ax *axesFrame) newEntity(m *model.Member) *entity {
 	f := m.Feature
 	if f == nil || f.Broken || !f.HasGeometry {
 		return nil
 	}
 	e := &entity{m: m, p: m.Point}
 	if f.Dir.Norm() > 0 {
-		e.d = snap(f.Dir)
+		e.d = ax.snap(f.Dir)
 	}
 	hasDir := e.d.Norm() > 0
 	switch f.Kind {
@@ -144,20 +266,20 @@ func newEntity(m *model.Member) *entity {
 		if !hasDir {
 			return nil
 		}
-		e.shape, e.tb, e.rb = planeShape, []Vec{canonical(e.d)}, perp(e.d)
+		e.shape, e.tb, e.rb = planeShape, []Vec{canonical(e.d)}, ax.perp(e.d)
 	case model.Hole, model.Pin, model.Extrusion:
 		if !hasDir {
 			return nil
 		}
-		across := perp(e.d) // read only, so one slice serves both
+		across := ax.perp(e.d) // read only, so one slice serves both
 		e.shape, e.tb, e.rb = axisShape, across, across
 	case model.Cone:
 		if !hasDir {
 			return nil
 		}
-		e.shape, e.tb, e.rb = pointShape, axes[:], perp(e.d)
+		e.shape, e.tb, e.rb = pointShape, ax.ax[:], ax.perp(e.d)
 	case model.Socket, model.Ball, model.Surface:
-		e.shape, e.tb = pointShape, axes[:]
+		e.shape, e.tb = pointShape, ax.ax[:]
 	default:
 		return nil
 	}

@@ -23,8 +23,9 @@ type row []term
 // not changed by queries, so one Engine may be shared by goroutines.
 type Engine struct {
 	part  *model.Part
-	L     float64 // the part's size: translation variables are in units of it
-	tol   float64 // lengths below this are zero
+	L     float64    // the part's size: translation variables are in units of it
+	tol   float64    // lengths below this are zero
+	ax    *axesFrame // the part's axes, which the variables are taken along
 	ents  []*entity
 	byMem map[*model.Member]*entity
 	nvars int
@@ -41,15 +42,15 @@ type Engine struct {
 	// circles are the bolt circles written for each pattern.
 	circles map[*model.Feature][]*model.Dimension
 
-	// built and arena hold the relations while the engine is built.
-	built []row
-	arena []term
+	// near memoises nearest (a pattern's members' nearest earlier ones),
+	// targets targetVars and holdings what each set of datum features
+	// holds (holdingFor), all under memoMu.
+	memoMu   sync.Mutex
+	near     map[*model.Feature][]int
+	targets  map[targetKey]*targetVars
+	holdings map[string]*holding
 
-	// near memoises nearest (a pattern's members' nearest earlier ones)
-	// and targets targetVars, both under memoMu.
-	memoMu  sync.Mutex
-	near    map[*model.Feature][]int
-	targets map[targetKey]*targetVars
+	stats workStats
 }
 
 // Build collects the part's variables and relations: every basic
@@ -57,14 +58,14 @@ type Engine struct {
 // as belonging in basic form counts them so as not to report one problem
 // twice), and the implied basic zeros and angles.
 func Build(p *model.Part, counted []*model.Dimension) *Engine {
-	e := &Engine{part: p, L: p.Scale, byMem: map[*model.Member]*entity{}, circles: map[*model.Feature][]*model.Dimension{}}
+	e := &Engine{part: p, L: p.Scale, byMem: map[*model.Member]*entity{}, circles: map[*model.Feature][]*model.Dimension{}, ax: partAxes(p)}
 	if !(e.L > 0) || math.IsInf(e.L, 0) {
 		e.L = 1
 	}
 	e.tol = alignTol * e.L
 	for _, f := range p.Features {
 		for _, m := range f.Members {
-			en := newEntity(m)
+			en := e.ax.newEntity(m)
 			if en == nil {
 				continue
 			}
@@ -80,29 +81,35 @@ func Build(p *model.Part, counted []*model.Dimension) *Engine {
 			e.circles[d.Circle.Pattern.Feature] = append(e.circles[d.Circle.Pattern.Feature], d)
 		}
 	}
-	e.built = make([]row, 0, 2*len(p.Dims)+4*len(e.ents))
+	b := &builder{Engine: e, built: make([]row, 0, 2*len(p.Dims)+4*len(e.ents))}
 	for _, d := range p.Dims {
 		if d.Basic {
-			e.dimRows(d)
+			b.dimRows(d)
 		}
 	}
 	for _, d := range counted {
 		if !d.Basic {
-			e.dimRows(d)
+			b.dimRows(d)
 		}
 	}
-	e.impliedZeros()
-	e.impliedAngles()
-	e.eliminate(e.built)
-	e.built, e.arena = nil, nil
+	b.impliedZeros()
+	b.impliedAngles()
+	e.eliminate(b.built)
 	return e
 }
 
-// While the engine is built, its relations go to built, in the order they
-// are found, and most of their terms to arena, a few rows to an allocation.
+// A builder collects relations: while the engine is built, the part's, in
+// the order they are found, most of their terms in arena, a few rows to an
+// allocation; afterwards, those a suggested dimension would add (the
+// engine is only read, so queries may do it at once).
+type builder struct {
+	*Engine
+	built []row
+	arena []term
+}
 
 // open returns an empty row with room for n terms at the arena's end.
-func (e *Engine) open(n int) row {
+func (e *builder) open(n int) row {
 	if cap(e.arena)-len(e.arena) < n {
 		e.arena = make([]term, 0, max(512, n))
 	}
@@ -111,7 +118,7 @@ func (e *Engine) open(n int) row {
 }
 
 // keep adds r, filled within the room open gave it, to the relations.
-func (e *Engine) keep(r row) {
+func (e *builder) keep(r row) {
 	e.arena = e.arena[:len(e.arena)+len(r)]
 	e.built = append(e.built, r[:len(r):len(r)])
 }
@@ -119,7 +126,7 @@ func (e *Engine) keep(r row) {
 // keepShiftDiff adds diff(shift(b, u), shift(a, u)) when both are defined,
 // each measured at its foot of the pair's meeting point (meetPoint), so
 // that a turn of a plane or an axis about its written point is counted.
-func (e *Engine) keepShiftDiff(a, b *entity, u Vec) {
+func (e *builder) keepShiftDiff(a, b *entity, u Vec) {
 	var tmp [6]term
 	u = u.Unit()
 	c := meetPoint(a, b)
@@ -144,7 +151,7 @@ func (e *Engine) keepShiftDiff(a, b *entity, u Vec) {
 }
 
 // keepTurnDiff adds diff(turn(b, r), turn(a, r)).
-func (e *Engine) keepTurnDiff(a, b *entity, rot Vec) {
+func (e *builder) keepTurnDiff(a, b *entity, rot Vec) {
 	r := turnTo(e.open(len(a.rb)+len(b.rb)), b, rot)
 	for k, v := range a.rb {
 		r = append(r, term{a.r0 + k, -rot.Dot(v)})
@@ -263,7 +270,7 @@ func diff(a, b row) row {
 }
 
 // dimRows turns a written dimension into relations (added to built).
-func (e *Engine) dimRows(d *model.Dimension) {
+func (e *builder) dimRows(d *model.Dimension) {
 	if d.Circle != nil {
 		e.built = append(e.built, e.circleRows(d.Circle)...)
 		return
@@ -305,7 +312,7 @@ func (e *Engine) aboutTerm(x, hub *entity) (row, bool) {
 // angleRows relates two directions: parallel ones in both rotations across
 // them, others in the rotation about their common normal (the only one
 // that changes the angle between them to first order).
-func (e *Engine) angleRows(a, b *entity) {
+func (e *builder) angleRows(a, b *entity) {
 	if len(a.rb) == 0 || len(b.rb) == 0 {
 		return
 	}
@@ -321,7 +328,7 @@ func (e *Engine) angleRows(a, b *entity) {
 
 // linearRows relates two places along the dimension's direction; a zero
 // distance fixes every direction the two share.
-func (e *Engine) linearRows(a, b *entity, along *Vec) {
+func (e *builder) linearRows(a, b *entity, along *Vec) {
 	var one [1]Vec
 	var dirs []Vec
 	if along != nil {
@@ -424,7 +431,7 @@ func equallySpaced(angles []float64) bool {
 // every direction that occurs in the part, the entities that can move along
 // it are sorted by their coordinate, and neighbours within tolerance are
 // related.
-func (e *Engine) impliedZeros() {
+func (e *builder) impliedZeros() {
 	var dirs []Vec
 	add := func(d Vec) {
 		if d.Norm() == 0 {
@@ -446,7 +453,7 @@ func (e *Engine) impliedZeros() {
 		}
 		dirs = append(dirs, cd)
 	}
-	for _, a := range axes {
+	for _, a := range e.ax.ax {
 		add(a)
 	}
 	for _, x := range e.ents {
@@ -463,7 +470,7 @@ func (e *Engine) impliedZeros() {
 	for i, n := 0, len(dirs); i < n; i++ {
 		for j := i + 1; j < n; j++ {
 			if c := dirs[i].Cross(dirs[j]); c.Norm() > alignTol {
-				add(snap(c))
+				add(e.ax.snap(c))
 			}
 		}
 	}
@@ -532,7 +539,7 @@ func isFace(x *entity) bool { return x.m.Feature.Kind == model.Plane }
 // Y14.5-2018, implied 90 degree and 0 degree basic angles). Directions are
 // grouped by line; members of a group are related to their neighbour, and
 // groups at right angles through one representative each.
-func (e *Engine) impliedAngles() {
+func (e *builder) impliedAngles() {
 	type group struct {
 		d   Vec
 		rep *entity
@@ -664,6 +671,7 @@ func (e *Engine) eliminate(rows []row) {
 	}
 	// The last pass merged nothing, so every row left is over classes
 	// already and rewriting it once more would change nothing.
+	pending = distinctRows(pending)
 	e.general = pending
 	e.rowStart = make([]int32, e.nvars+1)
 	for _, r := range pending {
@@ -682,4 +690,61 @@ func (e *Engine) eliminate(rows []row) {
 			fill[t.v]++
 		}
 	}
+}
+
+// distinctRows keeps the first of rows that are one relation: the same
+// classes with proportional coefficients, to 1e-12 of the largest. Features
+// drawn alike in line with each other (a row of identical bolt circles
+// whose members line up, at implied zeros, with the members of the next)
+// give one relation many times over; the span is the same with one copy,
+// and a rank decision that read n copies as a singular value √n times
+// larger would only be nearer to its bound. Rows are over classes, each
+// class once, in the order eliminate wrote them.
+func distinctRows(rows []row) []row {
+	type key struct {
+		h uint64
+		n int
+	}
+	seen := make(map[key][]int, len(rows))
+	scaled := func(r row, k int) (int, int64) {
+		big := 0.0
+		for _, t := range r {
+			if math.Abs(t.c) > math.Abs(big) {
+				big = t.c
+			}
+		}
+		return r[k].v, int64(math.Round(r[k].c / big * 1e12))
+	}
+	same := func(a, b row) bool {
+		if len(a) != len(b) {
+			return false
+		}
+		for k := range a {
+			va, ca := scaled(a, k)
+			vb, cb := scaled(b, k)
+			if va != vb || ca != cb {
+				return false
+			}
+		}
+		return true
+	}
+	out := rows[:0]
+next:
+	for _, r := range rows {
+		h := uint64(14695981039346656037)
+		for k := range r {
+			v, c := scaled(r, k)
+			h = (h ^ uint64(v)) * 1099511628211
+			h = (h ^ uint64(c)) * 1099511628211
+		}
+		kk := key{h, len(r)}
+		for _, i := range seen[kk] {
+			if same(out[i], r) {
+				continue next
+			}
+		}
+		seen[kk] = append(seen[kk], len(out))
+		out = append(out, r)
+	}
+	return out
 }

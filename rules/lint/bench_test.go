@@ -181,3 +181,53 @@ func BenchmarkCheckLongFile(b *testing.B) {
 		})
 	}
 }
+
+// partSizes are the sizes of one part that BenchmarkCheckPart measures, in
+// located features: 4 x the features should cost at most about 5 x the
+// time (docs/performance.md).
+var partSizes = []int{250, 1000, 4000, 10000}
+
+// BenchmarkCheckPart is the whole check of one generated part in memory
+// (parse, resolve, every rule), for every shape and size:
+// BenchmarkCheckPart/shape=mix/features=1000. Run one size across shapes
+// with -bench 'CheckPart/.*/features=1000$', and compare sizes as ratios
+// within one run.
+func BenchmarkCheckPart(b *testing.B) {
+	for _, s := range gen.Shapes {
+		for _, n := range partSizes {
+			b.Run(fmt.Sprintf("shape=%s/features=%d", s, n), func(b *testing.B) {
+				src := gen.Part(s, 0, n)
+				lines := bytes.Count(src, []byte("\n"))
+				b.ResetTimer()
+				for b.Loop() {
+					rules.Check(grammar.Read("part.callouts", src), nil)
+				}
+				reportLines(b, lines)
+			})
+		}
+	}
+}
+
+// BenchmarkCheckShape is the whole check of 16 parts of each shape at its
+// own size (12 to 28 located features, a repository's parts), for the
+// lines per second of a repository of that shape.
+func BenchmarkCheckShape(b *testing.B) {
+	for _, s := range gen.Shapes {
+		b.Run("shape="+string(s), func(b *testing.B) {
+			var srcs [][]byte
+			lines := 0
+			for i := range sample {
+				src := gen.Part(s, i, 0)
+				srcs = append(srcs, src)
+				lines += bytes.Count(src, []byte("\n"))
+			}
+			b.ResetTimer()
+			for b.Loop() {
+				for i, src := range srcs {
+					rules.Check(grammar.Read(fmt.Sprint(i), src), nil)
+				}
+			}
+			reportLines(b, lines)
+		})
+	}
+}

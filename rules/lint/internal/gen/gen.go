@@ -1,12 +1,17 @@
 // Package gen writes synthetic repositories of .callouts files for
-// benchmarks and robustness tests: rectangular plates with a datum
-// reference frame of three planes (A flat, B and C perpendicular), a
-// located bore that is itself datum D, and hole and pin patterns under
-// composite position, every location fixed by basic dimensions. The plates
-// are clean by construction: `datumlint check` reports nothing for them.
+// benchmarks and robustness tests. Plate writes the original benchmark
+// plate: a datum reference frame of three planes (A flat, B and C
+// perpendicular), a located bore that is itself datum D, and hole and pin
+// patterns under composite position, every location fixed by basic
+// dimensions. Part writes every other shape (see Shape) at any number of
+// located features: composite-heavy plates, plates of every kind of
+// located feature, the same drawn turned in their coordinates or in
+// inches, and turned flanges with bolt circles. Every part is clean by
+// construction: `datumlint check` reports nothing for it, and the tests
+// hold every shape to that.
 //
 // The parts are invented; their names, codes and sizes come from a seeded
-// generator, so the same index always gives the same plate.
+// generator, so the same arguments always give the same part.
 package gen
 
 import (
@@ -245,7 +250,12 @@ type Stats struct {
 
 // Write writes n plates under dir, PerFolder to a folder
 // (dir/line-000/plate-00000.callouts ...), and returns what it wrote.
-func Write(dir string, n int) (Stats, error) {
+func Write(dir string, n int) (Stats, error) { return WriteShape(dir, n, ShapePlate, 0) }
+
+// WriteShape writes parts 0 to n-1 of a shape, each with the given number
+// of located features (0: the shape's own size), PerFolder to a folder
+// (dir/line-000/plate-00000.callouts ...), and returns what it wrote.
+func WriteShape(dir string, n int, s Shape, features int) (Stats, error) {
 	var st Stats
 	for i := 0; i < n; i++ {
 		sub := filepath.Join(dir, fmt.Sprintf("line-%03d", i/PerFolder))
@@ -254,7 +264,7 @@ func Write(dir string, n int) (Stats, error) {
 				return st, err
 			}
 		}
-		src := Plate(i)
+		src := Part(s, i, features)
 		if err := os.WriteFile(filepath.Join(sub, fmt.Sprintf("plate-%05d.callouts", i)), src, 0o644); err != nil {
 			return st, err
 		}

@@ -2,13 +2,13 @@ package gen
 
 import (
 	"bytes"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
 	"github.com/datumlint/datumlint/grammar"
-
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/longtest"
 )
@@ -71,5 +71,93 @@ func TestWrite(t *testing.T) {
 	got, err := os.ReadFile(filepath.Join(dir, "line-001", "plate-00051.callouts"))
 	if err != nil || !bytes.Equal(got, Plate(51)) {
 		t.Fatalf("plate 51 on disk differs from Plate(51) (err %v)", err)
+	}
+}
+
+// TestShapesAreClean holds every shape to the generator's contract at a
+// repository's size: no rule reports anything, at any severity.
+func TestShapesAreClean(t *testing.T) {
+	n := 60
+	if testing.Short() {
+		n = 15
+	}
+	for _, s := range Shapes {
+		for i := range n {
+			checkClean(t, fmt.Sprintf("%s part %d", s, i), Part(s, i, 0))
+		}
+	}
+}
+
+// TestLargePartsAreClean holds every shape to the same contract at the
+// sizes the benchmarks measure (10,000 features is left to the benchmarks:
+// a test that long would be run less).
+func TestLargePartsAreClean(t *testing.T) {
+	sizes := []int{250, 1000, 4000}
+	if testing.Short() {
+		sizes = []int{250}
+	}
+	for _, s := range Shapes {
+		for _, n := range sizes {
+			checkClean(t, fmt.Sprintf("%s part of %d", s, n), Part(s, 1, n))
+		}
+	}
+}
+
+func checkClean(t *testing.T, name string, src []byte) {
+	t.Helper()
+	for _, d := range rules.Check(grammar.Read("part.callouts", src), nil) {
+		t.Errorf("%s:%s: %s: %s\n%s", name, d.Span.Start, d.Rule, d.Message, lineOf(src, d.Span.Start.Line))
+	}
+}
+
+// TestShapesHaveTheirSize checks that a part asked for n located features
+// has them: one position or located-profile frame per feature, counting a
+// pattern's members.
+func TestShapesHaveTheirSize(t *testing.T) {
+	for _, s := range Shapes {
+		for _, n := range []int{0, 37, 250} {
+			src := Part(s, 3, n)
+			got := locatedFeatures(t, src)
+			switch {
+			case n == 0 && s != ShapePlate && (got < 12 || got > 28):
+				t.Errorf("%s at its own size: %d located features, want 12 to 28", s, got)
+			case n > 0 && got != n:
+				t.Errorf("%s asked for %d located features: %d", s, n, got)
+			}
+		}
+		if !bytes.Equal(Part(s, 5, 40), Part(s, 5, 40)) || bytes.Equal(Part(s, 5, 40), Part(s, 6, 40)) {
+			t.Errorf("%s: parts are not deterministic and varied", s)
+		}
+	}
+}
+
+// locatedFeatures counts the members of the features under position or
+// located profile.
+func locatedFeatures(t *testing.T, src []byte) int {
+	t.Helper()
+	p := grammar.Read("part.callouts", src)
+	if len(p.Problems) > 0 {
+		t.Fatalf("generated part does not resolve: %v", p.Problems[0])
+	}
+	n := 0
+	for _, f := range p.Features {
+		for _, fr := range p.FramesOn(f) {
+			if fr.Located() {
+				n += len(f.Members)
+				break
+			}
+		}
+	}
+	return n
+}
+
+func TestParseShape(t *testing.T) {
+	for _, s := range Shapes {
+		if got, err := ParseShape(string(s)); err != nil || got != s {
+			t.Errorf("ParseShape(%q) = %q, %v", s, got, err)
+		}
+	}
+	if _, err := ParseShape("disc"); err == nil || !strings.Contains(err.Error(), "flange") {
+		t.Errorf("ParseShape(disc): %v, want an error listing the shapes", err)
 	}
 }
