@@ -94,6 +94,8 @@ func Build(p *model.Part, counted []*model.Dimension) *Engine {
 	}
 	b.impliedZeros()
 	b.impliedAngles()
+	b.impliedClocking()
+	b.impliedCentring()
 	e.eliminate(b.built)
 	return e
 }
@@ -566,6 +568,163 @@ func (e *builder) impliedAngles() {
 		for _, h := range groups[i+1:] {
 			if perpendicular(g.d, h.d) {
 				e.angleRows(g.rep, h.rep)
+			}
+		}
+	}
+}
+
+// impliedClocking adds the implied basic 0 and 90 degree relationships to
+// the direction that a clocking datum feature defines from a datum axis
+// (ASME Y14.5-2018, implied basic relationships hold to every datum of the
+// frame; ISO 5459:2011, a datum system's orientation by a secondary axis and
+// a tertiary feature off it). Where a frame references an axis (a hole or
+// pin) and, after it, a hole, pin or sphere off that axis, the radial line
+// from the axis to that feature sets the part's turn about the axis: a
+// plane or an axis across the datum axis whose direction is at 0 or 90
+// degrees to that line, and a feature along the axis whose radial line is
+// at 0 or 90 degrees to it, turn with it, as a basic angle about the axis
+// would say (`basic 90deg from dowel to face about pilot`). The clocking
+// a width or a plane gives (a keyway) is the implied angle between
+// directions already.
+func (e *builder) impliedClocking() {
+	type pair struct{ hub, clk *entity }
+	seen := map[pair]bool{}
+	single := func(r *model.DatumRef) *entity {
+		if len(r.Datums) != 1 || r.Datums[0] == nil || !r.Datums[0].Target.Resolved() {
+			return nil
+		}
+		t := r.Datums[0].Target
+		if t.Member == nil && len(t.Feature.Members) != 1 {
+			return nil
+		}
+		m := t.Member
+		if m == nil {
+			m = t.Feature.Members[0]
+		}
+		return e.byMem[m]
+	}
+	var pairs []pair
+	for _, fr := range e.part.Frames {
+		for _, seg := range fr.Segments {
+			for i, ri := range seg.Refs {
+				hub := single(ri)
+				if hub == nil || hub.shape != axisShape {
+					continue
+				}
+				for _, rj := range seg.Refs[i+1:] {
+					clk := single(rj)
+					if clk == nil || clk == hub || seen[pair{hub, clk}] {
+						continue
+					}
+					along := clk.shape == pointShape && len(clk.rb) == 0 || clk.shape == axisShape && parallel(clk.d, hub.d)
+					if !along || radial(hub, clk.p).Norm() <= e.tol {
+						continue
+					}
+					seen[pair{hub, clk}] = true
+					pairs = append(pairs, pair{hub, clk})
+				}
+			}
+		}
+	}
+	square := func(a, b Vec) bool { return parallel(a, b) || perpendicular(a, b) }
+	for _, pr := range pairs {
+		hub, clk := pr.hub, pr.clk
+		ref, ok := e.clock(clk, hub)
+		if !ok {
+			continue
+		}
+		u := radial(hub, clk.p).Unit()
+		for _, x := range e.ents {
+			if x == hub || x == clk {
+				continue
+			}
+			switch {
+			case len(x.rb) > 0 && x.shape != pointShape && perpendicular(x.d, hub.d) && square(x.d, u):
+				// Its direction turns with the part about the axis.
+				e.built = append(e.built, diff(turn(x, hub.d), ref))
+			case x.shape == axisShape && parallel(x.d, hub.d) || x.shape == pointShape && len(x.rb) == 0:
+				w := radial(hub, x.p)
+				if w.Norm() > e.tol && square(w, u) {
+					if r, ok := e.clock(x, hub); ok {
+						e.built = append(e.built, diff(r, ref))
+					}
+				}
+			}
+		}
+	}
+}
+
+// impliedCentring: a pattern drawn centred on a datum feature's mid-plane
+// or axis is centred on it by implication (common drafting practice; ASME
+// Y14.5-2018, implied basic zero between a pattern's centre and the
+// centre plane or axis it is drawn symmetrical about, from memory): the
+// mean of its members' places along the mid-plane's normal, or across the
+// axis, is the datum's. Two holes drawn either side of a slot's mid-plane
+// and dimensioned only to each other are then located from it.
+func (e *builder) impliedCentring() {
+	var centres []*entity
+	for _, d := range e.part.Datums {
+		t := d.Target
+		if d.Broken || !t.Resolved() || t.Member == nil && len(t.Feature.Members) != 1 {
+			continue
+		}
+		k := t.Feature.Kind
+		if !(k.IsWidth() || k.IsCylinder()) {
+			continue
+		}
+		m := t.Member
+		if m == nil {
+			m = t.Feature.Members[0]
+		}
+		if x := e.byMem[m]; x != nil && !containsEnt(centres, x) {
+			centres = append(centres, x)
+		}
+	}
+	if len(centres) == 0 {
+		return
+	}
+	for _, f := range e.part.Features {
+		if !f.Pattern || len(f.Members) < 2 {
+			continue
+		}
+		ms := make([]*entity, 0, len(f.Members))
+		var c Vec
+		for _, m := range f.Members {
+			x := e.byMem[m]
+			if x == nil {
+				ms = nil
+				break
+			}
+			ms = append(ms, x)
+			c = c.Add(x.p)
+		}
+		if ms == nil {
+			continue
+		}
+		c = c.Scale(1 / float64(len(ms)))
+		for _, d := range centres {
+			dirs := d.tb // across an axis; a mid-plane's normal
+			for _, n := range dirs {
+				if math.Abs(n.Dot(c.Sub(d.p))) > e.tol {
+					continue
+				}
+				var r row
+				ok := true
+				for _, x := range ms {
+					sx, fine := e.shift(x, n)
+					if !fine {
+						ok = false
+						break
+					}
+					for _, t := range sx {
+						r = append(r, term{t.v, t.c / float64(len(ms))})
+					}
+				}
+				sd, fine := e.shift(d, n)
+				if !ok || !fine {
+					continue
+				}
+				e.built = append(e.built, diff(r, sd))
 			}
 		}
 	}
