@@ -167,6 +167,7 @@ func applySuppressions(part *model.Part, ds []Diagnostic, s *Settings) []Diagnos
 		switch {
 		case dir.Stmt < 0:
 			d.Message = "this allow comment applies to no statement: put it at the end of the statement's line or on the line directly above it"
+			d.Fixes = []Fix{{Message: "remove the allow comment (it silences nothing where it stands)", Safe: true, Edits: []Edit{removeDirective(part.Source, dir)}}}
 		case len(idle) == len(dir.Rules):
 			d.Message = fmt.Sprintf("this allow comment silences nothing: no %s finding is reported on the statement it applies to; remove it", strings.Join(dir.Rules, " or "))
 			d.Fixes = []Fix{{Message: "remove the allow comment", Safe: true, Edits: []Edit{removeDirective(part.Source, dir)}}}

@@ -66,7 +66,11 @@ type Rule struct {
 	// about (check --fix applies it) or needs review (--fix-all).
 	Fix     string
 	FixSafe bool
-	Run     func(*Pass)
+	// ReviewFix says what a second fix, one that needs review, does where
+	// a rule with a safe fix also offers one (check --fix-all takes it
+	// first).
+	ReviewFix string
+	Run       func(*Pass)
 }
 
 // FixText describes a rule's fix for documentation: what it does and how
@@ -75,6 +79,8 @@ func (r *Rule) FixText() string {
 	switch {
 	case r.Fix == "":
 		return "none"
+	case r.FixSafe && r.ReviewFix != "":
+		return r.Fix + " (safe: `check --fix` applies it); or " + r.ReviewFix + " (needs review: `check --fix-all` applies it)"
 	case r.FixSafe:
 		return r.Fix + " (safe: `check --fix` applies it)"
 	}

@@ -142,6 +142,42 @@ func (s *solve) suggestFromRef(m Missing, x *entity) (int, *Suggestion) {
 			}
 		}
 	}
+	// Otherwise: the contract's own measure between the two (a radius from
+	// an axis the part may still turn about), or an angle about a datum
+	// axis from another datum feature of the frame (a face or a hole
+	// clocked by a dowel at an angle that is not implied), where it clears.
+	for k := 0; k <= m.Ref && k < len(s.q.Refs); k++ {
+		for _, dm := range s.q.Refs[k] {
+			d := s.e.byMem[dm]
+			if d == nil || d == x || m.Kind == Angle {
+				continue
+			}
+			if v, ok := distance(d, x, nil, s.e.tol); ok && v > s.e.tol {
+				if sg := (&Suggestion{From: d.m, To: x.m, Value: v}); s.clears(sg) {
+					return k, sg
+				}
+			}
+		}
+	}
+	for k := 0; k < len(s.q.Refs); k++ {
+		for _, hm := range s.q.Refs[k] {
+			hub := s.e.byMem[hm]
+			if hub == nil || hub == x || hub.shape != axisShape {
+				continue
+			}
+			for j := 0; j < len(s.q.Refs); j++ {
+				for _, cm := range s.q.Refs[j] {
+					c := s.e.byMem[cm]
+					if c == nil || c == hub || c == x {
+						continue
+					}
+					if sg := s.e.aboutSuggestion(c, x, hub); sg != nil && s.clears(sg) {
+						return max(k, j), sg
+					}
+				}
+			}
+		}
+	}
 	return m.Ref, nil
 }
 
