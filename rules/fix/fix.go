@@ -44,7 +44,9 @@ func Select(src *source.File, ds []rules.Diagnostic, review bool) (take []Chosen
 				}
 			}
 			for _, t := range ss[:i] {
-				if s.overlaps(t) {
+				// One fix's insertions at one place go in the order it
+				// lists them; only ranges that share a byte clash.
+				if s.overlaps(t) && !(s.from == s.to && t.from == t.to) {
 					return true
 				}
 			}
@@ -97,7 +99,6 @@ func Apply(src *source.File, chosen []Chosen) []byte {
 	type edit struct {
 		from, to int
 		text     []byte
-		order    int
 	}
 	crlf := usesCRLF(src.Src)
 	var es []edit
@@ -107,7 +108,7 @@ func Apply(src *source.File, chosen []Chosen) []byte {
 			if crlf {
 				text = bytes.ReplaceAll(bytes.ReplaceAll(text, []byte("\r\n"), []byte("\n")), []byte("\n"), []byte("\r\n"))
 			}
-			es = append(es, edit{src.Offset(e.Span.Start), src.Offset(e.Span.End), text, len(es)})
+			es = append(es, edit{src.Offset(e.Span.Start), src.Offset(e.Span.End), text})
 		}
 	}
 	sort.SliceStable(es, func(i, j int) bool {

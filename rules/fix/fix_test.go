@@ -128,3 +128,18 @@ func TestLineEndsAndCanonicalLayout(t *testing.T) {
 		t.Errorf("a file that was not canonical was laid out: %q", res.Src)
 	}
 }
+
+// One fix may insert several lines at one place: they go in, in the order
+// the fix lists them, in one pass (two fixes inserting at one place wait).
+func TestOneFixInsertsInOrder(t *testing.T) {
+	src := source.NewFile("a", []byte("one\ntwo\n"))
+	at := source.Span{Start: source.Pos{Line: 2, Col: 1}, End: source.Pos{Line: 2, Col: 1}}
+	d := rules.Diagnostic{Rule: "x", Fixes: []rules.Fix{{Safe: true, Edits: []rules.Edit{{Span: at, NewText: "a\n"}, {Span: at, NewText: "b\n"}}}}}
+	take, deferred := Select(src, []rules.Diagnostic{d}, false)
+	if len(take) != 1 || deferred != 0 {
+		t.Fatalf("took %d, deferred %d", len(take), deferred)
+	}
+	if got := string(Apply(src, take)); got != "one\na\nb\ntwo\n" {
+		t.Errorf("got %q", got)
+	}
+}
