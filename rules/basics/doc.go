@@ -21,6 +21,18 @@
 // fixed exactly when it is a combination of those rows and of the datum
 // features' own variations, which the datum reference frame holds at zero.
 //
+// # Implied relations
+//
+// Implied basic zeros (axes, centres and mid-planes that coincide or line
+// up; coplanar faces) and implied 0 and 90 degree angles are rows like any
+// written dimension (ASME Y14.5-2018, implied basic relationships). They
+// hold to every datum of a frame, the direction a clocking datum feature
+// defines from a datum axis included: under A|B|C with C a hole off B's
+// axis, a face or bore square to the line from B to C, and a hole a quarter
+// turn around B from C, turn with C (impliedClocking). A pattern drawn
+// centred on a datum's mid-plane or axis is centred on it (impliedCentring;
+// common drafting practice).
+//
 // # Variables
 //
 // Each member of each feature has the variations its nominal geometry is
