@@ -219,7 +219,7 @@ func readCallouts(path string) ([]byte, error) {
 // file's mode, is synced, and is renamed over the old file. A reader sees
 // the old file or the new one, never a part of either. A symbolic link is
 // followed, so the link stays a link.
-func writeAtomic(path string, data []byte) (err error) {
+func writeAtomic(path string, data []byte) error {
 	target, err := filepath.EvalSymlinks(path)
 	if err != nil {
 		return err
@@ -231,6 +231,12 @@ func writeAtomic(path string, data []byte) (err error) {
 	if !st.Mode().IsRegular() {
 		return errors.New("not a regular file")
 	}
+	return replaceFile(target, data, st.Mode().Perm())
+}
+
+// replaceFile writes data to a temporary file beside target with the mode
+// perm, syncs it and renames it over target.
+func replaceFile(target string, data []byte, perm os.FileMode) (err error) {
 	tmp, err := os.CreateTemp(filepath.Dir(target), "."+filepath.Base(target)+".*.tmp")
 	if err != nil {
 		return err
@@ -241,7 +247,7 @@ func writeAtomic(path string, data []byte) (err error) {
 			os.Remove(tmp.Name())
 		}
 	}()
-	if err = tmp.Chmod(st.Mode().Perm()); err != nil {
+	if err = tmp.Chmod(perm); err != nil {
 		return err
 	}
 	if _, err = tmp.Write(data); err != nil {

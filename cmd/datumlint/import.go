@@ -114,31 +114,9 @@ func sameFile(a, b string) bool {
 // writeFileAtomic writes a file through a temporary file in its folder
 // and a rename, so that a reader never sees it half written: an existing
 // file keeps its mode (writeAtomic), a new one is made 0644.
-func writeFileAtomic(path string, data []byte) (err error) {
+func writeFileAtomic(path string, data []byte) error {
 	if _, err := os.Lstat(path); err == nil {
 		return writeAtomic(path, data)
 	}
-	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".*.tmp")
-	if err != nil {
-		return err
-	}
-	defer func() {
-		if err != nil {
-			tmp.Close()
-			os.Remove(tmp.Name())
-		}
-	}()
-	if err = tmp.Chmod(0o644); err != nil {
-		return err
-	}
-	if _, err = tmp.Write(data); err != nil {
-		return err
-	}
-	if err = tmp.Sync(); err != nil {
-		return err
-	}
-	if err = tmp.Close(); err != nil {
-		return err
-	}
-	return os.Rename(tmp.Name(), path)
+	return replaceFile(path, data, 0o644)
 }
