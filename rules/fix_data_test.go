@@ -34,10 +34,7 @@ func TestFixData(t *testing.T) {
 				t.Fatal(err)
 			}
 			s := settingsFor(t, f, src)
-			check := func(name string, src []byte) ([]rules.Diagnostic, *source.File) {
-				p := grammar.Read(name, src)
-				return rules.Check(p, s), p.Source
-			}
+			check := checker(s)
 			before, _ := check(f, src)
 			checkWants(t, f, src, before)
 			for _, d := range before {
@@ -89,5 +86,14 @@ func TestFixData(t *testing.T) {
 				t.Error("the fixed file is empty")
 			}
 		})
+	}
+}
+
+// checker is what rules/fix re-checks a text with: the notation's reader
+// and the rules with the settings.
+func checker(s *rules.Settings) fix.Checker {
+	return func(name string, src []byte) ([]rules.Diagnostic, *source.File) {
+		p := grammar.Read(name, src)
+		return rules.Check(p, s), p.Source
 	}
 }

@@ -7,8 +7,6 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/datumlint/datumlint/grammar"
-	"github.com/datumlint/datumlint/grammar/source"
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/fix"
 )
@@ -27,10 +25,7 @@ func FuzzFixes(f *testing.F) {
 		return nil
 	})
 	f.Add([]byte("units mm\nstandard asme-2018\nfeature b hole size 2 +-0.1 axis +z at (0,0,0)\nframe b: position 0.1  # datumlint: allow datum-unused, zone-shape -- x\n"))
-	check := func(name string, src []byte) ([]rules.Diagnostic, *source.File) {
-		p := grammar.Read(name, src)
-		return rules.Check(p, nil), p.Source
-	}
+	check := checker(nil)
 	f.Fuzz(func(t *testing.T, src []byte) {
 		before, _ := check("f.callouts", src)
 		for _, d := range before {
