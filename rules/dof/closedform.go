@@ -1,9 +1,11 @@
 package dof
 
-// Closed forms for the commonest single surface, a plane, used where the
-// engine would otherwise run SVDs whose answer is certain: the invariance
-// of one datum plane before any other reference (Analyze's first step)
-// and the location zone of one plane (PrepareZone). The spaces are the
+// Closed forms for the commonest single surface, a plane, and the
+// commonest zone of several, a pattern of parallel holes or pins, used
+// where the engine would otherwise run SVDs whose answer is certain: the
+// invariance of one datum plane before any other reference (Analyze's
+// first step), the location zone of one plane and that of a pattern
+// (PrepareZone). The spaces are the
 // same as the SVDs', to rounding; the bases differ by a rotation within
 // them, which no count, name or twist depends on (the names and twists are
 // chosen from the subspaces: see readableSplit and pick). The differential
@@ -46,4 +48,49 @@ func planeSpaces(f Frame, s Surface) (z, zPerp space, sp split, ok bool) {
 		vals:  []float64{1},
 	}
 	return z, zPerp, sp, true
+}
+
+// minSpread is the least distance across their common axis direction, in
+// part sizes, at which parallelCylinders answers for a pattern's members.
+const minSpread = 1e-2
+
+// parallelCylinders returns, for the location zone of two or more valid
+// cylinders with one axis direction d (a pattern of holes or pins), not
+// all on one line, within farPoint part sizes of the part's centre, an
+// orthonormal basis of the motions that move it: everything but the slide
+// along d (ISO 5459:2011: parallel cylinders are invariant only under a
+// translation along their common direction, the prismatic class of their
+// section). In normalised twists:
+//
+//	Z  = span{(0, d)}
+//	Z⊥ = span{(e1, 0), (e2, 0), (e3, 0), (0, t1), (0, t2)}
+//
+// The SVD finds rank 5 with certainty: a rotation across d moves each axis
+// by its lever arm, and about d moves one axis by its distance from
+// another, at least minSpread, far above rankTol; the translations across
+// d move every axis by themselves. ok is false otherwise.
+func parallelCylinders(f Frame, ss []Surface) (space, bool) {
+	if len(ss) < 2 || ss[0].Class != Cylinder || !ss[0].Valid() {
+		return nil, false
+	}
+	d := unit(ss[0].Dir)
+	p0 := f.point(ss[0].Point)
+	spread := 0.0
+	for _, s := range ss {
+		if s.Class != Cylinder || !s.Valid() || norm(cross(unit(s.Dir), d)) > 1e-12 {
+			return nil, false
+		}
+		p := f.point(s.Point)
+		if norm(p) > farPoint {
+			return nil, false
+		}
+		w := sub(p, p0)
+		spread = max(spread, norm(cross(w, d)))
+	}
+	if spread < minSpread {
+		return nil, false
+	}
+	t1, t2 := perpendiculars(d)
+	six := func(w, v Vec) []float64 { return []float64{w[0], w[1], w[2], v[0], v[1], v[2]} }
+	return space{six(Vec{1, 0, 0}, Vec{}), six(Vec{0, 1, 0}, Vec{}), six(Vec{0, 0, 1}, Vec{}), six(Vec{}, t1), six(Vec{}, t2)}, true
 }

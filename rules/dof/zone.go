@@ -78,6 +78,11 @@ func (f Frame) PrepareZone(z Zone) *PreparedZone {
 			return &PreparedZone{frame: f, zone: z, moving: rows}
 		}
 	}
+	if len(z.Extra) == 0 && !z.OrientationOnly {
+		if rows, ok := parallelCylinders(f, z.Surfaces); ok {
+			return &PreparedZone{frame: f, zone: z, moving: rows}
+		}
+	}
 	rows := make([]float64, 0, 6*6*len(z.Surfaces)) // six numbers a row
 	for _, s := range z.Surfaces {
 		rows = s.appendConditions(rows, f)
