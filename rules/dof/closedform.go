@@ -1,11 +1,13 @@
 package dof
 
-// Closed forms for the commonest single surface, a plane, and the
-// commonest zone of several, a pattern of parallel holes or pins, used
-// where the engine would otherwise run SVDs whose answer is certain: the
-// invariance of one datum plane before any other reference (Analyze's
-// first step), the location zone of one plane and that of a pattern
-// (PrepareZone). The spaces are the
+import "math"
+
+// Closed forms for the commonest single surfaces, a plane and a hole's or
+// pin's axis, and the commonest zone of several, a pattern of parallel
+// holes or pins, used where the engine would otherwise run SVDs whose
+// answer is certain: the invariance of one datum plane before any other
+// reference (Analyze's first step), the location zone of one plane, of one
+// hole or pin and that of a pattern (PrepareZone). The spaces are the
 // same as the SVDs', to rounding; the bases differ by a rotation within
 // them, which no count, name or twist depends on (the names and twists are
 // chosen from the subspaces: see readableSplit and pick). The differential
@@ -93,4 +95,56 @@ func parallelCylinders(f Frame, ss []Surface) (space, bool) {
 	t1, t2 := perpendiculars(d)
 	six := func(w, v Vec) []float64 { return []float64{w[0], w[1], w[2], v[0], v[1], v[2]} }
 	return space{six(Vec{1, 0, 0}, Vec{}), six(Vec{0, 1, 0}, Vec{}), six(Vec{0, 0, 1}, Vec{}), six(Vec{}, t1), six(Vec{}, t2)}, true
+}
+
+// cylinderRows returns, for a valid cylinder (axis d through p) within
+// farPoint part sizes of the part's centre, an orthonormal basis of the
+// motions that move its location zone: the span of its four conditions
+// (Surface.conditions), by Gram-Schmidt on them in their own order. With
+// t1, t2 as there and ci = (p×ti)·d, the conditions are
+//
+//	(t1, 0), (t2, 0), (p×t1, t1), (p×t2, t2)
+//
+// and the last two less their parts along the first two are (c1 d, t1) and
+// (c2 d, t2), already orthogonal to (t1, 0) and (t2, 0); of these two the
+// second less its part along the first is what remains. The cylinder's
+// invariance, the rest of R^6, is the turn about its axis and the slide
+// along it (ISO 5459:2011, the cylindrical class). The SVD of the
+// conditions finds rank 4 with certainty for such a cylinder: as for a
+// plane (planeSpaces) their matrix is block lower triangular with
+// orthonormal diagonal blocks and an off-diagonal block of norm at most
+// |p| ≤ farPoint, so its smallest singular value is at least
+// 1/(1 + farPoint) ≈ 0.02, far above rankTol; the rows it keeps span the
+// same space as these. ok is false otherwise.
+func cylinderRows(f Frame, s Surface) (rows [][]float64, ok bool) {
+	if s.Class != Cylinder || !s.Valid() {
+		return nil, false
+	}
+	p := f.point(s.Point)
+	if norm(p) > farPoint {
+		return nil, false
+	}
+	d := unit(s.Dir)
+	t1, t2 := perpendiculars(d)
+	pt1, pt2 := cross(p, t1), cross(p, t2)
+	c1, c2 := dot(pt1[:], d[:]), dot(pt2[:], d[:])
+	out := vectors(4, 6)
+	copy(out[0], t1[:])
+	copy(out[1], t2[:])
+	// (c1 d, t1), normalised
+	n3 := math.Sqrt(1 + c1*c1)
+	for i := range 3 {
+		out[2][i], out[2][3+i] = c1*d[i]/n3, t1[i]/n3
+	}
+	// (c2 d, t2) less its part along the third row, normalised
+	k := c1 * c2 / n3 // (c2 d, t2)·row 3
+	r := out[3]
+	for i := range 3 {
+		r[i], r[3+i] = c2*d[i]-k*out[2][i], t2[i]-k*out[2][3+i]
+	}
+	n4 := math.Sqrt(dot(r, r))
+	for i := range r {
+		r[i] /= n4
+	}
+	return out, true
 }

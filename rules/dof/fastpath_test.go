@@ -172,7 +172,7 @@ func SameMotions(f Frame, a, b []Motion) bool {
 func TestFastMatchesReferenceOnRandomFrames(t *testing.T) {
 	rng := rand.New(rand.NewPCG(2011, 5459))
 	n := longtest.N(2000, 20000)
-	closed := 0
+	closed, cylinders := 0, 0
 	for range n {
 		sc := randomScenario(rng)
 		sameAsReference(t, sc)
@@ -184,10 +184,18 @@ func TestFastMatchesReferenceOnRandomFrames(t *testing.T) {
 				closed++
 			}
 		}
+		if z := sc.zone; !z.OrientationOnly && len(z.Surfaces) == 1 && len(z.Extra) == 0 {
+			if _, ok := cylinderRows(sc.frame.sanitized(), z.Surfaces[0]); ok {
+				cylinders++
+			}
+		}
 	}
-	t.Logf("%d of %d random zones took turningRows' closed form", closed, n)
+	t.Logf("%d of %d random zones took turningRows' closed form, %d cylinderRows'", closed, n, cylinders)
 	if closed < n/200 {
 		t.Errorf("only %d of %d random zones took turningRows' closed form; the test no longer exercises it", closed, n)
+	}
+	if cylinders < n/200 {
+		t.Errorf("only %d of %d random zones took cylinderRows' closed form; the test no longer exercises it", cylinders, n)
 	}
 }
 
@@ -311,6 +319,49 @@ func TestNamesIgnoreRoundingNoise(t *testing.T) {
 		d := unit(Vec{nominal(), nominal(), 1})
 		if a, b := f.Name(Twist{V: d}), f.Name(Twist{V: Vec{nudge(d[0]), nudge(d[1]), nudge(d[2])}}); a != b {
 			t.Fatalf("the direction %v names as %q, and %q a few units in the last place away", d, a, b)
+		}
+	}
+}
+
+// TestCylinderRowsSpanTheConditions holds cylinderRows to the SVD it
+// replaces on random cylinders out to farPoint: four orthonormal rows, each
+// within rounding of the span of the SVD's rows, so both span one space.
+func TestCylinderRowsSpanTheConditions(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5459, 4))
+	f := Frame{Center: Vec{10, -20, 5}, Scale: 80}
+	for i := range 2000 {
+		d := Vec{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}
+		if i%4 == 0 {
+			d = Vec{0, 0, 1}
+		}
+		r := farPoint * f.Scale * rng.Float64() / 2 // a normalised |p| within farPoint
+		p := add(f.Center, scale(unit(Vec{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}), r))
+		s := Surface{Class: Cylinder, Dir: d, Point: p}
+		rows, ok := cylinderRows(f, s)
+		if !ok {
+			t.Fatalf("%+v: no closed form", s)
+		}
+		_, svd := nullAndRowSpaceFlat(s.appendConditions(nil, f), 6)
+		if len(rows) != 4 || len(svd) != 4 {
+			t.Fatalf("%+v: %d rows, the SVD %d", s, len(rows), len(svd))
+		}
+		for a, x := range rows {
+			for b, y := range rows {
+				want := 0.0
+				if a == b {
+					want = 1
+				}
+				if math.Abs(dot(x, y)-want) > 1e-12 {
+					t.Fatalf("%+v: rows %d and %d have product %g", s, a, b, dot(x, y))
+				}
+			}
+			in := 0.0
+			for _, y := range svd {
+				in += dot(x, y) * dot(x, y)
+			}
+			if math.Abs(in-1) > 1e-12 {
+				t.Fatalf("%+v: row %d lies %g outside the SVD's span", s, a, 1-in)
+			}
 		}
 	}
 }

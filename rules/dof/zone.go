@@ -76,6 +76,8 @@ func (f Frame) PrepareZone(z Zone) *PreparedZone {
 			}
 		} else if _, rows, _, ok := planeSpaces(f, z.Surfaces[0]); ok {
 			return &PreparedZone{frame: f, zone: z, moving: rows}
+		} else if rows, ok := cylinderRows(f, z.Surfaces[0]); ok {
+			return &PreparedZone{frame: f, zone: z, moving: rows}
 		}
 	}
 	if len(z.Extra) == 0 && !z.OrientationOnly {
