@@ -76,7 +76,10 @@ func Parse(name string, src []byte) *File {
 			})
 		}
 	}
-	for _, rs := range splitStatements(lines) {
+	raws := splitStatements(lines)
+	f.Stmts = make([]Stmt, 0, len(raws))
+	f.Extents = make([]Extent, 0, len(raws))
+	for _, rs := range raws {
 		st := parseStmt(name, rs)
 		f.Stmts = append(f.Stmts, st)
 		f.Extents = append(f.Extents, Extent{rs.first, rs.last})

@@ -1,7 +1,6 @@
 package grammar
 
 import (
-	"bytes"
 	"strings"
 	"unicode/utf8"
 )
@@ -25,31 +24,33 @@ type physLine struct {
 }
 
 // splitLines cuts src into physical lines, separating code from comments.
-// A '#' inside a string literal does not start a comment.
+// A '#' inside a string literal does not start a comment. The lines' texts
+// are cut from one copy of src, not copied one by one.
 func splitLines(src []byte) []physLine {
-	var out []physLine
+	text := string(src)
+	out := make([]physLine, 0, strings.Count(text, "\n")+1)
 	num, off := 0, 0
-	for off <= len(src) {
-		end := bytes.IndexByte(src[off:], '\n')
-		var raw []byte
+	for off <= len(text) {
+		end := strings.IndexByte(text[off:], '\n')
+		var raw string
 		next := 0
 		if end < 0 {
-			raw = src[off:]
-			next = len(src) + 1
+			raw = text[off:]
+			next = len(text) + 1
 		} else {
-			raw = src[off : off+end]
+			raw = text[off : off+end]
 			next = off + end + 1
 		}
 		num++
-		raw = bytes.TrimSuffix(raw, []byte{'\r'})
+		raw = strings.TrimSuffix(raw, "\r")
 		line := physLine{num: num, offset: off}
 		cut := commentStart(raw)
 		if cut >= 0 {
-			line.code = string(raw[:cut])
-			line.comment = string(raw[cut:])
-			line.cmtCol = utf8.RuneCount(raw[:cut]) + 1
+			line.code = raw[:cut]
+			line.comment = raw[cut:]
+			line.cmtCol = utf8.RuneCountInString(raw[:cut]) + 1
 		} else {
-			line.code = string(raw)
+			line.code = raw
 		}
 		out = append(out, line)
 		if end < 0 {
@@ -64,7 +65,7 @@ func splitLines(src []byte) []physLine {
 	return out
 }
 
-func commentStart(b []byte) int {
+func commentStart(b string) int {
 	inString := false
 	for i := 0; i < len(b); i++ {
 		switch c := b[i]; {
@@ -106,18 +107,18 @@ func continues(code string) (string, bool) {
 // splitStatements groups physical lines into statements: a backslash at the
 // end of a line continues the statement, and a line that starts with
 // "composite" joins the statement above it (the frame it belongs to), even
-// across blank and comment lines.
+// across blank and comment lines. A statement of one line is that line's
+// code, not a copy of it; only statements of several lines are built.
 func splitStatements(lines []physLine) []rawStmt {
-	var out []rawStmt
+	out := make([]rawStmt, 0, len(lines))
 	var cur *rawStmt
-	var buf strings.Builder
+	var text stmtText
 	open := false // the current statement continues onto the next line
 	flush := func() {
 		if cur != nil {
-			cur.text = buf.String()
+			cur.text = text.String()
 			out = append(out, *cur)
 			cur = nil
-			buf.Reset()
 		}
 	}
 	for _, ln := range lines {
@@ -126,11 +127,7 @@ func splitStatements(lines []physLine) []rawStmt {
 		switch {
 		case open && cur != nil:
 			// continuation line: always part of the current statement
-			for i := cur.last + 1; i < ln.num; i++ {
-				buf.WriteByte('\n')
-			}
-			buf.WriteByte('\n')
-			buf.WriteString(code)
+			text.addLine(ln.num-cur.last, code)
 			cur.last = ln.num
 		case blank:
 			continue
@@ -140,29 +137,58 @@ func splitStatements(lines []physLine) []rawStmt {
 				prev := out[len(out)-1]
 				out = out[:len(out)-1]
 				cur = &prev
-				buf.WriteString(prev.text)
+				text.start(prev.text)
 			}
-			for i := cur.last + 1; i < ln.num; i++ {
-				buf.WriteByte('\n')
-			}
-			buf.WriteByte('\n')
-			buf.WriteString(code)
+			text.addLine(ln.num-cur.last, code)
 			cur.last = ln.num
 		default:
 			flush()
 			cur = &rawStmt{first: ln.num, last: ln.num, offset: ln.offset}
-			buf.WriteString(code)
+			text.start(code)
 		}
 		open = cont
 		if !cont {
 			// keep cur open: a composite line may still join it
-			out = append(out, rawStmt{first: cur.first, last: cur.last, offset: cur.offset, text: buf.String()})
+			out = append(out, rawStmt{first: cur.first, last: cur.last, offset: cur.offset, text: text.String()})
 			cur = nil
-			buf.Reset()
 		}
 	}
 	flush()
 	return out
+}
+
+// stmtText is the text of the statement being grouped: the one line's
+// code as it is, or the lines joined in a builder once there are several.
+type stmtText struct {
+	one   string
+	many  strings.Builder
+	multi bool
+}
+
+func (t *stmtText) start(code string) {
+	t.one, t.multi = code, false
+	t.many.Reset()
+}
+
+// addLine adds code on the line step lines below the last one added, each
+// line between them kept as an empty line.
+func (t *stmtText) addLine(step int, code string) {
+	if !t.multi {
+		t.multi = true
+		t.many.Reset()
+		t.many.WriteString(t.one)
+	}
+	for range step {
+		t.many.WriteByte('\n')
+	}
+	t.many.WriteString(code)
+}
+
+func (t *stmtText) String() string {
+	if t.multi {
+		return t.many.String()
+	}
+	return t.one
 }
 
 func startsFrame(text string) bool {
