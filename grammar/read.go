@@ -318,8 +318,14 @@ func (r *resolver) feature(s *FeatureStmt) *model.Feature {
 			ft.DirDecimals = decimals(g.Dir.Vector)
 		}
 	}
-	for i, pt := range g.Points {
-		ft.Members = append(ft.Members, &model.Member{Feature: ft, Index: i + 1, Point: r.vec(pt), Decimals: decimals(pt), Span: pt.Span()})
+	if len(g.Points) > 0 {
+		// The members in one allocation, and their pointers in another.
+		ms := make([]model.Member, len(g.Points))
+		ft.Members = make([]*model.Member, len(g.Points))
+		for i, pt := range g.Points {
+			ms[i] = model.Member{Feature: ft, Index: i + 1, Point: r.vec(pt), Decimals: decimals(pt), Span: pt.Span()}
+			ft.Members[i] = &ms[i]
+		}
 	}
 	switch {
 	case g.Word.Value == "between":
@@ -700,9 +706,16 @@ func (r *resolver) datumRef(d *DatumRef) *model.DatumRef {
 		}
 		return l, sp
 	}
+	// Every letter's slices in one allocation each.
+	n := strings.Count(d.Name, "-") + 1
+	for _, m := range d.More {
+		n += strings.Count(strings.TrimPrefix(m.Name, "-"), "-") + 1
+	}
+	ref.Letters, ref.Datums = make([]string, 0, n), make([]*model.Datum, 0, n)
+	ref.Materials, ref.MatSpans = make([]string, 0, n), make([]source.Span, 0, n)
 	part := func(name string, ms []*RefModifier) {
 		mat, sp := material(ms)
-		for _, l := range strings.Split(name, "-") {
+		for l := range strings.SplitSeq(name, "-") {
 			if l == "" {
 				r.errorf(d.Span(), "'%s' is not a datum reference: a common datum joins two letters, e.g. A-B", d.Name)
 				continue

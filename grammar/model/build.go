@@ -63,7 +63,12 @@ func (p *Part) AddDatum(d *Datum) {
 // NAME.N. The target is recorded in Refs, resolved or not; an unresolved
 // one says why in Problem.
 func (p *Part) Lookup(name string, sp source.Span) *Target {
-	t := &Target{Name: name, Span: sp}
+	if len(p.targets) == 0 {
+		p.targets = make([]Target, 32)
+	}
+	t := &p.targets[0]
+	p.targets = p.targets[1:]
+	*t = Target{Name: name, Span: sp}
 	p.Refs = append(p.Refs, t)
 	if ft := p.byName[name]; ft != nil {
 		t.Feature = ft

@@ -596,6 +596,11 @@ type Part struct {
 	framesOn map[*Feature][]*Frame
 	datumsOn map[*Feature][]*Datum
 	widthOf  map[*Feature]*Feature
+
+	// targets is where Lookup takes its next Target from: a file names
+	// hundreds, and one allocation for each was a good part of reading
+	// one.
+	targets []Target
 }
 
 // FirstStatement returns the span of the first line of the file's first

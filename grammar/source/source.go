@@ -8,6 +8,7 @@
 package source
 
 import (
+	"bytes"
 	"fmt"
 	"sort"
 	"unicode/utf8"
@@ -80,11 +81,14 @@ func NewFile(name string, src []byte) *File { return &File{Name: name, Src: src}
 
 func (f *File) index() []int {
 	if f.starts == nil {
-		f.starts = append(make([]int, 0, 64), 0)
-		for i, b := range f.Src {
-			if b == '\n' {
-				f.starts = append(f.starts, i+1)
+		f.starts = append(make([]int, 0, bytes.Count(f.Src, []byte{'\n'})+1), 0)
+		for i := 0; ; {
+			j := bytes.IndexByte(f.Src[i:], '\n')
+			if j < 0 {
+				break
 			}
+			i += j + 1
+			f.starts = append(f.starts, i)
 		}
 	}
 	return f.starts
@@ -150,6 +154,10 @@ func (f *File) Offset(p Pos) int {
 		end--
 	}
 	for col := 1; col < p.Col && off < end; col++ {
+		if f.Src[off] < utf8.RuneSelf {
+			off++ // what DecodeRune gives for ASCII
+			continue
+		}
 		_, n := utf8.DecodeRune(f.Src[off:end])
 		off += n
 	}
