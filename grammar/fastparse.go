@@ -96,6 +96,20 @@ type fastParser struct {
 // character no token rule matches ends the statement as not handled.
 func (p *fastParser) scan() {
 	for p.i < len(p.text) {
+		// Spaces and tabs before a token on the same line, the commonest
+		// whitespace: what scanNext and advance give for it, without them.
+		if c := p.text[p.i]; c == ' ' || c == '\t' {
+			j := p.i + 1
+			for j < len(p.text) && (p.text[j] == ' ' || p.text[j] == '\t') {
+				j++
+			}
+			if j == len(p.text) || !isRESpace(p.text[j]) && p.text[j] != '\v' {
+				p.pos.Offset += j - p.i
+				p.pos.Column += j - p.i
+				p.i = j
+				continue
+			}
+		}
 		typ, e := scanNext(p.text, p.i)
 		if e <= p.i {
 			p.failed = true

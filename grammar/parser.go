@@ -152,6 +152,11 @@ func lexStmt(name string, rs rawStmt) (all []lexer.Token, sig []token, eof lexer
 func badText(rs rawStmt) *SyntaxError {
 	line, col := rs.first, 1
 	for i := 0; i < len(rs.text); {
+		if c := rs.text[i]; c >= 0x20 && c < utf8.RuneSelf {
+			i++ // printable ASCII, the whole of most files
+			col++
+			continue
+		}
 		r, w := utf8.DecodeRuneInString(rs.text[i:])
 		switch {
 		case r == '\n':
