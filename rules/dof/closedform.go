@@ -35,9 +35,14 @@ func planeSpaces(f Frame, s Surface) (z, zPerp space, sp split, ok bool) {
 	}
 	d := unit(s.Dir)
 	t1, t2 := perpendiculars(d)
-	six := func(w, v Vec) []float64 { return []float64{w[0], w[1], w[2], v[0], v[1], v[2]} }
-	z = space{six(d, Vec{}), six(Vec{}, t1), six(Vec{}, t2)}
-	zPerp = space{six(t1, Vec{}), six(t2, Vec{}), six(Vec{}, d)}
+	rows := vectors(6, 6) // one allocation for both bases
+	six := func(i int, w, v Vec) []float64 {
+		copy(rows[i], w[:])
+		copy(rows[i][3:], v[:])
+		return rows[i]
+	}
+	z = space{six(0, d, Vec{}), six(1, Vec{}, t1), six(2, Vec{}, t2)}
+	zPerp = space{six(3, t1, Vec{}), six(4, t2, Vec{}), six(5, Vec{}, d)}
 	// The rotation parts of Z's basis are d, 0, 0: one rotation direction
 	// d (singular value 1, reached by the first basis vector), and the
 	// translations t1, t2 of the other two.
@@ -93,8 +98,11 @@ func parallelCylinders(f Frame, ss []Surface) (space, bool) {
 		return nil, false
 	}
 	t1, t2 := perpendiculars(d)
-	six := func(w, v Vec) []float64 { return []float64{w[0], w[1], w[2], v[0], v[1], v[2]} }
-	return space{six(Vec{1, 0, 0}, Vec{}), six(Vec{0, 1, 0}, Vec{}), six(Vec{0, 0, 1}, Vec{}), six(Vec{}, t1), six(Vec{}, t2)}, true
+	rows := vectors(5, 6)
+	rows[0][0], rows[1][1], rows[2][2] = 1, 1, 1
+	copy(rows[3][3:], t1[:])
+	copy(rows[4][3:], t2[:])
+	return rows, true
 }
 
 // cylinderRows returns, for a valid cylinder (axis d through p) within

@@ -4,6 +4,7 @@ import (
 	"encoding/binary"
 	"math"
 	"math/rand/v2"
+	"reflect"
 	"strconv"
 	"strings"
 	"testing"
@@ -121,9 +122,19 @@ func sameAsReference(t *testing.T, sc scenario) {
 	if !SameMotions(sc.frame, d.Free(), ref.Free) {
 		t.Fatalf("%+v: free %v, reference %v", sc, d.Free(), ref.Free)
 	}
+	// The same references analysed one at a time by Extend give the same
+	// analysis, bit for bit.
+	x := sc.frame.Analyze(nil)
+	for _, r := range sc.refs {
+		x = x.Extend(r)
+	}
+	if !reflect.DeepEqual(x.Steps(), steps) || !reflect.DeepEqual(x.Free(), d.Free()) {
+		t.Fatalf("%+v: extended step by step, %+v and %v; analysed at once, %+v and %v", sc, x.Steps(), x.Free(), steps, d.Free())
+	}
 	got := map[string]ZoneResult{
 		"Zone":     d.Zone(sc.zone),
 		"prepared": d.ZoneIn(sc.frame.PrepareZone(sc.zone)),
+		"extended": x.ZoneIn(sc.frame.PrepareZone(sc.zone)),
 	}
 	for how, z := range got {
 		if !sameZoneResult(sc.frame, z, want) {

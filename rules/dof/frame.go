@@ -111,45 +111,76 @@ func (f Frame) Analyze(refs []Datum) *DRF {
 		splits: make([]split, 1, len(refs)+1),
 		steps:  make([]Step, 0, len(refs)),
 	}
-	free, sp := identity(6), wholeSplit()
-	d.spaces[0], d.splits[0] = free, sp
+	d.spaces[0], d.splits[0] = identity(6), wholeSplit()
 	var rows []float64 // six numbers a row
-	for k, ref := range refs {
-		var next space
-		var nsp split
-		ok := false
-		if k == 0 && len(ref) == 1 {
-			// A single plane first: its invariance in closed form.
-			next, _, nsp, ok = planeSpaces(f, ref[0])
-		}
-		if !ok {
-			rows = rows[:0]
-			for _, s := range ref {
-				rows = s.appendConditions(rows, f)
-			}
-			next = restrictFlat(free, rows)
-			// Each space is split once and the split reused for every
-			// name and zone that needs it (splitSpace is a pure function
-			// of the space, so this changes no answer).
-			nsp = splitSpace(next)
-		}
-		d.steps = append(d.steps, Step{
-			Constrains: len(free) - len(next),
-			Removed:    f.readableSplit(sp, nsp),
-			Free:       f.readableSplit(nsp, split{}),
-		})
-		free, sp = next, nsp
-		d.spaces = append(d.spaces, free)
-		d.splits = append(d.splits, sp)
+	for _, ref := range refs {
+		rows = d.step(ref, rows)
 	}
+	d.finish()
+	return d
+}
+
+// Extend returns the analysis of d's references followed by ref: what
+// Analyze of them all returns, step for step (each step depends only on
+// the space and split before it and on its own reference), with d's steps
+// shared and d unchanged. A part whose frames reference A, then A, B, then
+// A, B, C analyses A once.
+func (d *DRF) Extend(ref Datum) *DRF {
+	d = d.orDefault()
+	n := len(d.steps)
+	e := &DRF{
+		frame:  d.frame,
+		spaces: append(make([]space, 0, n+2), d.spaces...),
+		splits: append(make([]split, 0, n+2), d.splits...),
+		steps:  append(make([]Step, 0, n+1), d.steps...),
+	}
+	e.step(ref, nil)
+	e.finish()
+	return e
+}
+
+// step adds the analysis of the next reference; rows is scratch, returned
+// for the next step.
+func (d *DRF) step(ref Datum, rows []float64) []float64 {
+	f := d.frame
+	k := len(d.steps)
+	free, sp := d.spaces[k], d.splits[k]
+	var next space
+	var nsp split
+	ok := false
+	if k == 0 && len(ref) == 1 {
+		// A single plane first: its invariance in closed form.
+		next, _, nsp, ok = planeSpaces(f, ref[0])
+	}
+	if !ok {
+		rows = rows[:0]
+		for _, s := range ref {
+			rows = s.appendConditions(rows, f)
+		}
+		next = restrictFlat(free, rows)
+		// Each space is split once and the split reused for every
+		// name and zone that needs it (splitSpace is a pure function
+		// of the space, so this changes no answer).
+		nsp = splitSpace(next)
+	}
+	d.steps = append(d.steps, Step{
+		Constrains: len(free) - len(next),
+		Removed:    f.readableSplit(sp, nsp),
+		Free:       f.readableSplit(nsp, split{}),
+	})
+	d.spaces = append(d.spaces, next)
+	d.splits = append(d.splits, nsp)
+	return rows
+}
+
+// finish sets the frame's freedom, the last step's, named the same way;
+// a copy, so that a caller changing one cannot change the other.
+func (d *DRF) finish() {
 	if n := len(d.steps); n > 0 {
-		// The frame's freedom is the last step's, named the same way; a
-		// copy, so that a caller changing one cannot change the other.
 		d.free = slices.Clone(d.steps[n-1].Free)
 	} else {
-		d.free = f.readableSplit(sp, split{})
+		d.free = d.frame.readableSplit(d.splits[0], split{})
 	}
-	return d
 }
 
 // orDefault lets a nil *DRF behave as a frame with no references.

@@ -58,7 +58,7 @@ func pick(a, covered [][3]float64) [][3]float64 {
 			q = append(q, scale(r, 1/n))
 		}
 	}
-	var chosen [][3]float64
+	chosen := make([][3]float64, 0, need)
 	axes := [3]Vec{{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}
 	for _, e := range axes {
 		if len(chosen) == need {

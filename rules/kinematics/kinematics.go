@@ -267,17 +267,22 @@ func RefsKey(refs []*model.DatumRef) string {
 	return strings.Join(parts, ",")
 }
 
-// DRF analyses a reference list, once per distinct list per part.
+// DRF analyses a reference list, once per distinct list per part, as the
+// analysis of the list without its last reference extended by that
+// reference (dof.DRF.Extend: the same steps as analysing the whole list),
+// so that the frames of a part analyse A, A, B and A, B, C with one
+// analysis of A.
 func (r *Result) DRF(refs []*model.DatumRef) *dof.DRF {
 	key := RefsKey(refs)
 	if d, ok := r.drfs[key]; ok {
 		return d
 	}
-	ds := make([]dof.Datum, len(refs))
-	for i, ref := range refs {
-		ds[i] = RefSurfaces(ref)
+	var d *dof.DRF
+	if n := len(refs); n == 0 {
+		d = r.frame.Analyze(nil)
+	} else {
+		d = r.DRF(refs[:n-1]).Extend(RefSurfaces(refs[n-1]))
 	}
-	d := r.frame.Analyze(ds)
 	r.drfs[key] = d
 	return d
 }
