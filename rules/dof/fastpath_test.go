@@ -376,3 +376,69 @@ func TestCylinderRowsSpanTheConditions(t *testing.T) {
 		}
 	}
 }
+
+// TestGramCountMatchesTheSVD holds gramCount to the SVD it stands in for
+// (the dimension restrict removes) on random orthonormal spaces and rows,
+// a third of them built to have a singular value near rankTol: at it, it
+// must leave the decision to the SVD, and away from it agree.
+func TestGramCountMatchesTheSVD(t *testing.T) {
+	rng := rand.New(rand.NewPCG(8, 5))
+	randomSpace := func(k, n int) space {
+		var vs [][]float64
+		for range k {
+			v := make([]float64, n)
+			for i := range v {
+				v[i] = rng.NormFloat64()
+			}
+			vs = append(vs, v)
+		}
+		return orth(vs, n)
+	}
+	answered, near := 0, 0
+	for range 20000 {
+		n := 6
+		if rng.IntN(3) == 0 {
+			n = 3
+		}
+		f := randomSpace(2+rng.IntN(n-2), n)
+		rows := randomSpace(1+rng.IntN(n-1), n)
+		if rng.IntN(3) == 0 {
+			// rows orthogonal to f but for one, which leans into f by a
+			// singular value near rankTol
+			var w [][]float64
+			for _, r := range rows {
+				c := append([]float64(nil), r...)
+				for _, v := range f {
+					d := dot(c, v)
+					for i := range c {
+						c[i] -= d * v[i]
+					}
+				}
+				w = append(w, c)
+			}
+			rows = orth(w, n)
+			if len(rows) == 0 {
+				continue
+			}
+			sigma := rankTol * (1 + (rng.Float64()-0.5)*1e-2)
+			r := rows[0]
+			for i := range r {
+				r[i] = math.Sqrt(1-sigma*sigma)*r[i] + sigma*f[0][i]
+			}
+		}
+		want := len(f) - len(restrict(f, rows))
+		got, ok := gramCount(f, rows)
+		if !ok {
+			near++
+			continue
+		}
+		answered++
+		if got != want {
+			t.Fatalf("gramCount %d, the SVD %d (f %v, rows %v)", got, want, f, rows)
+		}
+	}
+	t.Logf("%d answered, %d left to the SVD", answered, near)
+	if answered < 10000 || near == 0 {
+		t.Errorf("%d answered, %d left to the SVD: the test no longer exercises both", answered, near)
+	}
+}

@@ -233,6 +233,15 @@ func (d *DRF) ZoneIn(pz *PreparedZone) ZoneResult {
 //     units in the last place, so unless it lies within a billionth of
 //     rankTol (then the SVD decides) the comparison with rankTol gives the
 //     SVD's answer.
+//   - otherwise, at most six rows and six vectors: the singular values
+//     of the restricted conditions M (rows times f) are the square roots of
+//     the eigenvalues of MᵀM, which gramCount finds by Jacobi rotations.
+//     Both LAPACK's singular values and these square roots are within
+//     1e-9 of the exact ones here (M's entries are products of unit
+//     vectors, so ‖M‖ ≤ 1 and every error is a few hundred units in the
+//     last place of 1 at most, which a square root near rankTol turns
+//     into less than 1e-9); so unless one lies within a thousandth of
+//     rankTol (then the SVD decides), both count the same.
 func certainCount(f [][]float64, rows [][]float64) (n int, ok bool) {
 	switch {
 	case len(f) == 0:
@@ -251,8 +260,81 @@ func certainCount(f [][]float64, rows [][]float64) (n int, ok bool) {
 		case l < rankTol*(1-1e-9):
 			return 0, true
 		}
+	case len(f) <= 6 && len(rows) <= 6:
+		return gramCount(f, rows)
 	}
 	return 0, false
+}
+
+// gramCount is certainCount's last case: the number of eigenvalues of
+// MᵀM above rankTol², M[i][j] = rows[i]·f[j], found by the cyclic Jacobi
+// method (Golub and Van Loan, Matrix Computations, 4th ed., 2013, §8.5);
+// ok is false when one lies within a thousandth of rankTol of it (in
+// square root) or the rotations do not settle.
+func gramCount(f [][]float64, rows [][]float64) (n int, ok bool) {
+	k := len(f)
+	var m [6][6]float64
+	for i, r := range rows {
+		for j, v := range f {
+			m[i][j] = dot(r, v)
+		}
+	}
+	var a [6][6]float64
+	for p := range k {
+		for q := range k {
+			for i := range rows {
+				a[p][q] += m[i][p] * m[i][q]
+			}
+		}
+	}
+	settled := false
+	for sweep := 0; sweep < 30 && !settled; sweep++ {
+		off := 0.0
+		for p := range k {
+			for q := p + 1; q < k; q++ {
+				off += a[p][q] * a[p][q]
+			}
+		}
+		if off <= 1e-32 {
+			settled = true
+			break
+		}
+		for p := 0; p < k-1; p++ {
+			for q := p + 1; q < k; q++ {
+				if math.Abs(a[p][q]) <= 1e-300 {
+					continue
+				}
+				theta := (a[q][q] - a[p][p]) / (2 * a[p][q])
+				t := 1 / (math.Abs(theta) + math.Sqrt(theta*theta+1))
+				if theta < 0 {
+					t = -t
+				}
+				c := 1 / math.Sqrt(t*t+1)
+				s := t * c
+				for i := range k {
+					aip, aiq := a[i][p], a[i][q]
+					a[i][p], a[i][q] = c*aip-s*aiq, s*aip+c*aiq
+				}
+				for i := range k {
+					api, aqi := a[p][i], a[q][i]
+					a[p][i], a[q][i] = c*api-s*aqi, s*api+c*aqi
+				}
+			}
+		}
+	}
+	if !settled {
+		return 0, false
+	}
+	lo, hi := rankTol*rankTol*(1-2e-3), rankTol*rankTol*(1+2e-3)
+	for i := range k {
+		switch l := a[i][i]; {
+		case l > hi:
+			n++
+		case l >= lo:
+			return 0, false
+		}
+	}
+	return n, true
 }
 
 func to3(s space) [][3]float64 {
