@@ -243,7 +243,17 @@ func mismatchMessage(m basics.Mismatch) string {
 	if d.Along != nil {
 		along = " along " + basics.DirName(*d.Along)
 	}
-	return fmt.Sprintf("the nominal distance from %s to %s%s is %s, not %s", d.From.Name, d.To.Name, along, basics.Num(m.Nominal), basics.Num(d.Value))
+	from, to, every := d.From.Name, d.To.Name, ""
+	if m.Member != nil {
+		// A dimension on a pattern's name holds for every member.
+		if d.To.Member == nil && d.To.Feature == m.Member.Feature {
+			to = basics.Name(m.Member)
+		} else {
+			from = basics.Name(m.Member)
+		}
+		every = fmt.Sprintf(" (a dimension to the pattern %s applies to each member)", m.Member.Feature.Name)
+	}
+	return fmt.Sprintf("the nominal distance from %s to %s%s is %s, not %s%s", from, to, along, basics.Num(m.Nominal), basics.Num(d.Value), every)
 }
 
 // BasicToleranced reports a toleranced dimension locating a feature whose

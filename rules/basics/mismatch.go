@@ -14,7 +14,8 @@ type Mismatch struct {
 	// Nominal is the model's value: a length, an angle in degrees (in
 	// [0, 90]; its supplement is as good), or a bolt circle's diameter.
 	Nominal float64
-	// Member is the pattern member off a bolt circle; nil otherwise.
+	// Member is the pattern member off a bolt circle, or the member that a
+	// dimension on a whole pattern's name does not hold for; nil otherwise.
 	Member *model.Member
 	// Problem is set instead of Nominal when the dimension cannot hold in
 	// the model at all ("the axis of bolts.2 is not parallel to hub's").
@@ -37,38 +38,25 @@ func (e *Engine) Mismatches() []Mismatch {
 			}
 			continue
 		}
-		a, b := e.entityOf(&d.From), e.entityOf(&d.To)
-		if a == nil || b == nil || a == b {
-			continue
-		}
-		switch {
-		case d.Angle && d.About != nil:
-			hub := e.entityOf(d.About)
-			if hub == nil || hub.shape == planeShape || hub == a || hub == b {
-				continue
+		// A dimension on a pattern's name holds for every member: the
+		// first member it does not hold for is named.
+		var found *Mismatch
+		e.dimensionPairs(d, func(a, b *entity) {
+			if found != nil {
+				return
 			}
-			v, ok := e.aboutAngle(a, b, hub)
-			if !ok {
-				continue
+			if m, bad := e.pairMismatch(d, a, b, tol); bad {
+				switch {
+				case wholePattern(d.From):
+					m.Member = a.m
+				case wholePattern(d.To):
+					m.Member = b.m
+				}
+				found = &m
 			}
-			// To a plane, the angle may be read to its normal or to the plane.
-			plane := a.shape == planeShape || b.shape == planeShape
-			slack := (a.h+b.h+2*hub.h)/math.Max(e.tol, math.Min(radial(hub, a.p).Norm(), radial(hub, b.p).Norm()))*180/math.Pi + a.ah + b.ah + hub.ah
-			if !sameAngle(d.Value, lineFold(v), slack) && !(plane && sameAngle(d.Value, 90-v, slack)) {
-				out = append(out, Mismatch{Dim: d, Nominal: v})
-			}
-		case d.Angle:
-			if len(a.rb) == 0 || len(b.rb) == 0 {
-				continue
-			}
-			if v := lineAngle(a.d, b.d); !sameAngle(d.Value, v, a.ah+b.ah) {
-				out = append(out, Mismatch{Dim: d, Nominal: v})
-			}
-		default:
-			v, ok := distance(a, b, d.Along, e.tol)
-			if ok && math.Abs(math.Abs(d.Value)-v) > tol+a.h+b.h {
-				out = append(out, Mismatch{Dim: d, Nominal: v})
-			}
+		})
+		if found != nil {
+			out = append(out, *found)
 		}
 	}
 	return out
@@ -105,4 +93,43 @@ func lineFold(v float64) float64 {
 		return 180 - v
 	}
 	return v
+}
+
+// pairMismatch checks a dimension between two entities against the model.
+func (e *Engine) pairMismatch(d *model.Dimension, a, b *entity, tol float64) (Mismatch, bool) {
+	switch {
+	case d.Angle && d.About != nil:
+		hub := e.entityOf(d.About)
+		if hub == nil || hub.shape == planeShape || hub == a || hub == b {
+			return Mismatch{}, false
+		}
+		v, ok := e.aboutAngle(a, b, hub)
+		if !ok {
+			return Mismatch{}, false
+		}
+		// To a plane, the angle may be read to its normal or to the plane.
+		plane := a.shape == planeShape || b.shape == planeShape
+		slack := (a.h+b.h+2*hub.h)/math.Max(e.tol, math.Min(radial(hub, a.p).Norm(), radial(hub, b.p).Norm()))*180/math.Pi + a.ah + b.ah + hub.ah
+		if !sameAngle(d.Value, lineFold(v), slack) && !(plane && sameAngle(d.Value, 90-v, slack)) {
+			return Mismatch{Dim: d, Nominal: v}, true
+		}
+	case d.Angle:
+		if len(a.rb) == 0 || len(b.rb) == 0 {
+			return Mismatch{}, false
+		}
+		if v := lineAngle(a.d, b.d); !sameAngle(d.Value, v, a.ah+b.ah) {
+			return Mismatch{Dim: d, Nominal: v}, true
+		}
+	default:
+		v, ok := distance(a, b, d.Along, e.tol)
+		if ok && math.Abs(math.Abs(d.Value)-v) > tol+a.h+b.h {
+			return Mismatch{Dim: d, Nominal: v}, true
+		}
+	}
+	return Mismatch{}, false
+}
+
+// wholePattern reports whether a dimension's end names a whole pattern.
+func wholePattern(t model.Target) bool {
+	return t.Resolved() && t.Member == nil && t.Feature.Pattern
 }

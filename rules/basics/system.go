@@ -271,16 +271,57 @@ func diff(a, b row) row {
 	return out
 }
 
+// endsOf returns the entities a dimension's end stands for: one, or every
+// member where the end is a whole pattern (a dimension on a pattern's name
+// applies to every member: docs/notation.md, patterns and members).
+func (e *Engine) endsOf(t *model.Target) []*entity {
+	if t == nil || !t.Resolved() {
+		return nil
+	}
+	if t.Member == nil && t.Feature.Pattern {
+		out := make([]*entity, 0, len(t.Feature.Members))
+		for _, m := range t.Feature.Members {
+			if x := e.byMem[m]; x != nil {
+				out = append(out, x)
+			}
+		}
+		return out
+	}
+	if x := e.entityOf(t); x != nil {
+		return []*entity{x}
+	}
+	return nil
+}
+
+// dimensionPairs calls f for each pair of entities a dimension relates:
+// one pair, or one per member where one end is a whole pattern. A
+// dimension between two whole patterns, or between a pattern and one of
+// its own members, relates no one pair and is left out.
+func (e *Engine) dimensionPairs(d *model.Dimension, f func(a, b *entity)) {
+	as, bs := e.endsOf(&d.From), e.endsOf(&d.To)
+	if len(as) > 1 && len(bs) > 1 || (len(as) > 1 || len(bs) > 1) && d.From.Feature == d.To.Feature {
+		return
+	}
+	for _, a := range as {
+		for _, b := range bs {
+			if a != b {
+				f(a, b)
+			}
+		}
+	}
+}
+
 // dimRows turns a written dimension into relations (added to built).
 func (e *builder) dimRows(d *model.Dimension) {
 	if d.Circle != nil {
 		e.built = append(e.built, e.circleRows(d.Circle)...)
 		return
 	}
-	a, b := e.entityOf(&d.From), e.entityOf(&d.To)
-	if a == nil || b == nil || a == b {
-		return
-	}
+	e.dimensionPairs(d, func(a, b *entity) { e.pairRows(d, a, b) })
+}
+
+// pairRows turns a dimension between two entities into relations.
+func (e *builder) pairRows(d *model.Dimension, a, b *entity) {
 	if d.Angle {
 		if d.About != nil {
 			hub := e.entityOf(d.About)
