@@ -419,7 +419,7 @@ func (e *Engine) circleRows(c *model.BoltCircle) []row {
 // hub's axis, and those of the implied equal spacing.
 func (e *Engine) circleRowsOf(members []*entity, hub *entity) (radius, spacing []row) {
 	var clocks []row
-	var angles []float64
+	var angles, slack []float64
 	for _, x := range members {
 		w := radial(hub, x.p)
 		if w.Norm() <= e.tol {
@@ -434,9 +434,11 @@ func (e *Engine) circleRowsOf(members []*entity, hub *entity) (radius, spacing [
 			clocks = append(clocks, cr)
 			t1, t2 := perp(hub.d)[0], perp(hub.d)[1]
 			angles = append(angles, math.Atan2(w.Dot(t2), w.Dot(t1)))
+			// how far rounding alone may have turned the member about the axis
+			slack = append(slack, (x.h+hub.h)/w.Norm())
 		}
 	}
-	if equallySpaced(angles) {
+	if equallySpaced(angles, slack) {
 		for i := 1; i < len(clocks); i++ {
 			spacing = append(spacing, diff(clocks[i], clocks[i-1]))
 		}
@@ -445,21 +447,28 @@ func (e *Engine) circleRowsOf(members []*entity, hub *entity) (radius, spacing [
 }
 
 // equallySpaced reports whether angles (radians, any order) divide the
-// circle into equal parts.
-func equallySpaced(angles []float64) bool {
+// circle into equal parts, each angle within its slack (radians: how far
+// the rounding of the member's written coordinates may have turned it; a
+// bolt circle written with four decimals in inches is off 360/N by a
+// thousandth of a degree or more) and angleTol of its place.
+func equallySpaced(angles, slack []float64) bool {
 	n := len(angles)
 	if n < 2 {
 		return false
 	}
-	s := append([]float64(nil), angles...)
-	sort.Float64s(s)
+	idx := make([]int, n)
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.Slice(idx, func(a, b int) bool { return angles[idx[a]] < angles[idx[b]] })
 	step := 2 * math.Pi / float64(n)
-	for i := range s {
-		next := s[(i+1)%n]
+	for i, k := range idx {
+		j := idx[(i+1)%n]
+		next := angles[j]
 		if i == n-1 {
 			next += 2 * math.Pi
 		}
-		if math.Abs(next-s[i]-step) > angleTol*math.Pi/180 {
+		if math.Abs(next-angles[k]-step) > angleTol*math.Pi/180+slack[k]+slack[j] {
 			return false
 		}
 	}
