@@ -2,6 +2,7 @@ package rules
 
 import (
 	"fmt"
+	"math"
 
 	"github.com/datumlint/datumlint/grammar/model"
 )
@@ -25,7 +26,11 @@ on one of them. The same confusion shows when a face of a width is referenced at
 has a material boundary), when the two faces of one width carry separate letters and are used
 together in one frame (together they are the width, whose datum is its mid-plane), or when the
 symbol is recorded on a frame that the feature does not have. Each finding says which reading
-the file gives and how to write the other.`,
+the file gives and how to write the other. Where a letter is on one face of a width, with no
+placement recorded, and a feature toleranced to that datum lies on the width's mid-plane, the
+mid-plane was probably meant (measured from one face, the feature takes half the width's size
+tolerance as an error of its location): that is information, since a face datum is legitimate,
+and recording the placement (` + "`placed on-surface`" + `) says the face was meant.`,
 	Source: "ASME Y14.5-2018, datum feature symbol placement (features of size versus surfaces; from memory, section 7); ISO 5459:2011, indication of datum features; MMB on surfaces: ASME Y14.5-2018",
 	Bad: `feature slot_left plane normal -x at (40, 0, 0)
 feature slot_right plane normal +x at (50, 0, 0)
@@ -55,6 +60,7 @@ func runMidplaneAmbiguous(p *Pass) {
 	for _, d := range p.Part.Datums {
 		if d.Usable() {
 			placementContradiction(p, d)
+			faceForMidplane(p, d)
 		}
 	}
 
@@ -144,4 +150,68 @@ func placementContradiction(p *Pass, d *model.Datum) {
 				d.Letter, d.Target.Name, d.Target.Name)
 		}
 	}
+}
+
+// faceForMidplane informs where a letter is on one face of a width, with
+// no placement recorded, and a feature toleranced to that datum lies on the
+// width's mid-plane: features drawn symmetrical about a slot are usually
+// meant to be centred on it, and measured from one face they take half the
+// width's size tolerance as an error of their location (ASME Y14.5-2018,
+// datum features of size versus surfaces; from memory). A face datum is
+// legitimate, so this informs; recording the placement (`placed
+// on-surface`) says the face was meant and silences it.
+func faceForMidplane(p *Pass, d *model.Datum) {
+	f := d.Target.Feature
+	w := f.FaceOf
+	if d.Placement != "" || d.Target.Member != nil || w == nil || !w.HasGeometry || w.Broken {
+		return
+	}
+	a, b := w.Faces[0], w.Faces[1]
+	if !a.Resolved() || !b.Resolved() || !a.Feature.HasGeometry || !b.Feature.HasGeometry {
+		return
+	}
+	n := w.Dir.Unit()
+	mid := n.Dot(a.Feature.Point().Add(b.Feature.Point())) / 2
+	tol := p.Part.Tolerance()
+	for _, fr := range p.Part.Frames {
+		if !refersAlone(fr, d) || !fr.Target.Known() || fr.Target.Feature == f || fr.Target.Feature == w || fr.Target.Feature.FaceOf == w {
+			continue
+		}
+		t := fr.Target.Feature
+		if !t.HasGeometry || !(t.Kind.IsCylinder() || t.Kind.IsSphere()) || t.Kind.IsCylinder() && math.Abs(t.Dir.Unit().Dot(n)) > tol {
+			continue
+		}
+		members := t.Members
+		if fr.Target.Member != nil {
+			members = []*model.Member{fr.Target.Member}
+		}
+		on := len(members) > 0
+		for _, m := range members {
+			if math.Abs(n.Dot(m.Point)-mid) > tol {
+				on = false
+				break
+			}
+		}
+		if !on {
+			continue
+		}
+		p.Inform(d.LetterSpan, []Related{{fr.Target.Span, t.Name + " lies on the mid-plane of " + w.Name}},
+			"datum %s is on '%s', one face of the %s '%s', and %s, toleranced to %s (line %d), lies on the %s's mid-plane: if the mid-plane was meant, write `datum %s on %s`; if the face was, record it with `datum %s on %s placed on-surface`",
+			d.Letter, f.Name, w.Kind, w.Name, fr.Target.Name, d.Letter, fr.Span.Start.Line, w.Kind, d.Letter, w.Name, d.Letter, f.Name)
+		return
+	}
+}
+
+// refersAlone reports whether a frame references the datum by itself, not
+// only as one member of a common datum (two faces' common datum C-D is
+// their median plane already: ISO 5459:2011, common datums).
+func refersAlone(fr *model.Frame, d *model.Datum) bool {
+	for _, seg := range fr.Segments {
+		for _, r := range seg.Refs {
+			if len(r.Datums) == 1 && r.Datums[0] == d {
+				return true
+			}
+		}
+	}
+	return false
 }
