@@ -121,10 +121,27 @@ func written(src *source.File, sp source.Span, fallback string) string {
 // where the reader kept no text: a QIF document's value span covers its
 // <ToleranceValue> element, whose text is not the number.
 func toleranceText(s *model.Segment) string {
-	if s.ValueText != "" {
-		return s.ValueText
+	v := s.ValueText
+	if v == "" {
+		v = draw.Number(s.Value)
 	}
-	return draw.Number(s.Value)
+	return v + perUnitText(s.PerUnit)
+}
+
+// perUnitText is a tolerance's unit length or area after its slash
+// ("/25", "/25x25"), as written where the reader kept it; "" for a
+// tolerance on the whole feature.
+func perUnitText(u *model.PerUnit) string {
+	switch {
+	case u == nil:
+		return ""
+	case u.Text != "":
+		return "/" + u.Text
+	case u.Area:
+		return "/" + draw.Number(u.Length) + "x" + draw.Number(u.Width)
+	default:
+		return "/" + draw.Number(u.Length)
+	}
 }
 
 var trailingNumber = regexp.MustCompile(`[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$`)

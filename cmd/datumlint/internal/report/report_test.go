@@ -519,3 +519,27 @@ func TestQIFFramesShowTheirValues(t *testing.T) {
 		}
 	}
 }
+
+// A tolerance per unit length or area is drawn as the frame states it,
+// value and unit in one compartment (ASME Y14.5-2018, per-unit
+// straightness and flatness, from memory): the value alone would read as
+// a tolerance on the whole feature.
+func TestPerUnitToleranceDrawn(t *testing.T) {
+	src := []byte(`part "Per unit"
+units mm
+standard asme-2018
+feature edge1 pin size 6 +-0.1 axis +x at (0, 5, 5)
+feature base  plane normal -z at (0, 0, 0)
+frame edge1: straightness dia 0.01/25
+frame base: flatness 0.005/25x25
+`)
+	part := grammar.Read("per-unit.callouts", src)
+	p := Build(File{Path: "per-unit.callouts", Source: src, Part: part, Findings: rules.Check(part, nil)})
+	html := render(t, p)
+	for line, want := range map[int]string{6: "0.01/25", 7: "0.005/25x25"} {
+		svg := regexp.MustCompile(`<svg [^>]*class="fcf" [^>]*data-line="` + strconv.Itoa(line) + `".*?</svg>`).FindString(html)
+		if !strings.Contains(svg, ">"+want+"</text>") {
+			t.Errorf("line %d: the frame does not show %s: %s", line, want, svg)
+		}
+	}
+}
