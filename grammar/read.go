@@ -286,9 +286,14 @@ func (r *resolver) feature(s *FeatureStmt) *model.Feature {
 	count := 0
 	if s.Count != nil {
 		c := r.num(s.Count.N)
-		if c != math.Trunc(c) || c < 1 {
+		switch {
+		case c != math.Trunc(c) || c < 1:
 			r.errorf(s.Count.Span(), "a pattern count is a whole number of at least 1, e.g. 4x")
-		} else {
+		case c > math.MaxInt32:
+			// No file gives that many points, and int(c) would not keep
+			// the value: any count this large disagrees with the points.
+			count = math.MaxInt32
+		default:
 			count = int(c)
 		}
 	}
@@ -336,11 +341,11 @@ func (r *resolver) feature(s *FeatureStmt) *model.Feature {
 		}
 		ft.Members = []*model.Member{unwritten(ft)}
 		if count > 1 {
-			r.errorf(s.Count.Span(), "a width given 'between' two faces is a single feature; remove %dx", count)
+			r.errorf(s.Count.Span(), "a width given 'between' two faces is a single feature; remove %sx", numberText(s.Count.N))
 		}
 		return ft // geometry derived in pass 2
 	case count > 0 && count != len(ft.Members):
-		r.errorf(s.Count.Span(), "the pattern count says %d but %d points follow; give one point per member", count, len(ft.Members))
+		r.errorf(s.Count.Span(), "the pattern count says %s but %d points follow; give one point per member", numberText(s.Count.N), len(ft.Members))
 	case count == 0 && len(ft.Members) > 1:
 		r.errorf(g.Points[1].Span(), "%d points make a pattern: declare it with %dx after the kind, e.g. feature %s %s %dx ...", len(ft.Members), len(ft.Members), ft.Name, ft.Kind, len(ft.Members))
 	}

@@ -98,6 +98,8 @@ func TestValueErrors(t *testing.T) {
 		"feature a hol size 1 +-0.1 axis +z at (0,0,0)":                                         "did you mean 'hole'",
 		"feature a plane size 1 +-0.1 normal +z at (0,0,0)":                                     "not a feature of size",
 		"feature a hole 3x size 1 +-0.1 axis +z at (0,0,0) (1,0,0)":                             "says 3 but 2 points",
+		"feature a hole 99999999999999999999x size 1 +-0.1 axis +z at (0,0,0)":                  "says 99999999999999999999 but 1 points",
+		"feature a hole 18446744073709551617x size 1 +-0.1 axis +z at (0,0,0)":                  "says 18446744073709551617 but 1 points",
 		"feature a hole size 1 +-0.1 axis +z at (0,0,0) (1,0,0)":                                "declare it with 2x",
 		"feature a hole size 1 +-0.1 normal +z at (0,0,0)":                                      "not given with 'normal'",
 		"feature a plane normal (0,0,0) at (0,0,0)":                                             "must not be zero",

@@ -117,6 +117,33 @@ func written(src *source.File, sp source.Span, fallback string) string {
 	return string(src.Src[a:b])
 }
 
+// toleranceText is a segment's tolerance value as written, or the value
+// where the reader kept no text: a QIF document's value span covers its
+// <ToleranceValue> element, whose text is not the number.
+func toleranceText(s *model.Segment) string {
+	v := s.ValueText
+	if v == "" {
+		v = draw.Number(s.Value)
+	}
+	return v + perUnitText(s.PerUnit)
+}
+
+// perUnitText is a tolerance's unit length or area after its slash
+// ("/25", "/25x25"), as written where the reader kept it; "" for a
+// tolerance on the whole feature.
+func perUnitText(u *model.PerUnit) string {
+	switch {
+	case u == nil:
+		return ""
+	case u.Text != "":
+		return "/" + u.Text
+	case u.Area:
+		return "/" + draw.Number(u.Length) + "x" + draw.Number(u.Width)
+	default:
+		return "/" + draw.Number(u.Length)
+	}
+}
+
 var trailingNumber = regexp.MustCompile(`[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$`)
 
 // statementText is a statement as written on its lines: comments and
@@ -151,7 +178,7 @@ func frameOf(src *source.File, fr *model.Frame) draw.Frame {
 	out := draw.Frame{Line: fr.Span.Start.Line, Target: fr.Target.Name,
 		Characteristic: characteristics[fr.Characteristic], Statement: statementText(src, fr.Span)}
 	for _, s := range fr.Segments {
-		seg := draw.Segment{Value: written(src, s.ValueSpan, draw.Number(s.Value))}
+		seg := draw.Segment{Value: toleranceText(s)}
 		switch s.Zone {
 		case "dia":
 			seg.Zone = draw.Diameter
@@ -274,7 +301,7 @@ func materials(part *model.Part, src *source.File, setups *setup.Result) []Mater
 				if s, ok := material.SizeOf(fr.Target.Feature); ok {
 					if f, err := material.Compute(s, seg.Value, c); err == nil {
 						title := fmt.Sprintf("%s: %s %s at %s, line %d", fr.Target.Name, fr.Characteristic,
-							written(src, seg.ValueSpan, draw.Number(seg.Value)), c, seg.Span.Start.Line)
+							toleranceText(seg), c, seg.Span.Start.Line)
 						out = append(out, MaterialEntry{Line: seg.Span.Start.Line, Figure: draw.MaterialFigure{
 							Title: title, Units: units, Internal: s.Internal, Condition: c.String(),
 							MMC: f.MMC, LMC: f.LMC, Tolerance: f.Tolerance, Virtual: f.Virtual,

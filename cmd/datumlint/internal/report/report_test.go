@@ -13,6 +13,7 @@ import (
 	"github.com/datumlint/datumlint/cmd/datumlint/internal/report/draw"
 	"github.com/datumlint/datumlint/grammar"
 	"github.com/datumlint/datumlint/grammar/model"
+	"github.com/datumlint/datumlint/grammar/qif"
 	"github.com/datumlint/datumlint/rules"
 	"github.com/datumlint/datumlint/rules/dof"
 )
@@ -483,5 +484,62 @@ func TestSetupProblem(t *testing.T) {
 	}
 	if html := render(t, p); !strings.Contains(html, "Not worked out: datum E is not declared.") {
 		t.Error("the page does not say why A, B, E was not worked out")
+	}
+}
+
+// A QIF document's frames are drawn with their tolerance values: the value
+// spans of a QIF part cover XML elements, not the number, so a compartment
+// must show the model's value, never the element's start tag.
+func TestQIFFramesShowTheirValues(t *testing.T) {
+	path := filepath.Join(examples, "bearing-flange.qif")
+	src, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	part := qif.Read(path, src)
+	if len(part.Frames) == 0 {
+		t.Fatal("the QIF example has no frames")
+	}
+	ds := rules.Check(part, nil)
+	p := Build(File{Path: path, Source: src, Part: part, Findings: ds})
+	html := render(t, p)
+	if strings.Contains(html, "ToleranceValue") {
+		t.Error("the page shows a QIF element's tag where a tolerance value belongs")
+	}
+	for _, fr := range part.Frames {
+		svg := regexp.MustCompile(`<svg [^>]*class="fcf" [^>]*data-line="` + strconv.Itoa(fr.Span.Start.Line) + `".*?</svg>`).FindString(html)
+		if svg == "" {
+			t.Errorf("line %d: the frame is not drawn", fr.Span.Start.Line)
+			continue
+		}
+		for _, seg := range fr.Segments {
+			if want := ">" + draw.Number(seg.Value) + "</text>"; !strings.Contains(svg, want) {
+				t.Errorf("line %d: the frame's compartment does not show the tolerance %s: %s", fr.Span.Start.Line, draw.Number(seg.Value), svg)
+			}
+		}
+	}
+}
+
+// A tolerance per unit length or area is drawn as the frame states it,
+// value and unit in one compartment (ASME Y14.5-2018, per-unit
+// straightness and flatness, from memory): the value alone would read as
+// a tolerance on the whole feature.
+func TestPerUnitToleranceDrawn(t *testing.T) {
+	src := []byte(`part "Per unit"
+units mm
+standard asme-2018
+feature edge1 pin size 6 +-0.1 axis +x at (0, 5, 5)
+feature base  plane normal -z at (0, 0, 0)
+frame edge1: straightness dia 0.01/25
+frame base: flatness 0.005/25x25
+`)
+	part := grammar.Read("per-unit.callouts", src)
+	p := Build(File{Path: "per-unit.callouts", Source: src, Part: part, Findings: rules.Check(part, nil)})
+	html := render(t, p)
+	for line, want := range map[int]string{6: "0.01/25", 7: "0.005/25x25"} {
+		svg := regexp.MustCompile(`<svg [^>]*class="fcf" [^>]*data-line="` + strconv.Itoa(line) + `".*?</svg>`).FindString(html)
+		if !strings.Contains(svg, ">"+want+"</text>") {
+			t.Errorf("line %d: the frame does not show %s: %s", line, want, svg)
+		}
 	}
 }
