@@ -69,6 +69,21 @@ var flagNotes = map[string]string{
 // frames, sizes the size of their features, distances and angles basic or
 // toleranced dimensions.
 func (m *mapper) characteristics() {
+	m.drfUse = map[ID]int{}
+	for _, c := range m.doc.CharNominals {
+		if c.Def == nil || m.doc.CharDefs[c.Def.ID] == nil {
+			continue
+		}
+		def := m.doc.CharDefs[c.Def.ID]
+		if def.DRF != nil {
+			m.drfUse[def.DRF.ID]++
+		}
+		for _, cs := range def.Composites {
+			if cs.DRF != nil {
+				m.drfUse[cs.DRF.ID]++
+			}
+		}
+	}
 	for _, c := range m.doc.CharNominals {
 		if c.Def == nil {
 			m.note(Inconsistent, c.Span, "characteristic nominal %d names no definition: left out", c.ID)
@@ -200,7 +215,7 @@ func (m *mapper) segments(c *CharNominal, def *CharDef, t tgt) ([]*model.Segment
 		m.note(Unsupported, c.Span, "%s nominal %d is left out: its datum reference frame cannot be read", c.Type, c.ID)
 		return nil, false
 	}
-	upper.Refs = refs
+	upper.Refs = m.ownRefs(refs, def.DRF, c.Span)
 	segs := []*model.Segment{upper}
 	for _, cs := range def.Composites {
 		seg := &model.Segment{Composite: true, Span: cs.Span}
@@ -228,6 +243,7 @@ func (m *mapper) segments(c *CharNominal, def *CharDef, t tgt) ([]*model.Segment
 			m.note(Unsupported, c.Span, "%s nominal %d is left out: the datum reference frame of a composite segment cannot be read", c.Type, c.ID)
 			return nil, false
 		}
+		seg.Refs = m.ownRefs(seg.Refs, cs.DRF, c.Span)
 		segs = append(segs, seg)
 	}
 	return segs, true

@@ -327,6 +327,39 @@ func (m *mapper) material(w *Word, what string) string {
 	return ""
 }
 
+// ownRefs places a frame's datum references on its characteristic's
+// element where their datum reference frame serves several
+// characteristics: a finding about one frame's use of a datum (not needed,
+// at a boundary it may not have) is then that frame's, as it is for the
+// frames an import writes, rather than merged with the others' on the
+// shared element.
+func (m *mapper) ownRefs(refs []*model.DatumRef, drf *Ref, own source.Span) []*model.DatumRef {
+	if drf == nil || m.drfUse[drf.ID] < 2 {
+		return refs
+	}
+	out := make([]*model.DatumRef, len(refs))
+	for i, r := range refs {
+		c := *r
+		c.Span = own
+		if !c.FullSpan.IsZero() {
+			c.FullSpan = own
+		}
+		if !c.MatSpan.IsZero() {
+			c.MatSpan = own
+		}
+		if c.MatSpans != nil {
+			c.MatSpans = append([]source.Span(nil), c.MatSpans...)
+			for j := range c.MatSpans {
+				if !c.MatSpans[j].IsZero() {
+					c.MatSpans[j] = own
+				}
+			}
+		}
+		out[i] = &c
+	}
+	return out
+}
+
 // drfRefs builds a frame segment's datum references from a datum reference
 // frame, in precedence order. It fails (false) where the frame cannot be
 // read faithfully; the caller then leaves the characteristic out.

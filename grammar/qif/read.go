@@ -132,6 +132,7 @@ type mapper struct {
 	sized   map[*model.Feature]sizedBy
 	itemsOf map[ID][]*CharItem // characteristic items by nominal
 	planes  []*feat            // the mapped planes, for datum target zones
+	drfUse  map[ID]int         // how many frame segments each datum reference frame serves
 }
 
 // sizedBy is the size characteristic that gave a feature its size.

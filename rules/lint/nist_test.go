@@ -70,9 +70,9 @@ var nistTriage = []struct {
 	{model: "nist_ctc_03_asme1_ap242", each: []triaged{
 		{190, "datum-unused", `^datum F is declared but no frame references it`, real,
 			"datum F is declared on hole 3066 and no datum reference frame uses it", ""},
-		{317, "datum-unneeded", `^B is not needed by this surface-profile`, real,
+		{33682, "datum-unneeded", `^B is not needed by this surface-profile`, real,
 			"the profile of D, a plane parallel to the primary A: B and C constrain nothing of its zone (an info)", ""},
-		{327, "datum-unneeded", `^C is not needed by this surface-profile`, real,
+		{33682, "datum-unneeded", `^C is not needed by this surface-profile`, real,
 			"as for B", ""},
 		{33301, "qif-inconsistent", `^the geometric tolerances are labelled mm \(13 values\) and the sizes and dimensions inch \(25 values\)`, real,
 			"the document labels its sizes in inches and its tolerances in mm while every value is in one unit system on the drawing", ""},
@@ -84,9 +84,9 @@ var nistTriage = []struct {
 	{model: "nist_ftc_06_asme1_ap242", each: []triaged{
 		{160, "datum-unqualified", `^datum A is used as secondary to E, and 'plane_3566' is related to E only the other way round`, real,
 			"an info: A and E are related, but by E's profile to A, the reverse of the precedence of the frame that puts E first", ""},
-		{270, "datum-unneeded", `^B is not needed by this surface-profile`, real,
+		{39357, "datum-unneeded", `^B is not needed by this surface-profile`, real,
 			"profiles of planes parallel to the primary A: B and C constrain nothing of their zones (an info)", ""},
-		{280, "datum-unneeded", `^C is not needed by this surface-profile`, real,
+		{39357, "datum-unneeded", `^C is not needed by this surface-profile`, real,
 			"as for B", ""},
 		{38924, "qif-inconsistent", `^the zone of datum target K2 \(feature zone 3743\) is 1\.002 in off the plane it names`, real,
 			"the document puts target K2 on one face of the V and its zone on the other", ""},
