@@ -63,6 +63,12 @@ func (f *runFlags) prepare(cmd *cobra.Command, configArgs []string) (*configSetu
 		}
 		failOn = s
 	}
+	if f.maxBytes <= 0 {
+		return nil, lint.Options{}, 0, fmt.Errorf("--max-bytes takes a number of bytes above 0, not %d", f.maxBytes)
+	}
+	if f.workers < 0 {
+		return nil, lint.Options{}, 0, fmt.Errorf("--workers takes 0 (one per core) or more, not %d", f.workers)
+	}
 	if cfg.maxBytes > 0 && !cmd.Flags().Changed("max-bytes") {
 		f.maxBytes = cfg.maxBytes
 	}

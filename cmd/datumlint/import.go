@@ -47,6 +47,9 @@ the error gives its position); 2: a usage error or a file that could not be read
 }
 
 func runImport(stdout, stderr io.Writer, path, out string, maxBytes int64) error {
+	if maxBytes <= 0 {
+		return &exitError{2, fmt.Sprintf("--max-bytes takes a number of bytes above 0, not %d", maxBytes)}
+	}
 	if !lint.IsQIF(path) {
 		return &exitError{2, fmt.Sprintf("%s: import reads QIF documents (.qif)", path)}
 	}
