@@ -239,6 +239,10 @@ func (p *fastParser) number(n *Number) *Number {
 	}
 	n.node = p.open()
 	n.Text = p.take()
+	if !finiteLiteral(n.Text) {
+		// participle's path reports the statement (outOfRange).
+		p.fail()
+	}
 	p.close(&n.node)
 	return n
 }

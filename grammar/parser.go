@@ -4,6 +4,8 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
+	"math"
+	"strconv"
 	"strings"
 	"sync"
 	"unicode/utf8"
@@ -243,7 +245,35 @@ func parseStmt(name string, rs rawStmt) Stmt {
 	if err != nil {
 		return bad(rs, sig, friendly(err, sig, eof))
 	}
+	if e := outOfRange(sig); e != nil {
+		return bad(rs, sig, e)
+	}
 	return st
+}
+
+// outOfRange reports the first number of a statement that is no finite
+// float64 (1e999): such a statement does not parse, so that nothing is read
+// from it as a zero (a zero tolerance, a dimension of 0) and found wrong a
+// second time, and the names in it are kept as for any statement that does
+// not parse.
+func outOfRange(sig []token) *SyntaxError {
+	for _, t := range sig {
+		if t.Type == tokNumber && !finiteLiteral(t.Value) {
+			return &SyntaxError{Span: t.span, Msg: fmt.Sprintf("the number %s is out of range", t.Value)}
+		}
+	}
+	return nil
+}
+
+// finiteLiteral reports whether a number literal is a finite float64. Only a
+// literal with an exponent or of more than 300 digits can fail, so most
+// are passed without parsing.
+func finiteLiteral(text string) bool {
+	if len(text) <= 300 && strings.IndexAny(text, "eE") < 0 {
+		return true
+	}
+	v, err := strconv.ParseFloat(text, 64)
+	return err == nil && !math.IsInf(v, 0) && !math.IsNaN(v)
 }
 
 func run[T any](p *participle.Parser[T], pl *lexer.PeekingLexer) (Stmt, error) {
