@@ -77,6 +77,11 @@ func parseBoth(src []byte) []stmtResult {
 			continue
 		}
 		r.ref, r.refErr = participleStmt(sig[0].Value, all, eof)
+		if e := outOfRange(sig); r.refErr == nil && e != nil {
+			// parseStmt rejects what participle accepts with a number
+			// beyond a float64; the fast parser must leave it.
+			r.ref, r.refErr = nil, e
+		}
 		out = append(out, r)
 	}
 	return out
