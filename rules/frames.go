@@ -149,7 +149,9 @@ hole or pin is nearly always meant as a cylindrical zone; without dia it is a zo
 two parallel planes, in one direction only. That is right where the frame says which direction
 (bidirectional positional tolerancing: one frame per direction, each written with
 'along DIR', a direction across the axis), and such a frame is not reported; a direction on a
-cylindrical zone, on another characteristic or across the wrong line is. Two cases are
+cylindrical zone, on another characteristic or across the wrong line is. A QIF document that
+states the zone outright as two parallel planes (NonDiametricalZone) without their direction
+meant the planes, so that is information asking for the direction, not a warning. Two cases are
 characteristic-mismatch's finding instead, so that one mistake gives one finding: dia on the
 orientation of a feature without an axis, and any zone of a form characteristic on a kind it
 does not apply to (flatness dia on a pin).`,
@@ -181,6 +183,12 @@ does not apply to (flatness dia on a pin).`,
 					continue
 				}
 				if msg, to := zoneProblem(fr.Characteristic, k, seg.Zone); msg != "" {
+					if seg.PlanesStated && to == "dia" {
+						// Two parallel planes stated outright (QIF): meant,
+						// not a forgotten dia; only their direction is not said.
+						p.Inform(seg.ZoneSpan, nil, "the position of the %s %s is toleranced in a zone of two parallel planes without their direction: give the zone's direction (a ZoneOrientationVector, `along DIR` in the notation) so that it is defined which way the planes lie (bidirectional positional tolerancing)", k, fr.Target.Name)
+						continue
+					}
 					sp := seg.ZoneSpan
 					var e Edit
 					switch {

@@ -342,6 +342,10 @@ type Segment struct {
 	// direction (bidirectional positional tolerancing); nil otherwise.
 	ZoneDir     *Vec
 	ZoneDirSpan source.Span
+	// PlanesStated is set where the source says outright that the zone is
+	// two parallel planes (a QIF NonDiametricalZone, at ZoneSpan), which
+	// the notation says by writing no zone word.
+	PlanesStated bool
 	// Separate is a separate requirement: the segment's zone is not
 	// simultaneous with others on the same datums (ASME Y14.5-2018,
 	// simultaneous requirements).

@@ -313,6 +313,8 @@ func (m *mapper) zone(s *model.Segment, z *Word, dir *Vec3) {
 		s.Zone, s.ZoneSpan = "dia", z.Span
 	case "SphericalZone":
 		s.Zone, s.ZoneSpan = "sdia", z.Span
+	case "NonDiametricalZone":
+		s.PlanesStated, s.ZoneSpan = true, z.Span
 	}
 	if dir != nil {
 		if dir.V.Norm() == 0 {

@@ -78,8 +78,8 @@ var nistTriage = []struct {
 			"the document labels its sizes in inches and its tolerances in mm while every value is in one unit system on the drawing", ""},
 		{33670, "qif-inconsistent", `^the angularity's angle -1 is not an angle`, real,
 			"an angularity's nominal angle of -1 is no angle", ""},
-		{33406, "zone-shape", `^the position of a hole is normally a cylindrical zone`, knownFalse,
-			"bidirectional position of hole_3064 (a second frame with a diameter zone): the parallel-planes zone is meant", issue11},
+		{33410, "zone-shape", `^the position of the hole hole_3064 is toleranced in a zone of two parallel planes without their direction`, real,
+			"an info: the document states a NonDiametricalZone (meant, beside a second frame with a diameter zone) but not the planes' direction", ""},
 	}},
 	{model: "nist_ftc_06_asme1_ap242", each: []triaged{
 		{160, "datum-unqualified", `^datum A is used as secondary to E, and 'plane_3566' is related to E only the other way round`, real,
